@@ -1,0 +1,28 @@
+// A case file: title, database choice, activity model and the waters (steps come with the
+// process layer).
+#pragma once
+
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "deltag/activity.hpp"
+#include "deltag/water.hpp"
+
+namespace deltag::io {
+
+struct Case {
+    std::string path;                 // the file read ("" when parsed from text)
+    std::string title;
+    std::string database = "core";    // "core" or a path (relative to the case file)
+    SourceLocation database_where;
+    activity::ModelKind activity_model = activity::ModelKind::davies;
+    std::vector<WaterAnalysis> waters;  // in file order
+};
+
+// Reads and validates a case file. Throws InputError (file, line, column, key, what was
+// expected, nearest valid name) on any problem; never returns a partly read case.
+Case read_case(const std::string& path);
+Case parse_case(std::string_view toml_text, const std::string& origin);
+
+}  // namespace deltag::io

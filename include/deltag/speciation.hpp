@@ -1,0 +1,121 @@
+// Aqueous speciation: from component totals (and pH, pe) to the molality, activity and
+// activity coefficient of every species, solved with KINSOL (Newton with line search) on
+// log-space unknowns with an analytic Jacobian.
+#pragma once
+
+#include <cstddef>
+#include <map>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "deltag/activity.hpp"
+#include "deltag/database.hpp"
+
+namespace deltag::equilibrium {
+
+// Every solver knob, with its default.
+struct SolverOptions {
+    int max_iterations = 200;          // Newton iterations per attempt
+    double tolerance = 1e-12;          // max |scaled residual| to accept (mass balances relative)
+    double step_tolerance = 1e-16;     // smallest scaled step before KINSOL gives up
+    double max_step_log10 = 3.0;       // largest Newton step, in log10 units of any unknown
+    bool allow_fallback = true;        // retry from an ideal-solution start when the first attempt fails
+};
+
+// What the solver did.
+struct SolveSummary {
+    bool converged = false;
+    int iterations = 0;            // Newton iterations over all attempts
+    int residual_evaluations = 0;
+    int attempts = 0;              // 1 = the first start worked
+    double residual_norm = 0.0;    // max |scaled residual| at the end
+    std::string stop_reason;       // why the last attempt stopped
+    std::string method;            // "KINSOL Newton, line search"; with the fallback named
+    double seconds = 0.0;
+
+    std::string brief() const;     // one line
+    std::string full() const;      // several lines
+};
+
+// What is known about one component (not H2O, H+ or e-).
+struct ComponentInput {
+    enum class Kind { total, alkalinity };
+    std::size_t component = 0;  // index into Database::species()
+    Kind kind = Kind::total;
+    double value = 0.0;         // mol/kgw (total) or eq/kgw (total alkalinity)
+};
+
+struct SpeciationInput {
+    std::string label;                       // for messages: the water's or step's name
+    double temperature_c = 25.0;
+    activity::ModelKind activity_model = activity::ModelKind::davies;
+    std::vector<ComponentInput> components;  // one per component present
+    std::optional<double> ph;                // fixed pH; absent: pH from charge balance
+    std::optional<double> pe;                // fixed pe; absent: redox species left out
+    // With a fixed pH, close the charge balance by adjusting this component's total.
+    std::optional<std::size_t> charge_balance_component;
+};
+
+struct SpeciesResult {
+    std::size_t species = 0;  // index into Database::species()
+    std::string name;
+    double molality = 0.0;
+    double activity = 0.0;
+    double log_gamma = 0.0;
+};
+
+enum class Verdict { precipitation_favoured, dissolution_favoured, at_equilibrium };
+std::string_view verdict_text(Verdict v);
+
+struct SaturationResult {
+    std::string phase;
+    bool is_gas = false;
+    double log_iap = 0.0;
+    double log_k = 0.0;
+    double si = 0.0;                  // log IAP - log K
+    double delta_g_kj_per_mol = 0.0;  // RT ln(IAP/K) of the dissolution reaction
+    Verdict verdict = Verdict::at_equilibrium;
+};
+
+// The saturation tolerance: |SI| within this counts as at equilibrium. 0.05 log units is
+// about the uncertainty of log K of the common minerals at 25 degC (common practice).
+inline constexpr double default_si_tolerance = 0.05;
+
+struct SpeciationResult {
+    std::string label;
+    double temperature_c = 25.0;
+    double ph = 7.0;
+    std::optional<double> pe;
+    double ionic_strength = 0.0;
+    double water_activity = 1.0;
+    activity::ModelKind activity_model = activity::ModelKind::davies;
+    std::vector<SpeciesResult> species;       // every species in the system, database order
+    std::vector<double> component_totals;     // indexed like Database::species(); 0 if absent
+    std::vector<bool> component_present;
+    std::vector<double> component_log_activity;   // log10 a of each component species (NaN if absent)
+    std::map<std::string, double> element_totals;  // mol/kgw, by element (not H, O)
+    double alkalinity_eq = 0.0;               // total alkalinity, eq/kgw
+    double cations_meq = 0.0;                 // sum of z*m over cations, meq/kgw
+    double anions_meq = 0.0;                  // sum of |z|*m over anions, meq/kgw
+    double charge_balance_error_percent = 0.0;  // Standard Methods 1030 E
+    std::vector<SaturationResult> saturation;
+    std::vector<std::string> warnings;
+    SolveSummary summary;
+
+    const SpeciesResult* find(std::string_view name) const;
+};
+
+// Solves one speciation. Throws InputError for an input that cannot be set up and
+// ConvergenceError when every attempt fails. `start` (a previous result of the same
+// components) gives a warm start.
+SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& input,
+                          const SolverOptions& options = {},
+                          const SpeciationResult* start = nullptr);
+
+// Saturation of every mineral and gas whose components are all present in the result.
+std::vector<SaturationResult> saturation_indices(const thermo::Database& db,
+                                                 const SpeciationResult& result,
+                                                 double si_tolerance = default_si_tolerance);
+
+}  // namespace deltag::equilibrium

@@ -1,0 +1,47 @@
+// A water as a lab reports it, and its conversion into solver input (units, "as", density).
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "deltag/database.hpp"
+#include "deltag/error.hpp"
+#include "deltag/speciation.hpp"
+
+namespace deltag {
+
+struct AnalyteValue {
+    std::string name;   // analyte key as the lab writes it (Ca, SO4, Alkalinity, ...)
+    double value = 0.0;
+    std::string unit;   // empty: the water's default unit
+    std::string as;     // empty, an element (N, C, Si, ...) or "CaCO3"
+    SourceLocation where;
+    std::string key;    // dotted key for messages: water.NAME.analytes.X
+};
+
+struct WaterAnalysis {
+    std::string name;
+    double temperature_c = 25.0;
+    std::optional<double> ph;
+    std::optional<double> pe;
+    std::string charge_balance;                  // "", "pH" or an analyte name
+    std::string units = "mg/L";                  // default unit of the analytes
+    std::optional<double> density_kg_per_l;      // solution density; default from temperature
+    std::vector<AnalyteValue> analytes;
+    SourceLocation where;                        // the [water.NAME] table
+    SourceLocation charge_balance_where;
+};
+
+// Units a concentration may be given in.
+const std::vector<std::string>& concentration_units();
+
+// Turns a lab analysis into solver input: resolves analytes to components, converts units
+// (per litre of solution and per kg of solution to per kg of water, using the density and
+// the dissolved solids), applies "as", sets pH, pe and the charge-balance choice.
+// Throws InputError naming the water, the analyte and the nearest valid name.
+equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water,
+                                                 const thermo::Database& db,
+                                                 activity::ModelKind model);
+
+}  // namespace deltag

@@ -1,0 +1,29 @@
+// Properties of liquid water at 0-100 degC and about 1 atm (saturation pressure above 100 degC
+// is not covered): density, relative permittivity, Debye-Hueckel A and B.
+#pragma once
+
+namespace deltag::thermo {
+
+// Density of air-free water at 1 atm, kg/m^3. Kell (1975) J. Chem. Eng. Data 20, 97,
+// valid 0-150 degC.
+double water_density_kg_m3(double temperature_c);
+
+// Relative permittivity (dielectric constant) of water. Malmberg & Maryott (1956)
+// J. Res. Natl. Bur. Stand. 56, 1, valid 0-100 degC.
+double water_relative_permittivity(double temperature_c);
+
+struct DebyeHuckelParameters {
+    double a;  // A, kg^1/2 mol^-1/2 (log10 basis)
+    double b;  // B, kg^1/2 mol^-1/2 per angstrom
+};
+
+// A and B of Debye-Hueckel theory from the density and permittivity above and CODATA 2018
+// constants: A = (2 pi N_A rho)^(1/2) (e^2 / (4 pi eps0 eps k T))^(3/2) / ln 10 and
+// B = (2 N_A rho e^2 / (eps0 eps k T))^(1/2), converted to per angstrom.
+DebyeHuckelParameters debye_huckel_parameters(double temperature_c);
+
+// pKw = -log10 Kw (molal) of water on the saturation curve, from the formulation of
+// Bandura & Lvov (2006) J. Phys. Chem. Ref. Data 35, 15, using the density above.
+double water_pkw(double temperature_c);
+
+}  // namespace deltag::thermo

@@ -1,0 +1,45 @@
+// Internal: the chemical system of one solve (the species that can form from the components
+// present, their log K at the temperature, stoichiometry, charges and activity parameters)
+// and the residual/Jacobian of the speciation equations.
+#pragma once
+
+#include <memory>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include <Eigen/Dense>
+
+#include "deltag/activity.hpp"
+#include "deltag/database.hpp"
+#include "deltag/speciation.hpp"
+
+namespace deltag::equilibrium {
+
+// Columns of the stoichiometry: the components in play.
+struct ComponentColumn {
+    std::size_t component;  // database index
+    enum class Role { unknown, proton_unknown, proton_fixed, water, electron_fixed } role;
+    int unknown = -1;       // index into the unknown vector, if any
+};
+
+struct ChemicalSystem {
+    const thermo::Database* db = nullptr;
+    double temperature_c = 25.0;
+    std::vector<ComponentColumn> columns;
+    std::vector<std::size_t> species;        // database indices of the species in play (no H2O, no e-)
+    Eigen::MatrixXd nu;                      // species x columns, formation coefficients
+    Eigen::VectorXd log_k;                   // formation log K at the temperature
+    Eigen::VectorXd charge;
+    Eigen::VectorXd alkalinity;
+    std::vector<activity::SpeciesParameters> params;
+    std::unique_ptr<activity::ActivityModel> model;
+    std::vector<std::string> warnings;       // from the build (T ranges, redox species left out)
+
+    int column_of(std::size_t component) const;
+};
+
+// Builds the system for the components present in `input`.
+ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& input);
+
+}  // namespace deltag::equilibrium

@@ -1,0 +1,169 @@
+// The text report: a summary block first, then species grouped by component with the share
+// of the component each one holds, then saturation with verdicts, warnings and the caution.
+#include <fmt/format.h>
+
+#include <algorithm>
+#include <cmath>
+
+#include "deltag/constants.hpp"
+#include "deltag/report.hpp"
+
+namespace deltag::io {
+
+std::string_view caution_text() {
+    return "Caution: these are equilibrium calculations from the data given, not a design. Decisions on "
+           "drinking water, chemical dosing, pressure equipment or cathodic protection follow local codes "
+           "and rest with licensed engineers.";
+}
+
+namespace {
+
+std::string rule(char c = '-', std::size_t n = 78) { return std::string(n, c) + "\n"; }
+
+// Display width of UTF-8 text (code points; all our symbols are one column wide).
+std::size_t width(std::string_view s) {
+    std::size_t n = 0;
+    for (unsigned char c : s)
+        if ((c & 0xC0) != 0x80) ++n;
+    return n;
+}
+
+std::string pad(std::string_view s, std::size_t w) {
+    std::string out(s);
+    for (std::size_t n = width(s); n < w; ++n) out += ' ';
+    return out;
+}
+
+std::string sci(double v) { return fmt::format("{:.3e}", v); }
+
+std::string summary_block(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
+    std::string out;
+    auto line = [&](std::string_view k, const std::string& v) { out += "  " + pad(k, 22) + v + "\n"; };
+    line("temperature", fmt::format("{:.1f} °C", r.temperature_c));
+    line("pH", fmt::format("{:.3f}", r.ph));
+    if (r.pe) {
+        const double slope = constants::nernst_slope_v(r.temperature_c + constants::zero_celsius_k);
+        line("pe / Eh", fmt::format("{:.2f} / {:.3f} V vs SHE", *r.pe, *r.pe * slope));
+    } else {
+        line("pe / Eh", "not given (redox species left out)");
+    }
+    line("ionic strength", fmt::format("{:.4g} mol/kgw", r.ionic_strength));
+    line("water activity", fmt::format("{:.5f}", r.water_activity));
+    line("total alkalinity", fmt::format("{:.4g} meq/kgw", r.alkalinity_eq * 1000.0));
+    line("charge balance", fmt::format("{:+.2f} % (cations {:.4g}, anions {:.4g} meq/kgw; Standard Methods 1030 E)",
+                                       r.charge_balance_error_percent, r.cations_meq, r.anions_meq));
+    line("activity model", std::string(activity::model_name(r.activity_model)));
+    line("solver", r.summary.brief());
+    // Verdicts in one line each.
+    std::vector<std::string> over, at, under;
+    for (const auto& s : r.saturation) {
+        if (s.is_gas) continue;
+        const std::string item = fmt::format("{} ({:+.2f})", s.phase, s.si);
+        switch (s.verdict) {
+            case equilibrium::Verdict::precipitation_favoured: over.push_back(item); break;
+            case equilibrium::Verdict::at_equilibrium: at.push_back(item); break;
+            case equilibrium::Verdict::dissolution_favoured: under.push_back(item); break;
+        }
+    }
+    auto join = [](const std::vector<std::string>& v) {
+        if (v.empty()) return std::string("none");
+        std::string s;
+        for (const auto& x : v) s += (s.empty() ? "" : ", ") + x;
+        return s;
+    };
+    line("supersaturated", join(over));
+    line("at equilibrium", join(at) + fmt::format("  (|SI| <= {})", equilibrium::default_si_tolerance));
+    line("undersaturated", under.empty() ? std::string("none") : fmt::format("{} phases", under.size()));
+    (void)db;
+    return out;
+}
+
+std::string totals_block(const equilibrium::SpeciationResult& r) {
+    std::string out = "Totals\n";
+    out += fmt::format("  {:<10}{:>14}{:>14}\n", "element", "mol/kgw", "mg/kgw");
+    for (const auto& [el, m] : r.element_totals) {
+        const double mg = m * chem::atomic_weight(el).value_or(0.0) * 1000.0;
+        out += fmt::format("  {:<10}{:>14}{:>14.4g}\n", el, sci(m), mg);
+    }
+    return out;
+}
+
+std::string species_block(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
+    std::string out = "Species, grouped by component (share = moles of the component in the species / total)\n";
+    out += "  " + pad("species", 18) + fmt::format("{:>14}{:>14}{:>10}{:>10}\n", "mol/kgw", "activity", "log γ", "share %");
+    for (std::size_t j = 0; j < db.component_count(); ++j) {
+        if (!r.component_present[j]) continue;
+        const thermo::Species& comp = db.species()[j];
+        if (comp.role != thermo::ComponentRole::ordinary) continue;
+        const double total = r.component_totals[j];
+        if (!(total > 0)) continue;
+        out += fmt::format("  {} (total {} mol/kgw)\n", chem::pretty(comp.name), sci(total));
+        std::vector<std::pair<double, const equilibrium::SpeciesResult*>> rows;
+        for (const auto& s : r.species) {
+            double nu = 0.0;
+            for (const auto& [k, v] : db.species()[s.species].formation)
+                if (k == j) nu = v;
+            if (nu <= 0) continue;
+            rows.emplace_back(100.0 * nu * s.molality / total, &s);
+        }
+        std::sort(rows.begin(), rows.end(), [](const auto& a, const auto& b) { return a.first > b.first; });
+        for (const auto& [share, s] : rows) {
+            if (share < 0.01) continue;
+            out += "    " + pad(chem::pretty(s->name), 16) +
+                   fmt::format("{:>14}{:>14}{:>10.4f}{:>10.2f}\n", sci(s->molality), sci(s->activity), s->log_gamma, share);
+        }
+    }
+    // H+ and OH- are not shares of a component: list them apart.
+    out += "  water and its ions\n";
+    for (const char* n : {"H+", "OH-"})
+        if (const auto* s = r.find(n))
+            out += "    " + pad(chem::pretty(s->name), 16) +
+                   fmt::format("{:>14}{:>14}{:>10.4f}{:>10}\n", sci(s->molality), sci(s->activity), s->log_gamma, "");
+    return out;
+}
+
+std::string saturation_block(const equilibrium::SpeciationResult& r) {
+    std::string out = fmt::format("Saturation at {:.1f} °C (ΔG of dissolution = RT ln(IAP/K); positive: precipitation favoured)\n",
+                                  r.temperature_c);
+    out += "  " + pad("phase", 20) + fmt::format("{:>9}{:>10}{:>10}{:>12}  {}\n", "SI", "log IAP", "log K", "ΔG kJ/mol", "verdict");
+    std::vector<const equilibrium::SaturationResult*> minerals, gases;
+    for (const auto& s : r.saturation) (s.is_gas ? gases : minerals).push_back(&s);
+    std::sort(minerals.begin(), minerals.end(), [](auto* a, auto* b) { return a->si > b->si; });
+    for (const auto* s : minerals)
+        out += "  " + pad(s->phase, 20) +
+               fmt::format("{:>+9.3f}{:>10.3f}{:>10.3f}{:>+12.2f}  {}\n", s->si, s->log_iap, s->log_k,
+                           s->delta_g_kj_per_mol, equilibrium::verdict_text(s->verdict));
+    if (!gases.empty()) {
+        out += "  gas partial pressures in equilibrium with the water\n";
+        for (const auto* g : gases)
+            out += "    " + pad(chem::pretty(g->phase), 18) + fmt::format("log p = {:+.3f} (p = {:.3e} atm)\n", g->si, std::pow(10.0, g->si));
+    }
+    return out;
+}
+
+}  // namespace
+
+std::string text_report(const thermo::Database& db, const ReportContext& ctx,
+                        const std::vector<equilibrium::SpeciationResult>& results) {
+    std::string out;
+    out += fmt::format("deltag {}: {}\n", ctx.version, ctx.title.empty() ? ctx.case_path : ctx.title);
+    out += fmt::format("case {}; database {}\n", ctx.case_path, ctx.database);
+    for (const auto& r : results) {
+        out += "\n" + rule('=');
+        out += fmt::format("Water '{}'\n", r.label);
+        out += rule('=');
+        out += summary_block(db, r) + "\n";
+        out += totals_block(r) + "\n";
+        out += species_block(db, r) + "\n";
+        out += saturation_block(r);
+        if (ctx.verbose) out += "\nSolver\n" + r.summary.full();
+        if (!r.warnings.empty()) {
+            out += "\nWarnings\n";
+            for (const auto& w : r.warnings) out += "  - " + w + "\n";
+        }
+    }
+    out += "\n" + std::string(caution_text()) + "\n";
+    return out;
+}
+
+}  // namespace deltag::io

@@ -1,0 +1,470 @@
+// Loads a deltag database (schema: databases/README.md) and rewrites every species, mineral
+// and gas in terms of the components.
+#include <algorithm>
+#include <cmath>
+#include <fstream>
+#include <functional>
+#include <limits>
+#include <map>
+#include <sstream>
+
+#include "deltag/database.hpp"
+#include "thermo/toml_util.hpp"
+
+namespace deltag::thermo {
+
+namespace {
+
+constexpr double nan = std::numeric_limits<double>::quiet_NaN();
+
+// An entry as read, before its reaction is resolved into components.
+struct RawEntry {
+    Entry entry;
+    chem::Reaction reaction;
+    std::string key_prefix;      // "species.\"CaHCO3+\"" for messages
+    SourceLocation reaction_where;
+    double ion_size = nan, tj_a = nan, tj_b = nan, salting_out = nan, alkalinity = 0.0;
+};
+
+const std::vector<std::string> top_keys = {"database", "sources", "components", "species",
+                                           "minerals", "gases", "analytes"};
+const std::vector<std::string> common_keys = {"reaction", "log_k", "log_k_fit", "delta_h_kj_per_mol",
+                                              "delta_cp_j_per_mol_k", "temperature_range_c", "source",
+                                              "from_memory", "note", "ion_size_angstrom",
+                                              "truesdell_jones", "salting_out", "log_k_model"};
+
+}  // namespace
+
+class DatabaseLoader {
+public:
+    DatabaseLoader(std::string_view text, const std::string& origin) : origin_(origin) {
+        root_ = tomlu::parse(text, origin);
+    }
+
+    Database load() {
+        db_.origin_ = origin_;
+        tomlu::TableReader top(root_, origin_, "");
+        if (const toml::table* t = top.table("database")) {
+            tomlu::TableReader r(*t, origin_, "database");
+            db_.name_ = r.string("name").value_or("");
+            (void)r.string("description");
+            (void)r.string("version");
+            r.finish({"name", "description", "version"});
+        }
+        if (const toml::table* t = top.table("sources")) read_sources(*t);
+        const toml::table* comps = top.table("components");
+        if (!comps) throw InputError(top.table_location(), "components", "missing: the database needs a [components] table");
+        read_components(*comps);
+        if (const toml::table* t = top.table("species")) read_entries(*t, "species", species_raw_);
+        if (const toml::table* t = top.table("minerals")) read_entries(*t, "minerals", minerals_raw_);
+        if (const toml::table* t = top.table("gases")) read_entries(*t, "gases", gases_raw_);
+        const toml::table* analytes = top.table("analytes");
+        top.finish(top_keys);
+
+        resolve_species();
+        resolve_phases(minerals_raw_, db_.minerals_, /*gas=*/false);
+        resolve_phases(gases_raw_, db_.gases_, /*gas=*/true);
+        if (analytes) read_analytes(*analytes);
+        return std::move(db_);
+    }
+
+private:
+    template <class F>
+    auto guard_formula(const SourceLocation& at, const std::string& key, F&& f) {
+        try {
+            return f();
+        } catch (const chem::ParseError& e) {
+            throw InputError(at, key, std::string("cannot read formula: ") + e.what());
+        }
+    }
+
+    void read_sources(const toml::table& t) {
+        for (const auto& [k, v] : t) {
+            const std::string key(k.str());
+            const std::string prefix = tomlu::join_key("sources", key);
+            if (!v.is_table()) throw InputError(tomlu::where(v.source(), origin_), prefix, "expected a table with a citation");
+            tomlu::TableReader r(*v.as_table(), origin_, prefix);
+            Source s;
+            s.key = key;
+            s.citation = r.require_string("citation", "the full citation (authors, year, title, journal)");
+            s.where = tomlu::where(k.source(), origin_);
+            r.finish({"citation"});
+            db_.sources_.push_back(std::move(s));
+        }
+    }
+
+    // Fields shared by components, species, minerals and gases.
+    void read_common(tomlu::TableReader& r, RawEntry& raw) {
+        Entry& e = raw.entry;
+        e.source = r.string("source").value_or("");
+        e.from_memory = r.boolean("from_memory").value_or(false);
+        e.note = r.string("note").value_or("");
+        if (auto range = r.numbers("temperature_range_c", 2)) {
+            if (!((*range)[0] < (*range)[1]))
+                r.fail("temperature_range_c", "expected [min, max] with min < max");
+            e.own_log_k.range = TemperatureRange{(*range)[0], (*range)[1]};
+        }
+        raw.ion_size = r.number("ion_size_angstrom").value_or(nan);
+        if (auto tj = r.numbers("truesdell_jones", 2)) {
+            raw.tj_a = (*tj)[0];
+            raw.tj_b = (*tj)[1];
+        }
+        raw.salting_out = r.number("salting_out").value_or(nan);
+    }
+
+    void read_log_k(tomlu::TableReader& r, RawEntry& raw) {
+        LogKModel& m = raw.entry.own_log_k;
+        m.log_k_25 = r.require_number("log_k", "log10 K of the reaction at 25 degC");
+        m.form = LogKModel::Form::constant;
+        if (auto dh = r.number("delta_h_kj_per_mol")) {
+            m.form = LogKModel::Form::van_t_hoff;
+            m.delta_h_kj_per_mol = *dh;
+        }
+        if (auto dcp = r.number("delta_cp_j_per_mol_k")) {
+            if (m.form != LogKModel::Form::van_t_hoff)
+                r.fail("delta_cp_j_per_mol_k", "delta_cp_j_per_mol_k needs delta_h_kj_per_mol");
+            m.delta_cp_j_per_mol_k = *dcp;
+        }
+        if (auto fit = r.numbers("log_k_fit", 5)) {
+            m.form = LogKModel::Form::analytic;
+            std::copy(fit->begin(), fit->end(), m.fit.begin());
+        }
+        if (auto model = r.string("log_k_model")) {
+            if (*model != "water-ionization")
+                r.fail("log_k_model", "expected \"water-ionization\" (the only special model)",
+                       nearest_name(*model, {"water-ionization"}));
+            m.form = LogKModel::Form::water_ionization;
+        }
+    }
+
+    void read_components(const toml::table& t) {
+        std::vector<RawEntry> raws;
+        for (const auto& [k, v] : t) {
+            const std::string key(k.str());
+            const std::string prefix = tomlu::join_key("components", key);
+            const SourceLocation at = tomlu::where(k.source(), origin_);
+            if (!v.is_table()) throw InputError(at, prefix, "expected a table");
+            tomlu::TableReader r(*v.as_table(), origin_, prefix);
+            RawEntry raw;
+            raw.entry.name = key;
+            raw.entry.where = at;
+            raw.entry.formula = guard_formula(at, prefix, [&] { return chem::parse_formula(key); });
+            read_common(r, raw);
+            raw.alkalinity = r.number("alkalinity").value_or(0.0);
+            r.finish({"source", "from_memory", "note", "temperature_range_c", "ion_size_angstrom",
+                      "truesdell_jones", "salting_out", "alkalinity"});
+            raws.push_back(std::move(raw));
+        }
+        std::stable_sort(raws.begin(), raws.end(), [](const RawEntry& a, const RawEntry& b) {
+            return a.entry.where.line < b.entry.where.line;
+        });
+        for (auto& raw : raws) {
+            Species s;
+            static_cast<Entry&>(s) = raw.entry;
+            s.is_component = true;
+            s.formation = {{db_.species_.size(), 1.0}};
+            LogKModel zero;
+            zero.range = raw.entry.own_log_k.range;
+            s.log_k.terms = {{1.0, zero}};
+            s.ion_size_angstrom = raw.ion_size;
+            s.tj_a_angstrom = raw.tj_a;
+            s.tj_b = raw.tj_b;
+            s.salting_out = raw.salting_out;
+            s.alkalinity = raw.alkalinity;
+            if (s.name == "H2O") s.role = ComponentRole::water;
+            else if (s.name == "H+") s.role = ComponentRole::proton;
+            else if (s.formula.is_electron()) s.role = ComponentRole::electron;
+            index_[s.name] = db_.species_.size();
+            db_.species_.push_back(std::move(s));
+        }
+        db_.component_count_ = db_.species_.size();
+        auto find = [&](const char* n) { return index_.count(n) ? std::optional<std::size_t>(index_[n]) : std::nullopt; };
+        const SourceLocation at = tomlu::where(t.source(), origin_);
+        if (!find("H2O")) throw InputError(at, "components", "the components must include \"H2O\" (water)");
+        if (!find("H+")) throw InputError(at, "components", "the components must include \"H+\" (the proton)");
+        db_.water_ = *find("H2O");
+        db_.proton_ = *find("H+");
+        db_.electron_ = find("e-");
+    }
+
+    void read_entries(const toml::table& t, const std::string& table_name, std::vector<RawEntry>& out) {
+        const bool mineral = table_name == "minerals";
+        for (const auto& [k, v] : t) {
+            const std::string key(k.str());
+            const std::string prefix = tomlu::join_key(table_name, key);
+            const SourceLocation at = tomlu::where(k.source(), origin_);
+            if (!v.is_table()) throw InputError(at, prefix, "expected a table");
+            tomlu::TableReader r(*v.as_table(), origin_, prefix);
+            RawEntry raw;
+            raw.key_prefix = prefix;
+            raw.entry.name = key;
+            raw.entry.where = at;
+            if (mineral) {
+                const std::string f = r.require_string("formula", "the mineral's chemical formula, e.g. \"CaCO3\"");
+                raw.entry.formula = guard_formula(r.location("formula"), prefix + ".formula",
+                                                  [&] { return chem::parse_formula(f); });
+            } else {
+                raw.entry.formula = guard_formula(at, prefix, [&] { return chem::parse_formula(key); });
+            }
+            raw.entry.reaction_text = r.require_string("reaction", "the reaction, e.g. \"A + 2 B = C\"");
+            raw.reaction_where = r.location("reaction");
+            try {
+                raw.reaction = chem::parse_reaction(raw.entry.reaction_text);
+            } catch (const chem::ParseError& e) {
+                SourceLocation w = raw.reaction_where;
+                throw InputError(w, prefix + ".reaction", std::string("cannot read reaction: ") + e.what());
+            }
+            read_common(r, raw);
+            read_log_k(r, raw);
+            std::vector<std::string> allowed = common_keys;
+            if (mineral) allowed.push_back("formula");
+            r.finish(allowed);
+            out.push_back(std::move(raw));
+        }
+        std::stable_sort(out.begin(), out.end(), [](const RawEntry& a, const RawEntry& b) {
+            return a.entry.where.line < b.entry.where.line;
+        });
+    }
+
+    // Names in reactions: exact, or with a trailing (aq)/(l) mark dropped ("H2O(l)" -> "H2O").
+    std::string canonical(const std::string& name) const {
+        if (index_.count(name) || species_raw_index_.count(name)) return name;
+        for (std::string_view mark : {"(aq)", "(l)"}) {
+            if (name.size() > mark.size() && name.compare(name.size() - mark.size(), mark.size(), mark) == 0) {
+                std::string s = name.substr(0, name.size() - mark.size());
+                if (index_.count(s) || species_raw_index_.count(s)) return s;
+            }
+        }
+        return name;
+    }
+
+    std::vector<std::string> known_names() const {
+        std::vector<std::string> v;
+        for (const auto& [n, i] : index_) v.push_back(n);
+        for (const auto& [n, i] : species_raw_index_) v.push_back(n);
+        return v;
+    }
+
+    struct Resolved {
+        std::map<std::size_t, double> stoich;
+        LogKFunction log_k;
+    };
+
+    // Adds weight * log a(name), expanded into components, to `out`. log a(species) =
+    // log K_f + sum(nu * log a(component)); the log K_f part goes to the same side with
+    // `logk_sign` = +1 (a species defined by the expansion) or to the other side with -1
+    // (a phase whose dissolution log K is fixed and the expansion is of its products).
+    void expand_term(const RawEntry& raw, const std::string& name, double weight, Resolved& out,
+                     std::vector<std::string>& stack, double logk_sign = 1.0) {
+        const std::string c = canonical(name);
+        if (auto it = index_.find(c); it != index_.end() && it->second < db_.component_count_) {
+            out.stoich[it->second] += weight;
+            return;
+        }
+        if (auto it = species_raw_index_.find(c); it != species_raw_index_.end()) {
+            const Resolved& sub = resolve_one(it->second, stack);
+            for (const auto& [j, v] : sub.stoich) out.stoich[j] += weight * v;
+            out.log_k.add(logk_sign * weight, sub.log_k);
+            return;
+        }
+        throw InputError(raw.reaction_where, raw.key_prefix + ".reaction",
+                         "unknown species '" + name + "' in the reaction; every species must be a component or defined in [species]",
+                         nearest_name(name, known_names()));
+    }
+
+    // Resolves a species entry: log a(s) = log K/nu_s + sum_{i != s} (-nu_i/nu_s) log a(i).
+    const Resolved& resolve_one(std::size_t raw_index, std::vector<std::string>& stack) {
+        if (auto it = resolved_.find(raw_index); it != resolved_.end()) return it->second;
+        const RawEntry& raw = species_raw_[raw_index];
+        if (std::find(stack.begin(), stack.end(), raw.entry.name) != stack.end()) {
+            std::string chain;
+            for (const auto& s : stack) chain += s + " -> ";
+            throw InputError(raw.reaction_where, raw.key_prefix + ".reaction",
+                             "species are defined in a cycle: " + chain + raw.entry.name);
+        }
+        stack.push_back(raw.entry.name);
+        const double nu_s = self_coefficient(raw, raw.entry.name);
+        Resolved r;
+        r.log_k.terms.emplace_back(1.0 / nu_s, raw.entry.own_log_k);
+        for (const auto& term : raw.reaction.terms) {
+            if (canonical(term.species) == raw.entry.name) continue;
+            expand_term(raw, term.species, -term.coefficient / nu_s, r, stack);
+        }
+        stack.pop_back();
+        return resolved_.emplace(raw_index, std::move(r)).first->second;
+    }
+
+    double self_coefficient(const RawEntry& raw, const std::string& self) const {
+        double nu = 0.0;
+        for (const auto& term : raw.reaction.terms)
+            if (canonical(term.species) == self || term.species == self) nu += term.coefficient;
+        if (nu == 0.0)
+            throw InputError(raw.reaction_where, raw.key_prefix + ".reaction",
+                             "the reaction must contain '" + self + "' itself (on either side)");
+        return nu;
+    }
+
+    void resolve_species() {
+        for (std::size_t i = 0; i < species_raw_.size(); ++i) {
+            const std::string& n = species_raw_[i].entry.name;
+            if (!species_raw_index_.count(n)) species_raw_index_[n] = i;
+        }
+        for (std::size_t i = 0; i < species_raw_.size(); ++i) {
+            std::vector<std::string> stack;
+            const Resolved& r = resolve_one(i, stack);
+            const RawEntry& raw = species_raw_[i];
+            Species s;
+            static_cast<Entry&>(s) = raw.entry;
+            s.formation.assign(r.stoich.begin(), r.stoich.end());
+            std::erase_if(s.formation, [](const auto& p) { return std::abs(p.second) < 1e-12; });
+            s.log_k = r.log_k;
+            s.ion_size_angstrom = raw.ion_size;
+            s.tj_a_angstrom = raw.tj_a;
+            s.tj_b = raw.tj_b;
+            s.salting_out = raw.salting_out;
+            for (const auto& [j, v] : s.formation) s.alkalinity += v * db_.species_[j].alkalinity;
+            if (!index_.count(s.name)) index_[s.name] = db_.species_.size();
+            db_.species_.push_back(std::move(s));
+        }
+    }
+
+    void resolve_phases(std::vector<RawEntry>& raws, std::vector<PhaseEntry>& out, bool gas) {
+        for (auto& raw : raws) {
+            // The phase's own term: the gas by its key; the mineral by its formula with or
+            // without a solid mark.
+            std::string self;
+            double nu = 0.0;
+            const std::string f = raw.entry.formula.text;
+            for (const auto& term : raw.reaction.terms) {
+                const bool mine = gas ? term.species == raw.entry.name
+                                      : (term.species == f || term.species == f + "(s)" || term.species == f + "(cr)");
+                if (mine) {
+                    self = term.species;
+                    nu += term.coefficient;
+                }
+            }
+            if (nu == 0.0)
+                throw InputError(raw.reaction_where, raw.key_prefix + ".reaction",
+                                 gas ? "the reaction must contain the gas '" + raw.entry.name + "'"
+                                     : "the reaction must contain the mineral as '" + f + "(s)'");
+            // Dissolution: phase = sum(coef * component); log K_diss = log K / (-nu).
+            Resolved r;
+            const double w = -1.0 / nu;
+            r.log_k.terms.emplace_back(w, raw.entry.own_log_k);
+            std::vector<std::string> stack;
+            for (const auto& term : raw.reaction.terms) {
+                if (term.species == self) continue;
+                expand_term(raw, term.species, term.coefficient * w, r, stack, -1.0);
+            }
+            PhaseEntry p;
+            static_cast<Entry&>(p) = raw.entry;
+            p.dissolution.assign(r.stoich.begin(), r.stoich.end());
+            std::erase_if(p.dissolution, [](const auto& q) { return std::abs(q.second) < 1e-12; });
+            p.log_k = r.log_k;
+            p.log_k_as_written.terms = {{w, raw.entry.own_log_k}};
+            out.push_back(std::move(p));
+        }
+    }
+
+    void read_analytes(const toml::table& t) {
+        std::vector<std::string> comps;
+        for (std::size_t j = 0; j < db_.component_count_; ++j) comps.push_back(db_.species_[j].name);
+        for (const auto& [k, v] : t) {
+            const std::string key(k.str());
+            const std::string prefix = tomlu::join_key("analytes", key);
+            const SourceLocation at = tomlu::where(k.source(), origin_);
+            if (!v.is_table()) throw InputError(at, prefix, "expected a table");
+            tomlu::TableReader r(*v.as_table(), origin_, prefix);
+            Analyte a;
+            a.name = key;
+            a.where = at;
+            const std::string comp = r.require_string("component", "the component this analyte gives, e.g. \"Ca^2+\"");
+            auto it = index_.find(comp);
+            if (it == index_.end() || it->second >= db_.component_count_)
+                r.fail("component", "'" + comp + "' is not a component of the database", nearest_name(comp, comps));
+            a.component = it->second;
+            const std::string kind = r.string("kind").value_or("total");
+            if (kind == "total") a.kind = Analyte::Kind::total;
+            else if (kind == "alkalinity") a.kind = Analyte::Kind::alkalinity;
+            else r.fail("kind", "expected \"total\" or \"alkalinity\"", nearest_name(kind, {"total", "alkalinity"}));
+            const std::string mf = r.string("mass_formula").value_or(key);
+            a.mass_formula = guard_formula(r.location("mass_formula"), prefix + ".mass_formula",
+                                           [&] { return chem::parse_formula(mf); });
+            r.finish({"component", "kind", "mass_formula"});
+            // Components per formula unit of the mass formula, by the component's first
+            // element other than H and O (SiO2 -> H4SiO4: 1).
+            const chem::Formula& cf = db_.species_[a.component].formula;
+            a.per_component = 1.0;
+            for (const auto& [el, n] : cf.elements) {
+                if (el == "H" || el == "O") continue;
+                const double in_mass = a.mass_formula.atoms(el);
+                if (in_mass > 0) a.per_component = in_mass / n;
+                break;
+            }
+            db_.analytes_.push_back(std::move(a));
+        }
+    }
+
+    std::string origin_;
+    toml::table root_;
+    Database db_;
+    std::map<std::string, std::size_t> index_;  // name -> index in db_.species_
+    std::vector<RawEntry> species_raw_, minerals_raw_, gases_raw_;
+    std::map<std::string, std::size_t> species_raw_index_;
+    std::map<std::size_t, Resolved> resolved_;
+};
+
+Database Database::parse(std::string_view toml_text, const std::string& origin) {
+    return DatabaseLoader(toml_text, origin).load();
+}
+
+Database Database::load_file(const std::string& path) {
+    std::ifstream in(path, std::ios::binary);
+    if (!in) throw InputError(SourceLocation{path, 0, 0}, "", "cannot open the database file");
+    std::ostringstream ss;
+    ss << in.rdbuf();
+    return parse(ss.str(), path);
+}
+
+const Database& Database::embedded() {
+    static const Database db = parse(embedded_core_text(), "core.toml (embedded)");
+    return db;
+}
+
+namespace {
+template <class T>
+std::optional<std::size_t> find_by_name(const std::vector<T>& v, std::string_view name) {
+    for (std::size_t i = 0; i < v.size(); ++i)
+        if (v[i].name == name) return i;
+    return std::nullopt;
+}
+template <class T>
+std::vector<std::string> names_of(const std::vector<T>& v) {
+    std::vector<std::string> out;
+    for (const auto& e : v) out.push_back(e.name);
+    return out;
+}
+}  // namespace
+
+std::optional<std::size_t> Database::find_species(std::string_view name) const {
+    if (auto i = find_by_name(species_, name)) return i;
+    // Accept "H2O(l)" for "H2O" and "Ca^2+(aq)" for "Ca^2+".
+    for (std::string_view mark : {"(aq)", "(l)"})
+        if (name.size() > mark.size() && name.substr(name.size() - mark.size()) == mark)
+            return find_by_name(species_, name.substr(0, name.size() - mark.size()));
+    return std::nullopt;
+}
+std::optional<std::size_t> Database::find_mineral(std::string_view name) const { return find_by_name(minerals_, name); }
+std::optional<std::size_t> Database::find_gas(std::string_view name) const { return find_by_name(gases_, name); }
+std::optional<std::size_t> Database::find_analyte(std::string_view name) const { return find_by_name(analytes_, name); }
+const Source* Database::find_source(std::string_view key) const {
+    for (const auto& s : sources_)
+        if (s.key == key) return &s;
+    return nullptr;
+}
+std::vector<std::string> Database::species_names() const { return names_of(species_); }
+std::vector<std::string> Database::mineral_names() const { return names_of(minerals_); }
+std::vector<std::string> Database::gas_names() const { return names_of(gases_); }
+std::vector<std::string> Database::analyte_names() const { return names_of(analytes_); }
+
+}  // namespace deltag::thermo
