@@ -36,7 +36,8 @@ struct Formula {
     int charge = 0;
     Phase phase = Phase::none;
 
-    bool is_electron() const { return elements.empty() && charge == -1 && text.rfind("e-", 0) == 0; }
+    // Only the electron ("e-" or "e^-") parses with no elements.
+    bool is_electron() const { return elements.empty() && charge == -1; }
     double molar_mass() const;  // g/mol from IUPAC standard atomic weights; electrons weigh 0
     double atoms(std::string_view element) const;
 };

@@ -85,12 +85,14 @@ public:
             f.charge = sign == '+' ? magnitude : -magnitude;
             body = body.substr(0, caret);
         } else {
+            // "Ca++" is accepted as +2; mixed signs ("Ca+-") are refused.
+            char first_sign = 0;
             while (!body.empty() && (body.back() == '+' || body.back() == '-')) {
+                if (first_sign && body.back() != first_sign)
+                    fail(static_cast<int>(body.size()), "mixed + and - signs in the charge");
+                first_sign = body.back();
                 f.charge += body.back() == '+' ? 1 : -1;
                 body.remove_suffix(1);
-            }
-            if (std::abs(f.charge) > 1 && !body.empty()) {
-                // "Ca++" is accepted as +2; mixed "+-" would have cancelled and is refused.
             }
         }
         if (body.empty()) fail(0, "no elements before the charge");
@@ -139,8 +141,8 @@ private:
         bool any = false;
         while (i < s.size()) {
             const char c = s[i];
-            if (c == ')') {
-                if (depth == 0) fail(offset + static_cast<int>(i) + 1, "unmatched ')'");
+            if (c == ')' || c == ']') {
+                if (depth == 0) fail(offset + static_cast<int>(i) + 1, std::string("unmatched '") + c + "'");
                 break;
             }
             if (c == '(' || c == '[') {
@@ -148,8 +150,8 @@ private:
                 ++i;
                 std::map<std::string, double> inner;
                 read_group(s, i, inner, offset, depth + 1);
-                if (i >= s.size() || (s[i] != close && !(close == ']' && s[i] == ')')))
-                    fail(offset + static_cast<int>(i) + 1, "missing ')'");
+                if (i >= s.size() || s[i] != close)
+                    fail(offset + static_cast<int>(i) + 1, std::string("missing '") + close + "'");
                 ++i;
                 const double n = read_number(s, i, offset, 1.0);
                 for (auto& [el, k] : inner) out[el] += k * n;
@@ -230,7 +232,9 @@ double Formula::atoms(std::string_view element) const {
 }
 
 Formula parse_formula(std::string_view text) {
-    const std::string t = trim(text);
+    std::string t = trim(text);
+    // The middle dot U+00B7 of printed hydrates is read as '*'.
+    for (std::size_t p = t.find("\u00b7"); p != std::string::npos; p = t.find("\u00b7", p)) t.replace(p, 2, "*");
     if (t.empty()) throw ParseError(std::string(text), 0, "empty formula");
     return FormulaReader(t).read();
 }
@@ -357,10 +361,14 @@ std::string pretty(std::string_view s) {
             out += sub[c - '0'];
             continue;
         }
-        if (!std::isdigit(static_cast<unsigned char>(c))) after_star = false;
-        if ((c == '+' || c == '-') && i + 1 == body_end && caret == std::string_view::npos && i > 0) {
+        if (!std::isdigit(static_cast<unsigned char>(c)) && c != '.') after_star = false;
+        if ((c == '+' || c == '-') && caret == std::string_view::npos && i > 0 &&
+            s.find_first_not_of(c, i) >= body_end) {
+            // A trailing run of signs: "Ca++" -> "Ca²⁺".
+            const std::size_t n = body_end - i;
+            if (n > 1) out += sup[n % 10];
             out += c == '+' ? "⁺" : "⁻";
-            continue;
+            break;
         }
         out += c;
     }

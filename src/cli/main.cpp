@@ -169,9 +169,15 @@ int cmd_database_show(const std::string& name, const std::string& db_path) {
         out += fmt::format("  reaction         {}\n", e->reaction_text);
         out += fmt::format("  in components    {}\n", resolved);
     }
-    out += "  log K (in components)";
-    for (double t : {0.0, 25.0, 50.0, 100.0}) out += fmt::format("  {:g} °C: {:.3f}", t, (*fn)(t));
-    out += "\n";
+    auto log_k_row = [&](std::string_view label, auto&& f) {
+        out += fmt::format("  {:<17}", label);
+        for (double t : {0.0, 25.0, 50.0, 100.0}) out += fmt::format("  {:g} °C: {:.3f}", t, f(t));
+        out += "\n";
+    };
+    if (!e->reaction_text.empty()) {
+        log_k_row("log K as written", [&](double t) { return e->own_log_k.log_k(t); });
+        log_k_row("log K components", [&](double t) { return (*fn)(t); });
+    }
     const auto range = fn->range();
     out += fmt::format("  valid            {:g} to {:g} °C{}\n", range.min_c, range.max_c,
                        fn->temperature_dependent() ? "" : " (log K constant: no temperature dependence given)");

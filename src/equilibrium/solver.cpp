@@ -93,7 +93,7 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
     const VectorXd dlogm_di = s.nu * dla - dlg;  // per unit I
     for (Index k = 0; k < ns; ++k) {
         const double v = log_m(k);
-        m(k) = std::pow(10.0, std::clamp(v, -300.0, 50.0));
+        m(k) = std::exp(ln10 * std::clamp(v, -300.0, 50.0));
     }
     // Residuals.
     const VectorXd lin = weights.transpose() * m;
@@ -338,6 +338,12 @@ void validate_input(const thermo::Database& db, const SpeciationInput& in) {
             !(in.charge_balance_component && *in.charge_balance_component == c.component))
             throw InputError(here, s.name, "expected a positive total (leave a component out when it is absent)");
     }
+    if (!in.ph)
+        for (const auto& c : in.components)
+            if (c.kind == ComponentInput::Kind::alkalinity)
+                throw InputError(here, "pH",
+                                 "the pH cannot come from the charge balance when the alkalinity is given "
+                                 "(the alkalinity already fixes the charge balance): give a pH or a carbonate total");
     if (in.charge_balance_component) {
         if (!in.ph)
             throw InputError(here, "charge_balance",

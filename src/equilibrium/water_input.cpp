@@ -1,0 +1,336 @@
+// A water as a lab reports it -> solver input (SpeciationInput): analytes resolved to
+// database components, concentrations converted to mol/kgw (eq/kgw for alkalinity), "as"
+// applied, pH, pe and the charge-balance choice set.
+//
+// Units. Each unit has a basis and a measure:
+//   per litre of solution:      mg/L, ug/L (mass), mmol/L, umol/L, mol/L (amount), meq/L (equivalents)
+//   per kg of solution:         mg/kg (mass)
+//   per kg of water:            mol/kgw, mmol/kgw (amount)
+// A mass refers to the analyte's mass_formula (SO4, SiO2, HCO3 for alkalinity), or to the
+// substance named by "as"; an amount (mol) refers to the same formula unit; equivalents are
+// divided by |charge| of the component (for alkalinity they are the result directly).
+//
+// "as". "CaCO3" means the value is equivalents expressed as CaCO3: one equivalent is
+// M(CaCO3)/2 = 50.04 g (100.09/2), so eq = mg / 50.04 and moles of a component of charge z
+// are eq / |z| (Ca as CaCO3: mg / 100.09). An element symbol E found in the mass formula
+// means the mass is of that element only: moles of formula units = mg / M(E) / (atoms of E
+// in the formula) (NO3 as N: mg / 14.007). The mass formula itself is accepted too ("NO3 as
+// NO3"), and means the same as no "as".
+//
+// From per litre and per kg of solution to per kg of water (an approximation, stated):
+// the kg of water in a litre of solution is taken as the solution density minus the mass of
+// the dissolved solids in that litre, the dissolved solids being the sum of the analytes'
+// masses (each as its mass_formula; alkalinity as HCO3); water of hydration, unreported
+// solutes and the mass the solver later adds or removes are ignored. The solution density
+// is density_kg_per_l when given, otherwise the density of pure water at the water's
+// temperature (Kell 1975), which for a dilute water (dissolved solids below about 1 g/L)
+// errs by less than about 0.1 % in the kg of water per litre; give density_kg_per_l for a
+// brine. Per kg of solution the kg of water per kg is 1 minus the dissolved-solids mass
+// fraction. With units of several bases in one water the same balance is solved jointly:
+//   rho = W + mL + ws*rho + mw*W,   so   W = (rho*(1 - ws) - mL) / (1 + mw)
+// with W the kg of water per litre, rho the solution density in kg/L, mL the dissolved mass
+// given per litre (kg/L), ws the mass fraction given per kg of solution, and mw the mass per
+// kg of water of the analytes given per kg of water.
+
+#include "deltag/water.hpp"
+
+#include <algorithm>
+#include <cctype>
+#include <cmath>
+#include <map>
+#include <sstream>
+
+#include "deltag/chem.hpp"
+#include "deltag/water_properties.hpp"
+
+namespace deltag {
+
+const std::vector<std::string>& concentration_units() {
+    static const std::vector<std::string> units = {"mg/L",   "ug/L",  "mmol/L",  "umol/L",  "mol/L",
+                                                   "meq/L",  "mg/kg", "mol/kgw", "mmol/kgw"};
+    return units;
+}
+
+namespace {
+
+enum class Basis { per_litre, per_kg_solution, per_kg_water };
+enum class Measure { mass, amount, equivalents };
+
+struct UnitInfo {
+    Basis basis;
+    Measure measure;
+    double scale;  // to g, mol or eq
+};
+
+std::optional<UnitInfo> unit_info(std::string_view u) {
+    if (u == "mg/L") return UnitInfo{Basis::per_litre, Measure::mass, 1e-3};
+    if (u == "ug/L") return UnitInfo{Basis::per_litre, Measure::mass, 1e-6};
+    if (u == "mmol/L") return UnitInfo{Basis::per_litre, Measure::amount, 1e-3};
+    if (u == "umol/L") return UnitInfo{Basis::per_litre, Measure::amount, 1e-6};
+    if (u == "mol/L") return UnitInfo{Basis::per_litre, Measure::amount, 1.0};
+    if (u == "meq/L") return UnitInfo{Basis::per_litre, Measure::equivalents, 1e-3};
+    if (u == "mg/kg") return UnitInfo{Basis::per_kg_solution, Measure::mass, 1e-3};
+    if (u == "mol/kgw") return UnitInfo{Basis::per_kg_water, Measure::amount, 1.0};
+    if (u == "mmol/kgw") return UnitInfo{Basis::per_kg_water, Measure::amount, 1e-3};
+    return std::nullopt;
+}
+
+std::string show(double v) {
+    std::ostringstream out;
+    out.precision(6);
+    out << v;
+    return out.str();
+}
+
+std::string list_of(const std::vector<std::string>& names) {
+    std::string s;
+    for (const auto& n : names) s += (s.empty() ? "" : ", ") + n;
+    return s;
+}
+
+std::string water_key(const WaterAnalysis& w) {
+    // Same quoting as the case reader: bare words stay bare.
+    const bool bare = !w.name.empty() && std::all_of(w.name.begin(), w.name.end(), [](char c) {
+        return std::isalnum(static_cast<unsigned char>(c)) || c == '_' || c == '-';
+    });
+    return "water." + (bare ? w.name : "\"" + w.name + "\"");
+}
+
+std::string analyte_key(const WaterAnalysis& w, const AnalyteValue& a) {
+    if (!a.key.empty()) return a.key;
+    const bool bare = !a.name.empty() && std::all_of(a.name.begin(), a.name.end(), [](char c) {
+        return std::isalnum(static_cast<unsigned char>(c)) || c == '_' || c == '-';
+    });
+    return water_key(w) + ".analytes." + (bare ? a.name : "\"" + a.name + "\"");
+}
+
+// One analyte after unit conversion, still on its own basis.
+struct Converted {
+    const AnalyteValue* given = nullptr;
+    const thermo::Analyte* analyte = nullptr;
+    Basis basis = Basis::per_litre;
+    double amount = 0.0;   // mol of component (eq for alkalinity) per L, kg solution or kg water
+    double mass_kg = 0.0;  // dissolved mass (as mass_formula) per the same basis, kg
+};
+
+// The "as" values an analyte accepts: CaCO3 (alkalinity, or a charged component), the
+// elements of its mass formula other than H and O (all of them if it has no other), and the
+// mass formula itself.
+std::vector<std::string> allowed_as(const thermo::Analyte& an, int charge) {
+    std::vector<std::string> out;
+    const bool alkalinity = an.kind == thermo::Analyte::Kind::alkalinity;
+    if (alkalinity || charge != 0) out.push_back("CaCO3");
+    if (!alkalinity) {
+        std::vector<std::string> elements;
+        for (const auto& [el, n] : an.mass_formula.elements)
+            if (el != "H" && el != "O" && n > 0) elements.push_back(el);
+        if (elements.empty())
+            for (const auto& [el, n] : an.mass_formula.elements)
+                if (n > 0) elements.push_back(el);
+        out.insert(out.end(), elements.begin(), elements.end());
+    }
+    if (std::find(out.begin(), out.end(), an.mass_formula.text) == out.end())
+        out.push_back(an.mass_formula.text);
+    return out;
+}
+
+Converted convert(const WaterAnalysis& w, const AnalyteValue& a, const thermo::Analyte& an,
+                  const thermo::Database& db) {
+    const std::string key = analyte_key(w, a);
+    const std::string unit = a.unit.empty() ? w.units : a.unit;
+    const auto info = unit_info(unit);
+    if (!info)
+        throw InputError(a.where, key,
+                         "unknown concentration unit '" + unit + "'; expected one of: " +
+                             list_of(concentration_units()),
+                         nearest_name(unit, concentration_units()));
+
+    const thermo::Species& comp = db.species()[an.component];
+    const int z = comp.formula.charge;
+    const bool alkalinity = an.kind == thermo::Analyte::Kind::alkalinity;
+
+    // Component moles (or equivalents) per formula unit of the mass formula.
+    double per_formula = an.per_component;
+    if (alkalinity) {
+        per_formula = an.per_component * comp.alkalinity;
+        if (!(per_formula > 0.0))
+            throw InputError(an.where, "analytes." + an.name,
+                             "analyte " + an.name + " is of kind alkalinity but its component " +
+                                 comp.name + " carries no alkalinity in the database '" + db.name() +
+                                 "'; the database must give the component an alkalinity");
+    }
+
+    // The reference substance a mass or an amount refers to: its molar mass and the
+    // component moles (or eq) per mole of it.
+    double ref_molar_mass = an.mass_formula.molar_mass();
+    double per_ref = per_formula;
+    if (!a.as.empty()) {
+        const auto allowed = allowed_as(an, z);
+        if (std::find(allowed.begin(), allowed.end(), a.as) == allowed.end())
+            throw InputError(a.where, key + ".as",
+                             "analyte " + a.name + " cannot be given as '" + a.as +
+                                 "'; expected one of: " + list_of(allowed),
+                             nearest_name(a.as, allowed));
+        if (info->measure == Measure::equivalents && a.as != "CaCO3")
+            throw InputError(a.where, key + ".as",
+                             "'as' = '" + a.as + "' does not apply to a value in " + unit +
+                                 ": equivalents are counted per charge; leave 'as' out or use a "
+                                 "mass or mol unit");
+        if (a.as == "CaCO3") {
+            // One mole of CaCO3 is two equivalents.
+            ref_molar_mass = chem::parse_formula("CaCO3").molar_mass();
+            per_ref = alkalinity ? 2.0 : 2.0 / std::abs(z);
+        } else if (a.as != an.mass_formula.text) {
+            ref_molar_mass = *chem::atomic_weight(a.as);
+            per_ref = per_formula / an.mass_formula.atoms(a.as);
+        }
+    }
+
+    Converted c;
+    c.given = &a;
+    c.analyte = &an;
+    c.basis = info->basis;
+    const double v = a.value * info->scale;
+    switch (info->measure) {
+        case Measure::mass: c.amount = v / ref_molar_mass * per_ref; break;
+        case Measure::amount: c.amount = v * per_ref; break;
+        case Measure::equivalents:
+            if (alkalinity) {
+                c.amount = v;
+            } else {
+                if (z == 0)
+                    throw InputError(a.where, key,
+                                     "a value in " + unit + " needs a charged component, and " + a.name +
+                                         " gives " + comp.name +
+                                         ", which has no charge; use a mass or mol unit");
+                c.amount = v / std::abs(z);
+            }
+            break;
+    }
+    // Dissolved mass, as the mass formula (alkalinity: as HCO3, its mass formula).
+    c.mass_kg = c.amount / per_formula * an.mass_formula.molar_mass() * 1e-3;
+    return c;
+}
+
+}  // namespace
+
+equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, const thermo::Database& db,
+                                                 activity::ModelKind model) {
+    using equilibrium::ComponentInput;
+    const std::string wkey = water_key(water);
+    const std::string cb_key = wkey + ".charge_balance";
+
+    // Resolve and convert every analyte; one analyte per component.
+    std::vector<Converted> converted;
+    std::map<std::size_t, const AnalyteValue*> by_component;
+    for (const AnalyteValue& a : water.analytes) {
+        const auto ai = db.find_analyte(a.name);
+        if (!ai)
+            throw InputError(a.where, analyte_key(water, a),
+                             "unknown analyte '" + a.name + "'; it is not an analyte of the database '" +
+                                 db.name() + "' (its analytes: " + list_of(db.analyte_names()) + ")",
+                             nearest_name(a.name, db.analyte_names()));
+        const thermo::Analyte& an = db.analytes()[*ai];
+        const auto [it, fresh] = by_component.emplace(an.component, &a);
+        if (!fresh) {
+            const AnalyteValue& first = *it->second;
+            throw InputError(a.where, analyte_key(water, a),
+                             first.name + " (line " + std::to_string(first.where.line) + ") and " + a.name +
+                                 " both give component " + db.species()[an.component].name +
+                                 "; give only one of them");
+        }
+        converted.push_back(convert(water, a, an, db));
+    }
+
+    // Per litre and per kg of solution to per kg of water (see the comment at the top).
+    double mass_per_litre = 0.0, mass_fraction = 0.0, mass_per_kgw = 0.0;
+    for (const auto& c : converted) {
+        switch (c.basis) {
+            case Basis::per_litre: mass_per_litre += c.mass_kg; break;
+            case Basis::per_kg_solution: mass_fraction += c.mass_kg; break;
+            case Basis::per_kg_water: mass_per_kgw += c.mass_kg; break;
+        }
+    }
+    const double rho = water.density_kg_per_l ? *water.density_kg_per_l
+                                              : thermo::water_density_kg_m3(water.temperature_c) / 1000.0;
+    const double water_per_litre = (rho * (1.0 - mass_fraction) - mass_per_litre) / (1.0 + mass_per_kgw);
+    if (!(water_per_litre > 0.0))
+        throw InputError(water.where, wkey,
+                         "the analytes add up to more dissolved mass than the solution holds (" +
+                             show(mass_per_litre * 1000.0) + " g per litre, mass fraction " +
+                             show(mass_fraction) + ", against a density of " + show(rho) +
+                             " kg/L); check the units");
+
+    equilibrium::SpeciationInput in;
+    in.label = water.name;
+    in.temperature_c = water.temperature_c;
+    in.activity_model = model;
+    in.ph = water.ph;
+    in.pe = water.pe;
+    for (const auto& c : converted) {
+        double molality = c.amount;
+        if (c.basis == Basis::per_litre) molality = c.amount / water_per_litre;
+        if (c.basis == Basis::per_kg_solution) molality = c.amount * rho / water_per_litre;
+        if (molality > 0.0) {
+            const auto kind = c.analyte->kind == thermo::Analyte::Kind::alkalinity
+                                  ? ComponentInput::Kind::alkalinity
+                                  : ComponentInput::Kind::total;
+            in.components.push_back(ComponentInput{c.analyte->component, kind, molality});
+        }
+    }
+
+    // Charge balance. No choice and no measured pH: balance on pH (as the case reader does).
+    const std::string cb = water.charge_balance.empty() && !water.ph ? "pH" : water.charge_balance;
+    if (cb == "pH") {
+        if (water.ph)
+            throw InputError(water.charge_balance_where, cb_key,
+                             "charge_balance = \"pH\" contradicts the measured pH = " + show(*water.ph) +
+                                 "; give the measured pH, or leave it out and balance on pH, not both");
+        in.ph.reset();
+        // Alkalinity is the charge excess of the conservative ions, so with an alkalinity
+        // given, the charge balance no longer depends on pH and cannot fix it.
+        for (const auto& c : in.components)
+            if (c.kind == ComponentInput::Kind::alkalinity)
+                throw InputError(water.charge_balance.empty() ? water.where : water.charge_balance_where,
+                                 water.charge_balance.empty() ? wkey : cb_key,
+                                 "the pH cannot come from the charge balance when the alkalinity is given (the "
+                                 "alkalinity already fixes the charge balance): give the measured pH, or give the "
+                                 "carbonate as DIC instead of Alkalinity");
+    } else if (!cb.empty()) {
+        const auto ai = db.find_analyte(cb);
+        if (!ai) {
+            auto names = db.analyte_names();
+            names.insert(names.begin(), "pH");
+            throw InputError(water.charge_balance_where, cb_key,
+                             "cannot balance the charge on '" + cb + "': expected \"pH\" or an analyte of the database '" +
+                                 db.name() + "' (" + list_of(db.analyte_names()) + ")",
+                             nearest_name(cb, names));
+        }
+        const thermo::Analyte& an = db.analytes()[*ai];
+        if (an.kind != thermo::Analyte::Kind::total)
+            throw InputError(water.charge_balance_where, cb_key,
+                             "cannot balance the charge on " + cb +
+                                 ": it is an alkalinity, not a total; choose a total such as Cl or Na, or \"pH\"");
+        if (db.species()[an.component].formula.charge == 0)
+            throw InputError(water.charge_balance_where, cb_key,
+                             "cannot balance the charge on " + cb + ": its component " +
+                                 db.species()[an.component].name + " has no charge; choose an ion such as Cl or Na, or \"pH\"");
+        const bool listed = std::any_of(water.analytes.begin(), water.analytes.end(),
+                                        [&](const AnalyteValue& a) { return a.name == cb; });
+        if (!listed)
+            throw InputError(water.charge_balance_where, cb_key,
+                             "charge balance on " + cb + ", which is not among the analytes of water " +
+                                 water.name + "; list it under [" + wkey + ".analytes], with 0 if it was not measured");
+        if (!water.ph)
+            throw InputError(water.charge_balance_where, cb_key,
+                             "charge balance on " + cb + " needs a measured pH; give pH or set charge_balance = \"pH\"");
+        in.charge_balance_component = an.component;
+        const bool present = std::any_of(in.components.begin(), in.components.end(),
+                                         [&](const ComponentInput& c) { return c.component == an.component; });
+        // A starting value for an analyte reported as 0: the solver adjusts it.
+        if (!present) in.components.push_back(ComponentInput{an.component, ComponentInput::Kind::total, 1e-4});
+    }
+    return in;
+}
+
+}  // namespace deltag

@@ -1,0 +1,250 @@
+// The deltag command end to end: exit codes, messages naming file, line and key, no partial
+// output on failure, and the JSON contract.
+#include <doctest/doctest.h>
+
+#include <sys/wait.h>
+
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <nlohmann/json.hpp>
+#include <sstream>
+#include <string>
+
+namespace fs = std::filesystem;
+
+namespace {
+
+struct Run {
+    int code = -1;
+    std::string out, err;
+};
+
+fs::path scratch() {
+    static const fs::path dir = [] {
+        fs::path d = fs::temp_directory_path() / ("deltag-cli-test-" + std::to_string(::getpid()));
+        fs::create_directories(d);
+        return d;
+    }();
+    return dir;
+}
+
+std::string slurp(const fs::path& p) {
+    std::ifstream in(p, std::ios::binary);
+    std::ostringstream s;
+    s << in.rdbuf();
+    return s.str();
+}
+
+fs::path write(const std::string& name, const std::string& text) {
+    const fs::path p = scratch() / name;
+    std::ofstream(p, std::ios::binary) << text;
+    return p;
+}
+
+Run deltag(const std::string& args) {
+    const fs::path out = scratch() / "stdout.txt", err = scratch() / "stderr.txt";
+    const std::string cmd = std::string("'") + DELTAG_BINARY + "' " + args + " >'" + out.string() + "' 2>'" + err.string() + "'";
+    const int status = std::system(cmd.c_str());
+    Run r;
+    r.code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+    r.out = slurp(out);
+    r.err = slurp(err);
+    return r;
+}
+
+bool has(const std::string& text, const std::string& part) { return text.find(part) != std::string::npos; }
+
+const std::string good_case = R"toml(title = "CLI test water (invented)"
+[water.tap]
+temperature_c = 20
+pH = 7.6
+[water.tap.analytes]
+Ca = 40
+Na = 20
+Cl = 35
+Alkalinity = { value = 100, as = "CaCO3" }
+)toml";
+
+}  // namespace
+
+TEST_CASE("run: a good case gives exit 0 and a text report") {
+    const Run r = deltag("run '" + write("good.toml", good_case).string() + "'");
+    CHECK(r.code == 0);
+    CHECK(has(r.out, "Water 'tap'"));
+    CHECK(has(r.out, "Calcite"));
+    CHECK(has(r.out, "Caution:"));
+    CHECK(r.err.empty());
+}
+
+TEST_CASE("run --format json writes the contract's JSON, to a file with --output") {
+    const fs::path out = scratch() / "report.json";
+    const Run r = deltag("run '" + write("good.toml", good_case).string() + "' --format json --output '" + out.string() + "'");
+    REQUIRE(r.code == 0);
+    CHECK(r.out.empty());
+    const auto j = nlohmann::json::parse(slurp(out));
+    CHECK(j["results"][0]["label"] == "tap");
+    CHECK(j["results"][0]["pH"].get<double>() == doctest::Approx(7.6));
+    CHECK(j.contains("deltag_version"));
+}
+
+TEST_CASE("run --format csv") {
+    const Run r = deltag("run '" + write("good.toml", good_case).string() + "' --format csv");
+    CHECK(r.code == 0);
+    CHECK(r.out.rfind("label,", 0) == 0);
+}
+
+TEST_CASE("every demo case runs") {
+    for (const auto& entry : fs::directory_iterator(fs::path(DELTAG_SOURCE_DIR) / "cases")) {
+        if (entry.path().extension() != ".toml") continue;
+        CAPTURE(entry.path().string());
+        const Run r = deltag("run '" + entry.path().string() + "'");
+        CHECK(r.code == 0);
+        CHECK(!has(r.out, "nan"));
+        CHECK(r.err.empty());
+    }
+}
+
+TEST_CASE("bad input: exit 2, file:line and key named, nearest name suggested, nothing on stdout") {
+    const std::string bad = R"toml(title = "typo (invented)"
+[water.tap]
+pH = 7.6
+[water.tap.analytes]
+Mgg = 11
+)toml";
+    const fs::path p = write("bad.toml", bad);
+    const Run r = deltag("run '" + p.string() + "'");
+    CHECK(r.code == 2);
+    CHECK(r.out.empty());
+    CHECK(has(r.err, p.string() + ":5"));
+    CHECK(has(r.err, "Mgg"));
+    CHECK(has(r.err, "did you mean"));
+}
+
+TEST_CASE("bad input: a missing case file exits 2") {
+    const Run r = deltag("run '" + (scratch() / "absent.toml").string() + "'");
+    CHECK(r.code == 2);
+    CHECK(r.out.empty());
+    CHECK(!r.err.empty());
+}
+
+TEST_CASE("bad input: invalid TOML reports line and column") {
+    const fs::path p = write("broken.toml", "title = \"x\"\n[water.a\npH = 7\n");
+    const Run r = deltag("run '" + p.string() + "'");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, p.string() + ":2"));
+    CHECK(has(r.err, "not valid TOML"));
+}
+
+TEST_CASE("bad command lines exit 2") {
+    CHECK(deltag("frobnicate").code == 2);
+    CHECK(deltag("run").code == 2);
+    CHECK(deltag("run x.toml --format pdf").code == 2);
+    CHECK(deltag("").code == 2);
+    const Run r = deltag("run '" + write("good.toml", good_case).string() + "' --output /nonexistent-dir/x.json");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, "cannot write"));
+}
+
+TEST_CASE("--version and --help exit 0") {
+    const Run v = deltag("--version");
+    CHECK(v.code == 0);
+    CHECK(has(v.out, "deltag 0.1.0"));
+    const Run h = deltag("--help");
+    CHECK(h.code == 0);
+    CHECK(has(h.out, "run"));
+    CHECK(has(h.out, "database"));
+}
+
+TEST_CASE("a case naming a database file that does not exist exits 2") {
+    const fs::path p = write("nodb.toml", "database = \"nowhere.toml\"\n[water.a]\npH = 7\n");
+    const Run r = deltag("run '" + p.string() + "'");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, "no database file"));
+}
+
+TEST_CASE("a calculation that cannot converge exits 3 and says which water") {
+    // Charge balance on Na+ with far more calcium than chloride: sodium would have to be
+    // negative.
+    const fs::path p = write("noconv.toml", R"toml([water.odd]
+pH = 7.0
+charge_balance = "Na"
+units = "mmol/L"
+[water.odd.analytes]
+Na = 1
+Ca = 10
+Cl = 1
+)toml");
+    const Run r = deltag("run '" + p.string() + "'");
+    CHECK(r.code == 3);
+    CHECK(r.out.empty());
+    CHECK(has(r.err, "water 'odd'"));
+    CHECK(has(r.err, "did not converge"));
+}
+
+TEST_CASE("database check passes on core and fails clearly on an unbalanced reaction") {
+    const Run ok = deltag("database check");
+    CHECK(ok.code == 0);
+    CHECK(has(ok.out, "0 errors"));
+    const Run core_file = deltag("database check '" + (fs::path(DELTAG_SOURCE_DIR) / "databases" / "core.toml").string() + "'");
+    CHECK(core_file.code == 0);
+
+    const fs::path p = write("unbalanced.toml", R"toml([sources.test]
+citation = "A made-up source for a test, 2026"
+[components."H2O"]
+source = "test"
+temperature_range_c = [0, 100]
+[components."H+"]
+source = "test"
+temperature_range_c = [0, 100]
+[components."Ca^2+"]
+source = "test"
+temperature_range_c = [0, 100]
+ion_size_angstrom = 6
+[species."CaOH+"]
+reaction = "Ca^2+ + H2O = CaOH+ + 2 H+"
+log_k = -12.78
+delta_h_kj_per_mol = 60
+temperature_range_c = [0, 100]
+source = "test"
+ion_size_angstrom = 4
+)toml");
+    const Run bad = deltag("database check '" + p.string() + "'");
+    CHECK(bad.code == 2);
+    CHECK(has(bad.err, p.string() + ":13"));  // the [species."CaOH+"] table
+    CHECK(has(bad.err, "species.CaOH+"));
+    CHECK(has(bad.err, "not balanced"));
+    CHECK(has(bad.err, "H +1"));
+    CHECK(has(bad.err, "charge +1"));
+    // The same database refused for a run.
+    const fs::path c = write("uses-unbalanced.toml", "database = \"unbalanced.toml\"\n[water.a]\npH = 7\n");
+    const Run run = deltag("run '" + c.string() + "'");
+    CHECK(run.code == 2);
+    CHECK(has(run.err, "not balanced"));
+    CHECK(run.out.empty());
+}
+
+TEST_CASE("database check on a missing file exits 2") {
+    CHECK(deltag("database check /nonexistent/db.toml").code == 2);
+}
+
+TEST_CASE("database show prints an entry with log K at 0, 25, 50 and 100 degC") {
+    const Run r = deltag("database show Calcite");
+    CHECK(r.code == 0);
+    CHECK(has(r.out, "Calcite (mineral)"));
+    CHECK(has(r.out, "0 °C:"));
+    CHECK(has(r.out, "25 °C: -8.480"));  // Plummer & Busenberg (1982), check-values.md
+    CHECK(has(r.out, "50 °C:"));
+    CHECK(has(r.out, "100 °C:"));
+    CHECK(has(r.out, "Plummer"));
+    const Run s = deltag("database show 'CaHCO3+'");
+    CHECK(s.code == 0);
+    CHECK(has(s.out, "aqueous species"));
+}
+
+TEST_CASE("database show of an unknown name exits 2 with the nearest name") {
+    const Run r = deltag("database show Calcit");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, "did you mean 'Calcite'"));
+    CHECK(r.out.empty());
+}

@@ -1,0 +1,355 @@
+// Speciation against published values and textbook results, plus the solver's error paths.
+#include <doctest/doctest.h>
+
+#include <cmath>
+#include <string>
+
+#include "deltag/constants.hpp"
+#include "deltag/speciation.hpp"
+
+using namespace deltag;
+using namespace deltag::equilibrium;
+
+namespace {
+
+const thermo::Database& core() { return thermo::Database::embedded(); }
+
+std::size_t comp(const char* name) {
+    auto i = core().find_species(name);
+    REQUIRE(i.has_value());
+    REQUIRE(*i < core().component_count());
+    return *i;
+}
+
+ComponentInput total(const char* name, double mol_per_kgw) {
+    return ComponentInput{comp(name), ComponentInput::Kind::total, mol_per_kgw};
+}
+
+double species_molality(const SpeciationResult& r, const char* name) {
+    const SpeciesResult* s = r.find(name);
+    REQUIRE(s != nullptr);
+    return s->molality;
+}
+
+const SaturationResult& si_of(const SpeciationResult& r, const std::string& phase) {
+    for (const auto& s : r.saturation)
+        if (s.phase == phase) return s;
+    FAIL("no saturation result for " << phase);
+    return r.saturation.front();
+}
+
+// A fresh water with a measured pH, used by several checks (invented composition).
+SpeciationInput hard_water() {
+    SpeciationInput in;
+    in.label = "hard";
+    in.temperature_c = 25.0;
+    in.ph = 7.4;
+    in.activity_model = activity::ModelKind::truesdell_jones;
+    in.components = {total("Ca^2+", 2.5e-3), total("Mg^2+", 1.0e-3), total("Na+", 1.2e-3), total("K+", 1e-4),
+                     total("Cl-", 1.5e-3),   total("SO4^2-", 1.1e-3), total("HCO3-", 4.8e-3),
+                     total("H4SiO4", 2e-4),  total("F-", 1e-5),       total("NO3-", 1e-4)};
+    return in;
+}
+
+}  // namespace
+
+TEST_CASE("pure water at 25 degC has pH 6.998 +- 0.003") {
+    // Neutral pH = pKw/2 = 13.995/2 = 6.9975 (Bandura & Lvov 2006 pKw, value from memory,
+    // check-values.md). A water with no analytes is pure water; pH from the charge balance.
+    SpeciationInput in;
+    in.label = "pure";
+    const SpeciationResult r = speciate(core(), in);
+    CHECK(std::abs(r.ph - 6.998) <= 0.003);
+    CHECK(species_molality(r, "H+") == doctest::Approx(species_molality(r, "OH-")).epsilon(1e-9));
+    CHECK(r.summary.converged);
+}
+
+TEST_CASE("pure water: Kw at 0, 50 and 100 degC within 0.02 of Bandura & Lvov (2006)") {
+    // pKw 14.946, 13.264, 12.252 (Bandura & Lvov 2006, J. Phys. Chem. Ref. Data 35, 15;
+    // values from memory, check-values.md). In pure water a(H+) a(OH-) = Kw (a_w ~ 1).
+    const double published[][2] = {{0.0, 14.946}, {50.0, 13.264}, {100.0, 12.252}};
+    for (const auto& [t, pkw] : published) {
+        SpeciationInput in;
+        in.temperature_c = t;
+        const SpeciationResult r = speciate(core(), in);
+        const double log_kw = std::log10(r.find("H+")->activity) + std::log10(r.find("OH-")->activity);
+        CAPTURE(t);
+        CHECK(std::abs(-log_kw - pkw) <= 0.02);
+        CHECK(std::abs(r.ph - pkw / 2) <= 0.01);
+    }
+}
+
+TEST_CASE("measured pH: every mass balance closes to 1e-10 relative") {
+    const SpeciationInput in = hard_water();
+    const SpeciationResult r = speciate(core(), in);
+    for (const auto& c : in.components) {
+        // Sum of the component over all species from the reported molalities.
+        double sum = 0.0;
+        for (const auto& s : r.species)
+            for (const auto& [j, nu] : core().species()[s.species].formation)
+                if (j == c.component) sum += nu * s.molality;
+        CAPTURE(core().species()[c.component].name);
+        CHECK(std::abs(sum - c.value) <= 1e-10 * c.value);
+    }
+    CHECK(r.ph == doctest::Approx(7.4).epsilon(1e-12));
+}
+
+TEST_CASE("charge-balance error follows Standard Methods 1030 E") {
+    // Standard Methods 1030 E: % difference = 100 (sum cations - sum anions) / (sum cations +
+    // sum anions), sums in milliequivalents.
+    SpeciationInput in = hard_water();
+    in.components[2] = total("Na+", 2.0e-3);  // an analysis with too much sodium (invented)
+    const SpeciationResult r = speciate(core(), in);
+    double cations = 0.0, anions = 0.0;
+    for (const auto& s : r.species) {
+        const int z = core().species()[s.species].formula.charge;
+        if (z > 0) cations += z * s.molality * 1000;
+        if (z < 0) anions -= z * s.molality * 1000;
+    }
+    CHECK(r.cations_meq == doctest::Approx(cations).epsilon(1e-12));
+    CHECK(r.anions_meq == doctest::Approx(anions).epsilon(1e-12));
+    CHECK(r.charge_balance_error_percent == doctest::Approx(100 * (cations - anions) / (cations + anions)).epsilon(1e-12));
+    // The analysis above is off balance by more than the 1030 E acceptance (2 % for anion sums
+    // of 3-10 meq/L): the result says so.
+    CHECK(std::abs(r.charge_balance_error_percent) > 2.0);
+    bool warned = false;
+    for (const auto& w : r.warnings) warned = warned || w.find("1030 E") != std::string::npos;
+    CHECK(warned);
+}
+
+TEST_CASE("1 mmol/kgw NaHCO3 gives pH about (pK1 + pK2)/2") {
+    // Textbook result for an ampholyte: pH ~ (pK1 + pK2)/2 = (6.352 + 10.329)/2 = 8.34 with
+    // the Plummer & Busenberg (1982) constants (check-values.md). Water autoprotolysis and
+    // activity coefficients move the exact value a few hundredths lower.
+    SpeciationInput in;
+    in.components = {total("Na+", 1e-3), total("HCO3-", 1e-3)};
+    const SpeciationResult r = speciate(core(), in);
+    CHECK(std::abs(r.ph - (6.352 + 10.329) / 2) < 0.1);
+    CHECK(std::abs(r.charge_balance_error_percent) < 1e-8);
+}
+
+TEST_CASE("1 mmol/kgw HCl gives pH about 3.0") {
+    // Strong acid: a(H+) = gamma * 1e-3, gamma ~ 0.965 at I = 1e-3 (Davies): pH ~ 3.015.
+    SpeciationInput in;
+    in.components = {total("Cl-", 1e-3)};
+    const SpeciationResult r = speciate(core(), in);
+    CHECK(std::abs(r.ph - 3.0) < 0.03);
+    CHECK(species_molality(r, "H+") == doctest::Approx(1e-3).epsilon(1e-6));
+}
+
+TEST_CASE("a water built to be exactly at calcite saturation reports SI = 0 and dG = 0") {
+    // Fix pH and carbonate, then solve for the calcium total that makes SI(calcite) = 0 by
+    // the secant method on log10(Ca); the check is that the reported SI and dG vanish.
+    auto si_at = [](double log_ca) {
+        SpeciationInput in;
+        in.ph = 8.1;
+        in.components = {total("Ca^2+", std::pow(10.0, log_ca)), total("HCO3-", 3e-3), total("Cl-", 1e-4),
+                         total("Na+", 1e-3)};
+        in.charge_balance_component = comp("Na+");
+        const SpeciationResult r = speciate(core(), in);
+        return std::make_pair(si_of(r, "Calcite").si, si_of(r, "Calcite").delta_g_kj_per_mol);
+    };
+    double x0 = -4.0, x1 = -3.3, f0 = si_at(x0).first, f1 = si_at(x1).first;
+    for (int i = 0; i < 50 && std::abs(f1) > 1e-12; ++i) {
+        const double x2 = x1 - f1 * (x1 - x0) / (f1 - f0);
+        x0 = x1;
+        f0 = f1;
+        x1 = x2;
+        f1 = si_at(x1).first;
+    }
+    const auto [si, dg] = si_at(x1);
+    CHECK(std::abs(si) <= 1e-6);
+    CHECK(std::abs(dg) <= 1e-6 * constants::rt_ln10_kj(298.15));
+}
+
+TEST_CASE("saturation index and dG of dissolution are consistent: dG = RT ln10 SI") {
+    const SpeciationResult r = speciate(core(), hard_water());
+    REQUIRE(!r.saturation.empty());
+    for (const auto& s : r.saturation) {
+        CAPTURE(s.phase);
+        CHECK(s.delta_g_kj_per_mol == doctest::Approx(constants::rt_ln10_kj(298.15) * s.si).epsilon(1e-12));
+        CHECK(s.si == doctest::Approx(s.log_iap - s.log_k).epsilon(1e-9));
+        if (s.si > default_si_tolerance) CHECK(s.verdict == Verdict::precipitation_favoured);
+        else if (s.si < -default_si_tolerance) CHECK(s.verdict == Verdict::dissolution_favoured);
+        else CHECK(s.verdict == Verdict::at_equilibrium);
+    }
+    // Calcite's IAP as the database writes the reaction: a(Ca^2+) a(CO3^2-).
+    const auto& cal = si_of(r, "Calcite");
+    CHECK(cal.log_iap == doctest::Approx(std::log10(r.find("Ca^2+")->activity * r.find("CO3^2-")->activity)).epsilon(1e-9));
+}
+
+TEST_CASE("alkalinity as input is reproduced by the speciation") {
+    SpeciationInput in = hard_water();
+    in.components.back() = total("NO3-", 1e-4);
+    for (auto& c : in.components)
+        if (c.component == comp("HCO3-")) c = ComponentInput{comp("HCO3-"), ComponentInput::Kind::alkalinity, 4.5e-3};
+    const SpeciationResult r = speciate(core(), in);
+    CHECK(r.alkalinity_eq == doctest::Approx(4.5e-3).epsilon(1e-10));
+    CHECK(r.element_totals.at("C") > 4.5e-3);  // at pH 7.4 some carbon is CO2(aq)
+}
+
+TEST_CASE("charge balance on an analyte closes the balance at a fixed pH") {
+    SpeciationInput in = hard_water();
+    in.charge_balance_component = comp("Cl-");
+    const SpeciationResult r = speciate(core(), in);
+    CHECK(std::abs(r.charge_balance_error_percent) < 1e-8);
+    CHECK(r.component_totals[comp("Cl-")] > 1.5e-3);  // the analysis above lacks anions
+}
+
+TEST_CASE("hard cases converge: acid, caustic, dilute, brine; no number is NaN") {
+    struct Case {
+        const char* what;
+        SpeciationInput in;
+    };
+    std::vector<Case> cases;
+    {
+        SpeciationInput in;  // mine drainage style acid sulfate water (invented)
+        in.components = {total("SO4^2-", 2e-2), total("Ca^2+", 4e-3), total("Mg^2+", 2e-3), total("Fe^2+", 1e-3)};
+        cases.push_back({"acid sulfate", in});
+    }
+    {
+        SpeciationInput in;  // caustic: 0.05 mol/kgw NaOH with some carbonate
+        in.components = {total("Na+", 5e-2), total("HCO3-", 1e-3)};
+        cases.push_back({"caustic", in});
+    }
+    {
+        SpeciationInput in;  // rain-like, nanomolar salts
+        in.components = {total("Na+", 1e-9), total("Cl-", 1e-9), total("HCO3-", 1e-8)};
+        cases.push_back({"dilute", in});
+    }
+    {
+        SpeciationInput in;  // a brine near halite saturation
+        in.activity_model = activity::ModelKind::truesdell_jones;
+        in.components = {total("Na+", 5.5), total("Cl-", 5.5), total("Ca^2+", 1e-2), total("SO4^2-", 1e-2),
+                         total("HCO3-", 2e-3)};
+        cases.push_back({"brine", in});
+    }
+    {
+        SpeciationInput in;  // seawater-like major ions (rounded, invented for the test)
+        in.ph = 8.1;
+        in.activity_model = activity::ModelKind::truesdell_jones;
+        in.components = {total("Na+", 0.486), total("Mg^2+", 0.0547), total("Ca^2+", 0.0107), total("K+", 0.0106),
+                         total("Cl-", 0.566),  total("SO4^2-", 0.0293), total("HCO3-", 0.0021)};
+        cases.push_back({"seawater-like", in});
+    }
+    for (const auto& c : cases) {
+        CAPTURE(c.what);
+        const SpeciationResult r = speciate(core(), c.in);
+        CHECK(r.summary.converged);
+        CHECK(std::isfinite(r.ph));
+        CHECK(std::isfinite(r.ionic_strength));
+        for (const auto& s : r.species) {
+            CHECK(std::isfinite(s.molality));
+            CHECK(std::isfinite(s.log_gamma));
+        }
+        for (const auto& s : r.saturation) CHECK(std::isfinite(s.si));
+    }
+}
+
+TEST_CASE("a warm start reaches the same answer in fewer iterations") {
+    const SpeciationInput in = hard_water();
+    const SpeciationResult cold = speciate(core(), in);
+    SpeciationInput near = in;
+    near.temperature_c = 26.0;
+    const SpeciationResult warm = speciate(core(), near, {}, &cold);
+    const SpeciationResult cold2 = speciate(core(), near);
+    CHECK(warm.summary.iterations <= cold2.summary.iterations);
+    CHECK(warm.ionic_strength == doctest::Approx(cold2.ionic_strength).epsilon(1e-10));
+}
+
+TEST_CASE("warnings: model range, temperature range, redox species without pe") {
+    SUBCASE("ionic strength beyond the model") {
+        SpeciationInput in;
+        in.activity_model = activity::ModelKind::davies;
+        in.components = {total("Na+", 1.0), total("Cl-", 1.0)};
+        const SpeciationResult r = speciate(core(), in);
+        bool warned = false;
+        for (const auto& w : r.warnings) warned = warned || w.find("beyond the range of the davies model") != std::string::npos;
+        CHECK(warned);
+    }
+    SUBCASE("iron without pe leaves the ferric species out, and says so") {
+        SpeciationInput in;
+        in.ph = 6.5;
+        in.components = {total("Fe^2+", 1e-5), total("Cl-", 2e-5)};
+        const SpeciationResult r = speciate(core(), in);
+        CHECK(r.find("Fe^3+") == nullptr);
+        bool warned = false;
+        for (const auto& w : r.warnings) warned = warned || w.find("no pe given") != std::string::npos;
+        CHECK(warned);
+    }
+    SUBCASE("with a pe the ferric species are in") {
+        SpeciationInput in;
+        in.ph = 3.0;
+        in.pe = 13.02;  // pe = -log K of Fe2+ = Fe3+ + e- at 25 degC: equal activities
+        in.components = {total("Fe^2+", 1e-5), total("Cl-", 1e-3)};
+        const SpeciationResult r = speciate(core(), in);
+        REQUIRE(r.find("Fe^3+") != nullptr);
+        // Nordstrom et al. (1990) log K = -13.02 (value from memory): a(Fe3+)/a(Fe2+) = 1 at pe 13.02.
+        CHECK(r.find("Fe^3+")->activity / r.find("Fe^2+")->activity == doctest::Approx(1.0).epsilon(0.02));
+    }
+}
+
+TEST_CASE("speciate rejects input it cannot set up") {
+    auto expect_input_error = [](const SpeciationInput& in, const std::string& fragment) {
+        try {
+            (void)speciate(core(), in);
+            FAIL("expected an InputError containing: " << fragment);
+        } catch (const InputError& e) {
+            CHECK(std::string(e.what()).find(fragment) != std::string::npos);
+        }
+    };
+    SpeciationInput in;
+    in.temperature_c = 120.0;
+    expect_input_error(in, "0-100 degC");
+    in = {};
+    in.ph = 15.0;
+    expect_input_error(in, "pH within 0-14");
+    in = {};
+    in.pe = std::nan("");
+    expect_input_error(in, "finite pe");
+    in = {};
+    in.components = {total("Na+", 1e-3), total("Na+", 1e-3)};
+    expect_input_error(in, "given twice");
+    in = {};
+    in.components = {ComponentInput{core().proton(), ComponentInput::Kind::total, 1e-3}};
+    expect_input_error(in, "set by pH");
+    in = {};
+    in.components = {total("Na+", -1e-3)};
+    expect_input_error(in, "positive total");
+    in = {};
+    in.components = {total("Na+", std::nan(""))};
+    expect_input_error(in, "finite amount");
+    in = {};
+    in.components = {ComponentInput{9999, ComponentInput::Kind::total, 1.0}};
+    expect_input_error(in, "out of range");
+    in = {};
+    in.components = {total("Na+", 1e-3), total("Cl-", 1e-3)};
+    in.charge_balance_component = comp("Cl-");
+    expect_input_error(in, "needs a measured pH");
+    in.ph = 7.0;
+    in.charge_balance_component = comp("H4SiO4");
+    expect_input_error(in, "charged component");
+    in.components = {total("Na+", 1e-3), ComponentInput{comp("HCO3-"), ComponentInput::Kind::alkalinity, 1e-3}};
+    in.charge_balance_component = comp("HCO3-");
+    expect_input_error(in, "cannot adjust an alkalinity");
+    in = {};
+    in.components = {total("Na+", 1e-3), ComponentInput{comp("HCO3-"), ComponentInput::Kind::alkalinity, 1e-3}};
+    expect_input_error(in, "the pH cannot come from the charge balance when the alkalinity is given");
+}
+
+TEST_CASE("a charge balance that needs a negative amount ends in ConvergenceError") {
+    // Much calcium, little chloride, neutral pH: closing the balance on Na+ would need a
+    // negative sodium total (about 1e-3 - 2e-2 mol/kgw), which no log-space solution gives.
+    SpeciationInput in;
+    in.label = "impossible";
+    in.ph = 7.0;
+    in.components = {total("Na+", 1e-3), total("Ca^2+", 1e-2), total("Cl-", 1e-3)};
+    in.charge_balance_component = comp("Na+");
+    try {
+        (void)speciate(core(), in);
+        FAIL("expected a ConvergenceError");
+    } catch (const ConvergenceError& e) {
+        CHECK(std::string(e.what()).find("water 'impossible'") != std::string::npos);
+        CHECK(std::string(e.what()).find("negative amount") != std::string::npos);
+    }
+}
