@@ -4,8 +4,8 @@
 //
 // Atomic weights used in the hand computations below: IUPAC 2021 standard atomic weights,
 // abridged (check-values.md, values from memory): H 1.008, C 12.011, N 14.007, O 15.999,
-// Na 22.990, Al 26.982, S 32.06, Cl 35.45, Ca 40.078, Fe 55.845; P 30.974 (IUPAC 2021
-// abridged value, from memory; not in check-values.md).
+// Na 22.990, Al 26.982, S 32.06, Cl 35.45, K 39.098, Ca 40.078, Fe 55.845; P 30.974 (IUPAC
+// 2021 abridged value, from memory; not in check-values.md).
 #include <doctest/doctest.h>
 
 #include <algorithm>
@@ -258,9 +258,8 @@ TEST_CASE("parentheses: groups with counts and nested groups") {
 }
 
 TEST_CASE("square brackets group like parentheses: K4[Fe(CN)6]") {
-    // BUG (see report): read_group accepts '[' as an opening bracket and even accepts a
-    // ']'-group closed by ')', but it stops a group only at ')', so a ']' always fails with
-    // "unexpected character ']'". "K4[Fe(CN)6]" should read as K 4, Fe 1, C 6, N 6.
+    // Regression: ']' used to be refused as "unexpected character" while "[ ... )" was
+    // accepted (found by this test, since fixed in formula.cpp).
     std::optional<Formula> f;
     CHECK_NOTHROW(f = parse_formula("K4[Fe(CN)6]"));
     if (f) {
@@ -268,9 +267,20 @@ TEST_CASE("square brackets group like parentheses: K4[Fe(CN)6]") {
         CHECK(f->atoms("Fe") == 1.0);
         CHECK(f->atoms("C") == 6.0);
         CHECK(f->atoms("N") == 6.0);
+        // 4 x 39.098 + 55.845 + 6 x (12.011 + 14.007) = 156.392 + 55.845 + 156.108 = 368.345
+        CHECK(f->molar_mass() == doctest::Approx(368.345).epsilon(1e-12));
     }
-    // The mismatched pair "[ ... )" must be refused.
-    CHECK(formula_error("K4[Fe(CN)6)").has_value());
+    CHECK(parse_formula("[Fe(CN)6]^4-").charge == -4);
+    // The mismatched pair "[ ... )" is refused at the ')'.
+    auto e = formula_error("K4[Fe(CN)6)");
+    REQUIRE(e.has_value());
+    CHECK(e->column() == 11);
+    CHECK(contains(e->message(), "missing ']'"));
+    // A ']' without '['.
+    auto e2 = formula_error("K4Fe(CN)6]");
+    REQUIRE(e2.has_value());
+    CHECK(e2->column() == 10);
+    CHECK(contains(e2->message(), "unmatched ']'"));
 }
 
 TEST_CASE("the electron") {
@@ -282,9 +292,8 @@ TEST_CASE("the electron") {
     // Ordinary ions are not electrons.
     CHECK_FALSE(parse_formula("Cl-").is_electron());
     CHECK_FALSE(parse_formula("H+").is_electron());
-    // BUG (see report): the parser accepts "e^-" as the electron (charge -1, no elements),
-    // but Formula::is_electron() only recognises text beginning with "e-", so a database
-    // component written "e^-" would not get the electron role.
+    // "e^-" is the electron too. Regression: is_electron() used to recognise only text
+    // beginning with "e-" (found by this test, since fixed in chem.hpp).
     const Formula e2 = parse_formula("e^-");
     CHECK(e2.charge == -1);
     CHECK(e2.elements.empty());
@@ -292,21 +301,29 @@ TEST_CASE("the electron") {
 }
 
 TEST_CASE("mixed trailing signs are refused") {
-    // The parser's own comment says: '"Ca++" is accepted as +2; mixed "+-" would have
-    // cancelled and is refused.' BUG (see report): it is not refused — "Ca+-" reads as a
-    // neutral Ca with charge 0, silently.
-    CHECK(formula_error("Ca+-").has_value());
+    // "Ca++" is +2, but "Ca+-" is no charge anyone means. Regression: "Ca+-" used to read
+    // silently as neutral Ca (found by this test, since fixed in formula.cpp).
+    auto e = formula_error("Ca+-");
+    REQUIRE(e.has_value());
+    CHECK(e->column() == 3);  // the '+' that disagrees with the last sign
+    CHECK(contains(e->message(), "mixed"));
     CHECK(formula_error("Ca-+").has_value());
+    CHECK(formula_error("Na+-+").has_value());
 }
 
 TEST_CASE("hydrate written with the middle dot U+00B7") {
-    // The parser's comment says hydrate parts are separated by '*' "(or U+00B7 middle
-    // dot)". BUG (see report, minor): the middle dot is not handled; "CaSO4·2H2O" fails
-    // with "unexpected character". (The contract's ASCII form uses '*', so either the
-    // comment or the code is wrong.)
+    // Printed hydrates use the middle dot; it reads as '*'. Regression: the dot used to be
+    // refused as "unexpected character" although the code's comment promised it (found by
+    // this test, since fixed in formula.cpp).
     std::optional<Formula> f;
     CHECK_NOTHROW(f = parse_formula("CaSO4\u00b72H2O"));
-    if (f) CHECK(f->molar_mass() == doctest::Approx(172.164).epsilon(1e-12));
+    if (f) {
+        CHECK(f->molar_mass() == doctest::Approx(172.164).epsilon(1e-12));
+        CHECK(f->atoms("H") == 4.0);
+        // Formula::text is the text as written (chem.hpp); ascii_form() gives the '*' form.
+        CHECK(ascii_form(f->text) == "CaSO4*2H2O");
+        CHECK(f->text == "CaSO4\u00b72H2O");
+    }
 }
 
 // ---------------------------------------------------------------------------------------
@@ -793,11 +810,12 @@ TEST_CASE("pretty(): subscripts, superscripts, phase marks, hydrates") {
 }
 
 TEST_CASE("pretty(): repeated signs and fractional hydrate counts") {
-    // BUG (see report): only the last of repeated trailing signs becomes a superscript:
-    // pretty("Ca++") gives "Ca+⁺". Ca++ is an accepted way to write Ca^2+.
-    CHECK(pretty("Ca++").find('+') == std::string::npos);
-    // BUG (see report): the digit after the decimal point of a hydrate count is turned
-    // into a subscript: pretty("CaSO4*0.5H2O") gives "CaSO₄·0.₅H₂O".
+    // Regressions (found by these checks, since fixed in formula.cpp): pretty("Ca++") used to
+    // give "Ca+⁺", and the digit after the decimal point of a hydrate count became a
+    // subscript ("CaSO₄·0.₅H₂O").
+    CHECK(pretty("Ca++") == "Ca²⁺");
+    CHECK(pretty("SO4--") == "SO₄²⁻");
+    CHECK(pretty("Fe+++") == "Fe³⁺");
     CHECK(pretty("CaSO4*0.5H2O") == "CaSO₄·0.5H₂O");
 }
 
@@ -828,19 +846,22 @@ TEST_CASE("nearest_name") {
     CHECK(nearest_name("Anhydrit", minerals) == "Anhydrite");
     SUBCASE("nothing close") {
         CHECK(nearest_name("Xyz", minerals).empty());
-        // Magnesite -> Calcite is 5 edits; the limit for 9 letters is max(2, 9/2) = 4.
+        // Magnesite -> Calcite is 5 edits; the limit for 9 letters is max(2, 10/3) = 3.
         CHECK(nearest_name("Magnesite", minerals).empty());
         CHECK(nearest_name("Calcite", {}).empty());
+        // "e-" -> "Cl-" is 2 edits, above the single edit allowed for a 2-character name.
+        CHECK(nearest_name("e-", {"Cl-", "Na+"}).empty());
     }
-    SUBCASE("the limit is max(2, |name|/2), inclusive") {
-        // "Ca" -> "Ca^2+" is 3 edits, above the limit 2 of a 2-letter name.
+    SUBCASE("the limit: 1 edit up to 2 characters, else max(2, (|name|+1)/3), inclusive") {
+        // "Ca" -> "Ca^2+" is 3 edits, above the limit 1 of a 2-letter name.
         CHECK(nearest_name("Ca", {"Ca^2+"}).empty());
-        // 2 edits for a 2-letter name: accepted (limit 2).
-        CHECK(nearest_name("Ca", {"Ca^+"}) == "Ca^+");
+        CHECK(nearest_name("Ca", {"Ca^+"}).empty());   // 2 edits: refused
+        CHECK(nearest_name("Ca", {"Ca+"}) == "Ca+");   // 1 edit: accepted
         CHECK(nearest_name("HCO3", {"HCO3-", "CO3^2-"}) == "HCO3-");
-        // 8 letters: limit 4.
-        CHECK(nearest_name("abcdefgh", {"abcdwxyz"}) == "abcdwxyz");   // 4 edits, accepted
-        CHECK(nearest_name("abcdefgh", {"abcvwxyz"}).empty());          // 5 edits, refused
+        CHECK(nearest_name("Ca+2", {"Ca^2+"}) == "Ca^2+");  // 2 edits for 4 letters: accepted
+        // 8 letters: limit 3.
+        CHECK(nearest_name("abcdefgh", {"abcdexyz"}) == "abcdexyz");   // 3 edits, accepted
+        CHECK(nearest_name("abcdefgh", {"abcdwxyz"}).empty());          // 4 edits, refused
     }
     SUBCASE("ties go to the first candidate") {
         CHECK(nearest_name("Cb", {"Ca", "Cc"}) == "Ca");
@@ -901,4 +922,11 @@ TEST_CASE("ConvergenceError composes subject, reason, residual and hint") {
     CHECK(nan_residual.residual_norm() == -1.0);
     CHECK(contains(nan_residual.what(), "step 3: did not converge (singular Jacobian"));
     CHECK_THROWS_AS(throw ConvergenceError("s", 1.0, "r", "h"), std::runtime_error);
+}
+
+TEST_CASE("a charge above 99 is refused") {
+    auto e = formula_error("Ca^999999999999+");
+    REQUIRE(e.has_value());
+    CHECK(e->message().find("more than 99") != std::string::npos);
+    CHECK(e->column() == 4);
 }

@@ -248,3 +248,9 @@ TEST_CASE("database show of an unknown name exits 2 with the nearest name") {
     CHECK(has(r.err, "did you mean 'Calcite'"));
     CHECK(r.out.empty());
 }
+
+TEST_CASE("a write that fails (device full) exits 2 and says so") {
+    const Run r = deltag("run '" + write("good.toml", good_case).string() + "' --output /dev/full");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, "/dev/full"));
+}

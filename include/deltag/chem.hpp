@@ -43,7 +43,12 @@ struct Formula {
 };
 
 // Parses one formula. Throws ParseError on malformed text or an unknown element symbol.
+// Formula::text keeps the text as written.
 Formula parse_formula(std::string_view text);
+
+// The ASCII form of a formula: the printed hydrate dot U+00B7 becomes '*'. Two spellings of
+// one formula compare equal after this.
+std::string ascii_form(std::string_view text);
 
 // Standard atomic weight (IUPAC 2021, abridged conventional values), g/mol.
 // Returns nullopt for a symbol that is not an element.

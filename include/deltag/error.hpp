@@ -63,7 +63,8 @@ private:
 std::size_t edit_distance(std::string_view a, std::string_view b);
 
 // The candidate closest to `name` by edit distance, or "" when nothing is reasonably close
-// (distance above max(2, |name|/2)).
+// (more than one edit for names of up to two characters, else more than
+// max(2, (|name| + 1)/3) edits).
 std::string nearest_name(std::string_view name, const std::vector<std::string>& candidates);
 
 }  // namespace deltag

@@ -77,7 +77,9 @@ std::string nearest_name(std::string_view name, const std::vector<std::string>& 
             best = c;
         }
     }
-    const std::size_t limit = std::max<std::size_t>(2, name.size() / 2);
+    // Two edits, or one in three characters for long names ("Ca+2" -> "Ca^2+"); a single
+    // edit for names of one or two characters, so "e-" does not suggest "Cl-".
+    const std::size_t limit = name.size() <= 2 ? 1 : std::max<std::size_t>(2, (name.size() + 1) / 3);
     return best_d <= limit ? best : std::string{};
 }
 

@@ -79,6 +79,7 @@ public:
                 for (char c : digits)
                     if (!std::isdigit(static_cast<unsigned char>(c)))
                         fail(static_cast<int>(caret) + 2, "the charge magnitude must be a whole number");
+                if (digits.size() > 2) fail(static_cast<int>(caret) + 2, "a charge of more than 99 is not a chemical charge");
                 magnitude = std::atoi(std::string(digits).c_str());
                 if (magnitude == 0) fail(static_cast<int>(caret) + 2, "a charge of zero is written without '^'");
             }
@@ -187,6 +188,13 @@ std::string trim(std::string_view s) {
 
 }  // namespace
 
+std::string ascii_form(std::string_view text) {
+    // The middle dot U+00B7 of printed hydrates is read as '*'.
+    std::string t(text);
+    for (std::size_t p = t.find("\u00b7"); p != std::string::npos; p = t.find("\u00b7", p)) t.replace(p, 2, "*");
+    return t;
+}
+
 ParseError::ParseError(std::string text, int column, std::string message)
     : std::invalid_argument("'" + text + "'" + (column > 0 ? " at column " + std::to_string(column) : std::string()) +
                             ": " + message),
@@ -232,11 +240,11 @@ double Formula::atoms(std::string_view element) const {
 }
 
 Formula parse_formula(std::string_view text) {
-    std::string t = trim(text);
-    // The middle dot U+00B7 of printed hydrates is read as '*'.
-    for (std::size_t p = t.find("\u00b7"); p != std::string::npos; p = t.find("\u00b7", p)) t.replace(p, 2, "*");
-    if (t.empty()) throw ParseError(std::string(text), 0, "empty formula");
-    return FormulaReader(t).read();
+    const std::string written = trim(text);
+    if (written.empty()) throw ParseError(std::string(text), 0, "empty formula");
+    Formula f = FormulaReader(ascii_form(written)).read();
+    f.text = written;  // the text as written, middle dot and all
+    return f;
 }
 
 double Reaction::coefficient(std::string_view species) const {

@@ -2,6 +2,7 @@
 // and gas in terms of the components.
 #include <algorithm>
 #include <cmath>
+#include <filesystem>
 #include <fstream>
 #include <functional>
 #include <limits>
@@ -134,6 +135,13 @@ private:
                 r.fail("log_k_model", "expected \"water-ionization\" (the only special model)",
                        nearest_name(*model, {"water-ionization"}));
             m.form = LogKModel::Form::water_ionization;
+            // The Kw formulation is for H2O = H+ + OH- as written; any other reaction would
+            // silently take the wrong log K.
+            const chem::Reaction& rx = raw.reaction;
+            const bool ionization = rx.terms.size() == 3 && rx.coefficient("H2O") == -1.0 &&
+                                    rx.coefficient("H+") == 1.0 && rx.coefficient("OH-") == 1.0;
+            if (!ionization)
+                r.fail("log_k_model", "\"water-ionization\" is only for the reaction \"H2O = OH- + H+\"");
         }
     }
 
@@ -335,9 +343,11 @@ private:
             std::string self;
             double nu = 0.0;
             const std::string f = raw.entry.formula.text;
+            const std::string fa = chem::ascii_form(f);
             for (const auto& term : raw.reaction.terms) {
+                const std::string ta = chem::ascii_form(term.species);
                 const bool mine = gas ? term.species == raw.entry.name
-                                      : (term.species == f || term.species == f + "(s)" || term.species == f + "(cr)");
+                                      : (ta == fa || ta == fa + "(s)" || ta == fa + "(cr)");
                 if (mine) {
                     self = term.species;
                     nu += term.coefficient;
@@ -419,6 +429,9 @@ Database Database::parse(std::string_view toml_text, const std::string& origin) 
 }
 
 Database Database::load_file(const std::string& path) {
+    std::error_code ec;
+    if (std::filesystem::is_directory(path, ec))
+        throw InputError(SourceLocation{path, 0, 0}, "", "cannot read a directory as a database file");
     std::ifstream in(path, std::ios::binary);
     if (!in) throw InputError(SourceLocation{path, 0, 0}, "", "cannot open the database file");
     std::ostringstream ss;
