@@ -353,3 +353,37 @@ TEST_CASE("a charge balance that needs a negative amount ends in ConvergenceErro
         CHECK(std::string(e.what()).find("negative amount") != std::string::npos);
     }
 }
+
+TEST_CASE("the fallback rescues a first attempt that cannot finish") {
+    // A warm start nine decades away from the answer, with steps capped at 0.001 log units,
+    // cannot get there in 200 iterations; the fallback (ideal solution from the default
+    // start, then damped steps of up to 1 log unit) can.
+    SpeciationResult bad_start = speciate(core(), hard_water());
+    for (auto& s : bad_start.species) s.molality *= 1e-9;
+    SolverOptions options;
+    options.max_step_log10 = 0.001;
+    const SpeciationResult r = speciate(core(), hard_water(), options, &bad_start);
+    CHECK(r.summary.converged);
+    CHECK(r.summary.attempts > 1);
+    CHECK(r.summary.method.find("fallback") != std::string::npos);
+    const SpeciationResult reference = speciate(core(), hard_water());
+    CHECK(r.ionic_strength == doctest::Approx(reference.ionic_strength).epsilon(1e-9));
+
+    options.allow_fallback = false;
+    try {
+        (void)speciate(core(), hard_water(), options, &bad_start);
+        FAIL("expected a ConvergenceError without the fallback");
+    } catch (const ConvergenceError& e) {
+        CHECK(e.residual_norm() > options.tolerance);
+        CHECK(std::string(e.what()).find("water 'hard'") != std::string::npos);
+        CHECK(!e.hint().empty());
+    }
+}
+
+TEST_CASE("solver summary texts") {
+    const SpeciationResult r = speciate(core(), hard_water());
+    CHECK(r.summary.brief().find("converged in") != std::string::npos);
+    CHECK(r.summary.full().find("Newton iterations: ") != std::string::npos);
+    CHECK(r.summary.iterations > 0);
+    CHECK(r.summary.residual_norm <= 1e-11);
+}

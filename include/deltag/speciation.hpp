@@ -46,6 +46,21 @@ struct ComponentInput {
     double value = 0.0;         // mol/kgw (total) or eq/kgw (total alkalinity)
 };
 
+// A mineral held at a saturation index while it dissolves or precipitates.
+struct MineralTarget {
+    enum class Direction { both, dissolve_only, precipitate_only };
+    std::size_t mineral = 0;                 // index into Database::minerals()
+    double target_si = 0.0;
+    std::optional<double> amount_mol_per_kgw;  // solid available to dissolve; absent: unlimited
+    Direction direction = Direction::both;
+};
+
+// A gas held at a partial pressure (an open system: unlimited supply and sink).
+struct GasTarget {
+    std::size_t gas = 0;                     // index into Database::gases()
+    double log_partial_pressure_atm = 0.0;
+};
+
 struct SpeciationInput {
     std::string label;                       // for messages: the water's or step's name
     double temperature_c = 25.0;
@@ -55,6 +70,22 @@ struct SpeciationInput {
     std::optional<double> pe;                // fixed pe; absent: redox species left out
     // With a fixed pH, close the charge balance by adjusting this component's total.
     std::optional<std::size_t> charge_balance_component;
+    // The charge balance reads sum(z m) = charge_imbalance_eq (eq/kgw). A lab analysis is
+    // balanced (0); a water carried through process steps keeps the imbalance its analysis
+    // had, which is the same as conserving its protons.
+    double charge_imbalance_eq = 0.0;
+    std::vector<MineralTarget> minerals;     // phases in equilibrium (equilibrate)
+    std::vector<GasTarget> gases;
+};
+
+// What moved between the water and a phase during a solve.
+struct PhaseTransfer {
+    std::string phase;
+    bool is_gas = false;
+    double moles = 0.0;        // mol/kgw into the water (+ dissolved, - precipitated)
+    bool at_target = false;    // the phase ended at its target SI / partial pressure
+    bool exhausted = false;    // a finite mineral dissolved completely
+    bool blocked = false;      // the allowed direction stopped it short of its target
 };
 
 struct SpeciesResult {
@@ -100,6 +131,7 @@ struct SpeciationResult {
     double anions_meq = 0.0;                  // sum of |z|*m over anions, meq/kgw
     double charge_balance_error_percent = 0.0;  // Standard Methods 1030 E
     std::vector<SaturationResult> saturation;
+    std::vector<PhaseTransfer> transfers;
     std::vector<std::string> warnings;
     SolveSummary summary;
 

@@ -12,6 +12,7 @@
 #include <chrono>
 #include <cmath>
 #include <cstring>
+#include <functional>
 #include <limits>
 #include <sstream>
 
@@ -28,25 +29,37 @@ using Eigen::MatrixXd;
 using Eigen::VectorXd;
 constexpr double ln10 = constants::ln10;
 
-enum class Equation { mass, alkalinity, charge, ionic_strength, water };
+enum class Equation { mass, alkalinity, charge, ionic_strength, water, phase };
+
+// A mineral or gas held at its target: one unknown (the amount moved into the water) and one
+// equation (its SI, or log p, at the target).
+struct PhaseUnknown {
+    Eigen::RowVectorXd nu;   // dissolution coefficients over the system's columns
+    double log_k = 0.0;      // of the dissolution in components, at the temperature
+    double target = 0.0;     // SI or log10 p
+    int unknown = -1;
+};
 
 struct Problem {
     const ChemicalSystem* sys = nullptr;
     std::size_t n = 0;                     // unknowns
     std::vector<Equation> equation;        // per unknown
-    std::vector<double> target;            // per unknown (totals, alkalinity)
+    std::vector<double> target;            // per unknown (totals, alkalinity, charge imbalance)
     std::vector<double> scale;             // per unknown, residual divisor
-    std::vector<int> column_of_unknown;    // -1 for I and w
+    std::vector<int> column_of_unknown;    // -1 for I, w and phases
+    std::vector<int> phase_of_unknown;     // index into phases, or -1
     std::vector<int> species_of_column;    // index into sys->species of each column's own species (-1)
     int i_unknown = -1, w_unknown = -1, h_unknown = -1;
     double log_a_h_fixed = 0.0, log_a_e_fixed = 0.0;
     MatrixXd weights;                      // species x unknowns, for mass/alkalinity/charge rows
+    MatrixXd coupling;                     // unknowns x unknowns: d(balance residual)/d(phase amount)
     VectorXd z2;                           // charge squared per species
+    std::vector<PhaseUnknown> phases;
 
     // Work arrays.
-    mutable VectorXd log_m, m, lg, dlg;
+    mutable VectorXd log_m, m, lg, dlg, la, dla;
     mutable MatrixXd g;                    // d log10 m / d u
-    std::vector<double> lg_buf, dlg_buf;
+    mutable std::vector<double> lg_buf, dlg_buf;
 
     void evaluate(const double* u, double* f, double* jac) const;
 };
@@ -55,17 +68,14 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
     const ChemicalSystem& s = *sys;
     const Index ns = static_cast<Index>(s.species.size());
     const double log_i = u[i_unknown];
-    const double ionic = std::pow(10.0, std::clamp(log_i, -20.0, 2.0));
-    auto& lgb = const_cast<std::vector<double>&>(lg_buf);
-    auto& dlgb = const_cast<std::vector<double>&>(dlg_buf);
-    s.model->log_gamma(ionic, s.params, lgb, dlgb);
+    const double ionic = std::exp(ln10 * std::clamp(log_i, -20.0, 2.0));
+    s.model->log_gamma(ionic, s.params, lg_buf, dlg_buf);
     for (Index k = 0; k < ns; ++k) {
-        lg(k) = lgb[k];
-        dlg(k) = dlgb[k];
+        lg(k) = lg_buf[static_cast<std::size_t>(k)];
+        dlg(k) = dlg_buf[static_cast<std::size_t>(k)];
     }
     // Log activity of each column and its d/dI part.
     const Index nc = static_cast<Index>(s.columns.size());
-    VectorXd la(nc), dla(nc);
     for (Index c = 0; c < nc; ++c) {
         const ComponentColumn& col = s.columns[c];
         const int k = species_of_column[c];
@@ -90,21 +100,20 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
         }
     }
     log_m = s.log_k + s.nu * la - lg;
-    const VectorXd dlogm_di = s.nu * dla - dlg;  // per unit I
-    for (Index k = 0; k < ns; ++k) {
-        const double v = log_m(k);
-        m(k) = std::exp(ln10 * std::clamp(v, -300.0, 50.0));
-    }
+    for (Index k = 0; k < ns; ++k) m(k) = std::exp(ln10 * std::clamp(log_m(k), -300.0, 50.0));
     // Residuals.
     const VectorXd lin = weights.transpose() * m;
     const double half_z2m = 0.5 * z2.dot(m);
     const double sum_m = m.sum();
+    const Eigen::Map<const VectorXd> uv(u, static_cast<Index>(n));
+    const VectorXd phase_part = coupling * uv;  // only phase columns of coupling are non-zero
     for (std::size_t e = 0; e < n; ++e) {
+        const Index r = static_cast<Index>(e);
         switch (equation[e]) {
             case Equation::mass:
             case Equation::alkalinity:
             case Equation::charge:
-                f[e] = (lin(static_cast<Index>(e)) - target[e]) / scale[e];
+                f[e] = (lin(r) - target[e]) / scale[e] + phase_part(r);
                 break;
             case Equation::ionic_strength:
                 f[e] = half_z2m / ionic - 1.0;
@@ -112,10 +121,16 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
             case Equation::water:
                 f[e] = u[w_unknown] + constants::water_molar_mass_kg * sum_m / ln10;
                 break;
+            case Equation::phase: {
+                const PhaseUnknown& ph = phases[static_cast<std::size_t>(phase_of_unknown[e])];
+                f[e] = ph.nu.dot(la) - ph.log_k - ph.target;
+                break;
+            }
         }
     }
     if (!jac) return;
     // G = d log m / d u.
+    const VectorXd dlogm_di = s.nu * dla - dlg;  // per unit I
     g.setZero();
     for (Index c = 0; c < nc; ++c) {
         const ComponentColumn& col = s.columns[c];
@@ -139,6 +154,7 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
             case Equation::alkalinity:
             case Equation::charge:
                 J.row(r) /= scale[e];
+                J.row(r) += coupling.row(r);
                 break;
             case Equation::ionic_strength:
                 J.row(r) = (0.5 * z2.transpose() * dm) / ionic;
@@ -148,6 +164,19 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
                 J.row(r) = dm.colwise().sum() * (constants::water_molar_mass_kg / ln10);
                 J(r, w_unknown) += 1.0;
                 break;
+            case Equation::phase: {
+                const PhaseUnknown& ph = phases[static_cast<std::size_t>(phase_of_unknown[e])];
+                J.row(r).setZero();
+                for (Index c = 0; c < nc; ++c) {
+                    const ComponentColumn& col = s.columns[c];
+                    if (col.role == ComponentColumn::Role::unknown || col.role == ComponentColumn::Role::proton_unknown)
+                        J(r, col.unknown) += ph.nu(c);
+                    else if (col.role == ComponentColumn::Role::water)
+                        J(r, w_unknown) += ph.nu(c);
+                }
+                J(r, i_unknown) += ph.nu.dot(dla) * ionic * ln10;
+                break;
+            }
         }
     }
 }
@@ -344,6 +373,26 @@ void validate_input(const thermo::Database& db, const SpeciationInput& in) {
                 throw InputError(here, "pH",
                                  "the pH cannot come from the charge balance when the alkalinity is given "
                                  "(the alkalinity already fixes the charge balance): give a pH or a carbonate total");
+    if (!std::isfinite(in.charge_imbalance_eq))
+        throw InputError(here, "charge_imbalance_eq", "expected a finite charge imbalance");
+    for (std::size_t a = 0; a < in.minerals.size(); ++a) {
+        const auto& m = in.minerals[a];
+        if (m.mineral >= db.minerals().size()) throw InputError(here, "minerals", "mineral index out of range");
+        const std::string& name = db.minerals()[m.mineral].name;
+        if (!std::isfinite(m.target_si)) throw InputError(here, name, "expected a finite target saturation index");
+        if (m.amount_mol_per_kgw && !(std::isfinite(*m.amount_mol_per_kgw) && *m.amount_mol_per_kgw >= 0.0))
+            throw InputError(here, name, "expected an amount of solid >= 0 mol/kgw");
+        for (std::size_t b = 0; b < a; ++b)
+            if (in.minerals[b].mineral == m.mineral) throw InputError(here, name, "mineral listed twice");
+    }
+    for (std::size_t a = 0; a < in.gases.size(); ++a) {
+        const auto& g = in.gases[a];
+        if (g.gas >= db.gases().size()) throw InputError(here, "gases", "gas index out of range");
+        const std::string& name = db.gases()[g.gas].name;
+        if (!std::isfinite(g.log_partial_pressure_atm)) throw InputError(here, name, "expected a finite log10 partial pressure");
+        for (std::size_t b = 0; b < a; ++b)
+            if (in.gases[b].gas == g.gas) throw InputError(here, name, "gas listed twice");
+    }
     if (in.charge_balance_component) {
         if (!in.ph)
             throw InputError(here, "charge_balance",
@@ -361,72 +410,118 @@ void validate_input(const thermo::Database& db, const SpeciationInput& in) {
 
 }  // namespace
 
-SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& input,
-                          const SolverOptions& options, const SpeciationResult* start) {
-    const auto t_begin = std::chrono::steady_clock::now();
-    validate_input(db, input);
-    ChemicalSystem sys = build_system(db, input);
+namespace {
 
+// Where each requested mineral stands in the active-set iteration.
+struct MineralState {
+    MineralTarget spec;
+    enum class Status { at_target, exhausted, blocked } status = Status::at_target;
+    double xi = 0.0;  // mol/kgw moved into the water
+};
+
+struct Layout {
     Problem p;
+    std::vector<int> mineral_unknown;  // per MineralState: unknown index, or -1 when fixed
+    std::vector<int> gas_unknown;
+};
+
+// Builds the unknowns, equations and weights for the current active set.
+Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const SpeciationInput& input,
+                   const std::vector<MineralState>& minerals) {
+    Layout L;
+    Problem& p = L.p;
     p.sys = &sys;
     const std::size_t ncol = sys.columns.size();
     p.species_of_column.assign(ncol, -1);
-    for (std::size_t c = 0; c < ncol; ++c)
+    for (std::size_t c = 0; c < ncol; ++c) {
+        sys.columns[c].unknown = -1;
         for (std::size_t k = 0; k < sys.species.size(); ++k)
             if (sys.species[k] == sys.columns[c].component) p.species_of_column[c] = static_cast<int>(k);
+    }
+    auto phase_row = [&](const thermo::PhaseEntry& ph) {
+        Eigen::RowVectorXd nu = Eigen::RowVectorXd::Zero(static_cast<Index>(ncol));
+        for (const auto& [j, v] : ph.dissolution) nu(sys.column_of(j)) = v;
+        return nu;
+    };
+    // Fixed phase amounts (exhausted or blocked minerals) add to the totals.
+    std::vector<double> extra(db.component_count(), 0.0);
+    double extra_alk = 0.0;
+    for (const auto& ms : minerals) {
+        if (ms.status == MineralState::Status::at_target || ms.xi == 0.0) continue;
+        for (const auto& [j, v] : db.minerals()[ms.spec.mineral].dissolution) {
+            extra[j] += v * ms.xi;
+            extra_alk += v * ms.xi * db.species()[j].alkalinity;
+        }
+    }
 
-    // Unknowns and their equations.
     double charge_scale = 1e-7;
     for (const auto& c : input.components)
         charge_scale += std::abs(c.value) * std::max(1, std::abs(db.species()[c.component].formula.charge));
     if (input.ph) charge_scale += std::pow(10.0, -*input.ph) + std::pow(10.0, *input.ph - 14.0);
+    charge_scale += std::abs(input.charge_imbalance_eq);
 
     for (std::size_t c = 0; c < ncol; ++c) {
         ComponentColumn& col = sys.columns[c];
         if (col.role != ComponentColumn::Role::unknown && col.role != ComponentColumn::Role::proton_unknown) continue;
         col.unknown = static_cast<int>(p.n++);
         p.column_of_unknown.push_back(static_cast<int>(c));
-        if (col.role == ComponentColumn::Role::proton_unknown) {
-            p.h_unknown = col.unknown;
+        p.phase_of_unknown.push_back(-1);
+        const bool charge_row = col.role == ComponentColumn::Role::proton_unknown ||
+                                (input.charge_balance_component && *input.charge_balance_component == col.component);
+        if (col.role == ComponentColumn::Role::proton_unknown) p.h_unknown = col.unknown;
+        if (charge_row) {
             p.equation.push_back(Equation::charge);
-            p.target.push_back(0.0);
-            p.scale.push_back(charge_scale);
-            continue;
-        }
-        if (input.charge_balance_component && *input.charge_balance_component == col.component) {
-            p.equation.push_back(Equation::charge);
-            p.target.push_back(0.0);
+            p.target.push_back(input.charge_imbalance_eq);
             p.scale.push_back(charge_scale);
             continue;
         }
         const ComponentInput* ci = nullptr;
         for (const auto& x : input.components)
             if (x.component == col.component) ci = &x;
-        if (ci->kind == ComponentInput::Kind::alkalinity) {
+        if (ci && ci->kind == ComponentInput::Kind::alkalinity) {
             p.equation.push_back(Equation::alkalinity);
-            p.target.push_back(ci->value);
+            p.target.push_back(ci->value + extra_alk);
             p.scale.push_back(std::max(std::abs(ci->value), 1e-9));
         } else {
+            // A component that only a phase brings in has a zero total of its own.
+            const double t = (ci ? ci->value : 0.0) + extra[col.component];
             p.equation.push_back(Equation::mass);
-            p.target.push_back(ci->value);
-            p.scale.push_back(ci->value);
+            p.target.push_back(t);
+            p.scale.push_back(t > 0 ? t : 1e-6);
         }
     }
-    p.i_unknown = static_cast<int>(p.n++);
-    p.equation.push_back(Equation::ionic_strength);
-    p.target.push_back(0.0);
-    p.scale.push_back(1.0);
-    p.column_of_unknown.push_back(-1);
-    p.w_unknown = static_cast<int>(p.n++);
-    p.equation.push_back(Equation::water);
-    p.target.push_back(0.0);
-    p.scale.push_back(1.0);
-    p.column_of_unknown.push_back(-1);
+    auto add_special = [&](Equation eq) {
+        p.equation.push_back(eq);
+        p.target.push_back(0.0);
+        p.scale.push_back(1.0);
+        p.column_of_unknown.push_back(-1);
+        p.phase_of_unknown.push_back(-1);
+        return static_cast<int>(p.n++);
+    };
+    p.i_unknown = add_special(Equation::ionic_strength);
+    p.w_unknown = add_special(Equation::water);
+    auto add_phase = [&](const thermo::PhaseEntry& ph, double target) {
+        PhaseUnknown pu;
+        pu.nu = phase_row(ph);
+        pu.log_k = ph.log_k(input.temperature_c);
+        pu.target = target;
+        pu.unknown = add_special(Equation::phase);
+        p.phase_of_unknown.back() = static_cast<int>(p.phases.size());
+        p.phases.push_back(pu);
+        return pu.unknown;
+    };
+    L.mineral_unknown.assign(minerals.size(), -1);
+    for (std::size_t a = 0; a < minerals.size(); ++a)
+        if (minerals[a].status == MineralState::Status::at_target)
+            L.mineral_unknown[a] = add_phase(db.minerals()[minerals[a].spec.mineral], minerals[a].spec.target_si);
+    for (const auto& g : input.gases) L.gas_unknown.push_back(add_phase(db.gases()[g.gas], g.log_partial_pressure_atm));
     if (input.ph) p.log_a_h_fixed = -*input.ph;
     if (input.pe) p.log_a_e_fixed = -*input.pe;
 
     const Index ns = static_cast<Index>(sys.species.size());
-    p.weights = MatrixXd::Zero(ns, static_cast<Index>(p.n));
+    const Index nu = static_cast<Index>(p.n);
+    p.weights = MatrixXd::Zero(ns, nu);
+    p.coupling = MatrixXd::Zero(nu, nu);
     p.z2 = sys.charge.array().square();
     for (std::size_t e = 0; e < p.n; ++e) {
         const Index col = static_cast<Index>(e);
@@ -437,91 +532,254 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
             default: break;
         }
     }
+    // A phase amount xi adds nu * xi to the totals: residual (sum - T - nu xi)/scale.
+    for (const auto& ph : p.phases) {
+        for (std::size_t e = 0; e < p.n; ++e) {
+            const Index r = static_cast<Index>(e);
+            if (p.equation[e] == Equation::mass)
+                p.coupling(r, ph.unknown) = -ph.nu(p.column_of_unknown[e]) / p.scale[e];
+            else if (p.equation[e] == Equation::alkalinity)
+                p.coupling(r, ph.unknown) = -ph.nu.dot(sys.alkalinity_of_columns) / p.scale[e];
+        }
+    }
     p.log_m.resize(ns);
     p.m.resize(ns);
     p.lg.resize(ns);
     p.dlg.resize(ns);
-    p.g.resize(ns, static_cast<Index>(p.n));
+    p.la.resize(static_cast<Index>(ncol));
+    p.dla.resize(static_cast<Index>(ncol));
+    p.g.resize(ns, nu);
     p.lg_buf.resize(static_cast<std::size_t>(ns));
     p.dlg_buf.resize(static_cast<std::size_t>(ns));
+    return L;
+}
 
-    // Starting point: free = total, pH 7 (or the given one), I from the totals.
-    auto default_start = [&](double ph_guess) {
-        std::vector<double> u(p.n, 0.0);
-        double i_est = 0.0, sum = 0.0;
-        for (std::size_t e = 0; e < p.n; ++e) {
-            const int c = p.column_of_unknown[e];
-            if (c < 0) continue;
-            const std::size_t comp = sys.columns[c].component;
-            const int z = db.species()[comp].formula.charge;
-            double guess = 1e-7;
-            if (static_cast<int>(e) == p.h_unknown) guess = std::pow(10.0, -ph_guess);
-            else if (p.equation[e] == Equation::mass) guess = p.target[e];
-            else if (p.equation[e] == Equation::alkalinity) guess = std::max(std::abs(p.target[e]), 1e-6);
-            else {
-                for (const auto& x : input.components)
-                    if (x.component == comp && x.value > 0) guess = x.value;
-                if (guess <= 1e-7) guess = 1e-4;
+// The phase rule: the phases held at a target must fix independent combinations of the
+// activities that are free to move. Throws InputError naming the conflict.
+void check_phase_rule(const thermo::Database& db, const ChemicalSystem& sys, const SpeciationInput& input,
+                      const Layout& L) {
+    const Problem& p = L.p;
+    std::vector<int> free_cols;
+    for (std::size_t c = 0; c < sys.columns.size(); ++c)
+        if (sys.columns[c].unknown >= 0) free_cols.push_back(static_cast<int>(c));
+    std::vector<std::string> names;
+    std::vector<Eigen::VectorXd> rows;
+    auto add = [&](const std::string& name, const PhaseUnknown& ph) {
+        Eigen::VectorXd r(static_cast<Index>(free_cols.size()));
+        for (std::size_t k = 0; k < free_cols.size(); ++k) r(static_cast<Index>(k)) = ph.nu(free_cols[k]);
+        // Is r a combination of the rows before it?
+        if (!rows.empty()) {
+            MatrixXd A(r.size(), static_cast<Index>(rows.size()));
+            for (std::size_t k = 0; k < rows.size(); ++k) A.col(static_cast<Index>(k)) = rows[k];
+            const Eigen::VectorXd coef = A.colPivHouseholderQr().solve(r);
+            if ((A * coef - r).norm() <= 1e-9 * std::max(1.0, r.norm())) {
+                std::string with;
+                for (std::size_t k = 0; k < rows.size(); ++k)
+                    if (std::abs(coef(static_cast<Index>(k))) > 1e-9) with += (with.empty() ? "" : ", ") + names[k];
+                const SourceLocation here{input.label.empty() ? std::string("equilibrium input") : input.label, 0, 0};
+                throw InputError(here, name,
+                                 "over-constrained: '" + name + "' cannot be held at its target together with " +
+                                     (with.empty() ? std::string("the fixed pH") : with) +
+                                     " (they fix the same combination of activities; the phase rule allows at most " +
+                                     std::to_string(free_cols.size()) + " fixed phases here): hold fewer phases");
             }
-            u[e] = std::log10(guess);
-            i_est += 0.5 * z * z * guess;
-            sum += guess;
         }
-        u[static_cast<std::size_t>(p.i_unknown)] = std::log10(std::max(i_est, 1e-7));
-        u[static_cast<std::size_t>(p.w_unknown)] = -constants::water_molar_mass_kg * sum / ln10;
-        return u;
+        rows.push_back(r);
+        names.push_back(name);
     };
-    auto warm_start = [&](const SpeciationResult& r) {
-        std::vector<double> u = default_start(r.ph);
-        for (std::size_t e = 0; e < p.n; ++e) {
-            const int c = p.column_of_unknown[e];
-            if (c < 0) continue;
-            if (const SpeciesResult* sr = r.find(db.species()[sys.columns[c].component].name); sr && sr->molality > 0)
-                u[e] = std::log10(sr->molality);
+    for (std::size_t a = 0; a < L.mineral_unknown.size(); ++a)
+        if (L.mineral_unknown[a] >= 0)
+            add(db.minerals()[input.minerals[a].mineral].name,
+                p.phases[static_cast<std::size_t>(p.phase_of_unknown[static_cast<std::size_t>(L.mineral_unknown[a])])]);
+    for (std::size_t a = 0; a < L.gas_unknown.size(); ++a)
+        add(db.gases()[input.gases[a].gas].name,
+            p.phases[static_cast<std::size_t>(p.phase_of_unknown[static_cast<std::size_t>(L.gas_unknown[a])])]);
+}
+
+// Attempts (first start, then the fallback) on one layout. Updates u and the summary.
+AttemptOutcome solve_layout(const thermo::Database& db, ChemicalSystem& sys, const SpeciationInput& input,
+                            const Problem& p, std::vector<double>& u, const SolverOptions& options, SolveSummary& summary,
+                            const std::function<std::vector<double>(double)>& default_start) {
+    AttemptOutcome outcome = run_kinsol(p, u, options);
+    summary.attempts += 1;
+    summary.iterations += static_cast<int>(outcome.iterations);
+    summary.residual_evaluations += static_cast<int>(outcome.evaluations);
+    if (outcome.converged || !options.allow_fallback) return outcome;
+    // Fallback: solve the ideal solution first, then continue to the activity model.
+    const std::vector<double> ph_guesses =
+        input.ph ? std::vector<double>{*input.ph} : std::vector<double>{7.0, 4.0, 10.0};
+    for (double ph_guess : ph_guesses) {
+        std::vector<double> v = default_start(ph_guess);
+        std::unique_ptr<activity::ActivityModel> real = std::move(sys.model);
+        sys.model = activity::make_model(activity::ModelKind::ideal, input.temperature_c);
+        SolverOptions loose = options;
+        loose.max_step_log10 = 1.0;
+        AttemptOutcome ideal = run_kinsol(p, v, loose);
+        sys.model = std::move(real);
+        summary.attempts += 1;
+        summary.iterations += static_cast<int>(ideal.iterations);
+        summary.residual_evaluations += static_cast<int>(ideal.evaluations);
+        if (!std::isfinite(ideal.residual)) continue;
+        AttemptOutcome full = run_kinsol(p, v, loose);
+        summary.attempts += 1;
+        summary.iterations += static_cast<int>(full.iterations);
+        summary.residual_evaluations += static_cast<int>(full.evaluations);
+        if (full.converged || full.residual < outcome.residual) {
+            outcome = full;
+            u = v;
         }
-        u[static_cast<std::size_t>(p.i_unknown)] = std::log10(std::max(r.ionic_strength, 1e-7));
-        u[static_cast<std::size_t>(p.w_unknown)] = std::log10(std::max(r.water_activity, 1e-3));
-        return u;
-    };
+        if (outcome.converged) {
+            if (summary.method.find("fallback") == std::string::npos)
+                summary.method += "; fallback: ideal-solution start, damped steps";
+            break;
+        }
+    }
+    (void)db;
+    return outcome;
+}
+
+}  // namespace
+
+SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& input,
+                          const SolverOptions& options, const SpeciationResult* start) {
+    const auto t_begin = std::chrono::steady_clock::now();
+    validate_input(db, input);
+    ChemicalSystem sys = build_system(db, input);
+
+    std::vector<MineralState> minerals;
+    for (const auto& m : input.minerals) {
+        MineralState ms;
+        ms.spec = m;
+        // A mineral that cannot dissolve (no solid) and may not precipitate is inert.
+        if (m.amount_mol_per_kgw && *m.amount_mol_per_kgw == 0.0 && m.direction == MineralTarget::Direction::dissolve_only)
+            ms.status = MineralState::Status::blocked;
+        minerals.push_back(ms);
+    }
+
+    // Values carried from one layout to the next (by column, and per phase).
+    const std::size_t ncol = sys.columns.size();
+    std::vector<double> col_value(ncol, std::numeric_limits<double>::quiet_NaN());
+    double log_i = std::numeric_limits<double>::quiet_NaN(), log_w = std::numeric_limits<double>::quiet_NaN();
+    std::vector<double> mineral_xi(minerals.size(), 0.0), gas_xi(input.gases.size(), 0.0);
+    if (start) {
+        for (std::size_t c = 0; c < ncol; ++c)
+            if (const SpeciesResult* sr = start->find(db.species()[sys.columns[c].component].name); sr && sr->molality > 0)
+                col_value[c] = std::log10(sr->molality);
+        log_i = std::log10(std::max(start->ionic_strength, 1e-7));
+        log_w = std::log10(std::max(start->water_activity, 1e-3));
+        for (std::size_t a = 0; a < minerals.size(); ++a)
+            for (const auto& t : start->transfers)
+                if (t.phase == db.minerals()[minerals[a].spec.mineral].name) mineral_xi[a] = t.moles;
+    }
 
     SolveSummary summary;
     summary.method = "KINSOL Newton with line search, analytic Jacobian";
-    std::vector<double> u = start ? warm_start(*start) : default_start(input.ph.value_or(7.0));
-    AttemptOutcome outcome = run_kinsol(p, u, options);
-    summary.attempts = 1;
-    summary.iterations = static_cast<int>(outcome.iterations);
-    summary.residual_evaluations = static_cast<int>(outcome.evaluations);
-
-    if (!outcome.converged && options.allow_fallback) {
-        // Fallback 1: solve the ideal solution first, then continue to the activity model.
-        const std::vector<double> ph_guesses = input.ph ? std::vector<double>{*input.ph}
-                                                        : std::vector<double>{7.0, 4.0, 10.0};
-        for (double ph_guess : ph_guesses) {
-            std::vector<double> v = default_start(ph_guess);
-            std::unique_ptr<activity::ActivityModel> real = std::move(sys.model);
-            sys.model = activity::make_model(activity::ModelKind::ideal, input.temperature_c);
-            SolverOptions loose = options;
-            loose.max_step_log10 = 1.0;
-            AttemptOutcome ideal = run_kinsol(p, v, loose);
-            sys.model = std::move(real);
-            summary.attempts += 1;
-            summary.iterations += static_cast<int>(ideal.iterations);
-            summary.residual_evaluations += static_cast<int>(ideal.evaluations);
-            if (!std::isfinite(ideal.residual)) continue;
-            AttemptOutcome full = run_kinsol(p, v, loose);
-            summary.attempts += 1;
-            summary.iterations += static_cast<int>(full.iterations);
-            summary.residual_evaluations += static_cast<int>(full.evaluations);
-            if (full.converged || full.residual < outcome.residual) {
-                outcome = full;
-                u = v;
+    Layout L;
+    std::vector<double> u;
+    AttemptOutcome outcome;
+    const int max_active_set_rounds = 30;
+    int round = 0;
+    for (;; ++round) {
+        L = make_layout(db, sys, input, minerals);
+        if (round == 0) check_phase_rule(db, sys, input, L);
+        Problem& p = L.p;
+        auto default_start = [&](double ph_guess) {
+            std::vector<double> v(p.n, 0.0);
+            double i_est = 0.0, sum = 0.0;
+            for (std::size_t e = 0; e < p.n; ++e) {
+                const int c = p.column_of_unknown[e];
+                if (c < 0) continue;
+                const std::size_t comp = sys.columns[c].component;
+                const int z = db.species()[comp].formula.charge;
+                double guess = 1e-7;
+                if (static_cast<int>(e) == p.h_unknown) guess = std::pow(10.0, -ph_guess);
+                else if (p.equation[e] == Equation::mass) guess = std::max(p.target[e], 1e-7);
+                else if (p.equation[e] == Equation::alkalinity) guess = std::max(std::abs(p.target[e]), 1e-6);
+                else {
+                    for (const auto& x : input.components)
+                        if (x.component == comp && x.value > 0) guess = x.value;
+                    if (guess <= 1e-7) guess = 1e-4;
+                }
+                v[e] = std::log10(guess);
+                i_est += 0.5 * z * z * guess;
+                sum += guess;
             }
-            if (outcome.converged) {
-                summary.method += "; fallback: ideal-solution start, damped steps";
-                break;
+            v[static_cast<std::size_t>(p.i_unknown)] = std::log10(std::max(i_est, 1e-7));
+            v[static_cast<std::size_t>(p.w_unknown)] = -constants::water_molar_mass_kg * sum / ln10;
+            return v;
+        };
+        // Start: the default, overwritten by whatever earlier rounds (or a warm start) know.
+        u = default_start(input.ph.value_or(7.0));
+        for (std::size_t e = 0; e < p.n; ++e)
+            if (const int c = p.column_of_unknown[e]; c >= 0 && std::isfinite(col_value[static_cast<std::size_t>(c)]))
+                u[e] = col_value[static_cast<std::size_t>(c)];
+        if (std::isfinite(log_i)) u[static_cast<std::size_t>(p.i_unknown)] = log_i;
+        if (std::isfinite(log_w)) u[static_cast<std::size_t>(p.w_unknown)] = log_w;
+        for (std::size_t a = 0; a < minerals.size(); ++a)
+            if (L.mineral_unknown[a] >= 0) u[static_cast<std::size_t>(L.mineral_unknown[a])] = mineral_xi[a];
+        for (std::size_t a = 0; a < gas_xi.size(); ++a) u[static_cast<std::size_t>(L.gas_unknown[a])] = gas_xi[a];
+
+        outcome = solve_layout(db, sys, input, p, u, options, summary, default_start);
+        if (!outcome.converged) break;
+
+        // Carry the solution forward.
+        for (std::size_t e = 0; e < p.n; ++e)
+            if (const int c = p.column_of_unknown[e]; c >= 0) col_value[static_cast<std::size_t>(c)] = u[e];
+        log_i = u[static_cast<std::size_t>(p.i_unknown)];
+        log_w = u[static_cast<std::size_t>(p.w_unknown)];
+        for (std::size_t a = 0; a < minerals.size(); ++a)
+            if (L.mineral_unknown[a] >= 0) mineral_xi[a] = u[static_cast<std::size_t>(L.mineral_unknown[a])];
+        for (std::size_t a = 0; a < gas_xi.size(); ++a) gas_xi[a] = u[static_cast<std::size_t>(L.gas_unknown[a])];
+
+        // Active set: release minerals that went past what they may do; take back those
+        // whose saturation now asks for them.
+        std::vector<double> f(p.n);
+        p.evaluate(u.data(), f.data(), nullptr);
+        bool released = false;
+        for (std::size_t a = 0; a < minerals.size(); ++a) {
+            MineralState& ms = minerals[a];
+            if (ms.status != MineralState::Status::at_target) continue;
+            const double xi = mineral_xi[a];
+            const auto dir = ms.spec.direction;
+            if (ms.spec.amount_mol_per_kgw && xi > *ms.spec.amount_mol_per_kgw) {
+                ms.status = MineralState::Status::exhausted;
+                ms.xi = *ms.spec.amount_mol_per_kgw;
+                released = true;
+            } else if ((dir == MineralTarget::Direction::dissolve_only && xi < 0) ||
+                       (dir == MineralTarget::Direction::precipitate_only && xi > 0)) {
+                ms.status = MineralState::Status::blocked;
+                ms.xi = 0.0;
+                released = true;
             }
         }
+        bool taken_back = false;
+        if (!released) {
+            // SI of each released mineral at the current solution.
+            for (std::size_t a = 0; a < minerals.size(); ++a) {
+                MineralState& ms = minerals[a];
+                if (ms.status == MineralState::Status::at_target) continue;
+                const thermo::PhaseEntry& ph = db.minerals()[ms.spec.mineral];
+                double si = -ph.log_k(input.temperature_c) - ms.spec.target_si;
+                for (const auto& [j, v] : ph.dissolution) si += v * p.la(sys.column_of(j));
+                const auto dir = ms.spec.direction;
+                const bool may_precipitate = dir != MineralTarget::Direction::dissolve_only;
+                const bool may_dissolve = dir != MineralTarget::Direction::precipitate_only &&
+                                          (!ms.spec.amount_mol_per_kgw || ms.xi < *ms.spec.amount_mol_per_kgw);
+                if ((si > 1e-9 && may_precipitate) || (si < -1e-9 && may_dissolve)) {
+                    ms.status = MineralState::Status::at_target;
+                    mineral_xi[a] = ms.xi;
+                    taken_back = true;
+                }
+            }
+        }
+        if (!released && !taken_back) break;
+        if (round + 1 >= max_active_set_rounds) {
+            outcome.converged = false;
+            outcome.reason = "the set of minerals at their targets kept changing";
+            break;
+        }
     }
+
     summary.converged = outcome.converged;
     summary.residual_norm = std::isfinite(outcome.residual) ? outcome.residual : -1.0;
     summary.stop_reason = outcome.reason;
@@ -531,12 +789,16 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
         if (input.charge_balance_component)
             hint = "the charge balance on '" + component_name(db, *input.charge_balance_component) +
                    "' may need a negative amount: balance on an ion of the other charge, or check the analysis";
+        else if (!input.minerals.empty() || !input.gases.empty())
+            hint = "check that the minerals and gases requested can coexist with this water";
         throw ConvergenceError(subject, outcome.residual, outcome.reason, hint);
     }
 
     // Result.
+    const Problem& p = L.p;
     std::vector<double> f(p.n);
     p.evaluate(u.data(), f.data(), nullptr);
+    const Index ns = static_cast<Index>(sys.species.size());
     SpeciationResult res;
     res.label = input.label;
     res.temperature_c = input.temperature_c;
@@ -568,19 +830,30 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
         const std::size_t comp = sys.columns[c].component;
         res.component_present[comp] = true;
         res.component_totals[comp] = sys.nu.col(static_cast<Index>(c)).dot(p.m);
-        switch (sys.columns[c].role) {
-            case ComponentColumn::Role::water: res.component_log_activity[comp] = std::log10(res.water_activity); break;
-            case ComponentColumn::Role::electron_fixed: res.component_log_activity[comp] = -*input.pe; break;
-            case ComponentColumn::Role::proton_fixed: res.component_log_activity[comp] = -*input.ph; break;
-            default: {
-                const int k = p.species_of_column[c];
-                res.component_log_activity[comp] = std::log10(res.species[static_cast<std::size_t>(k)].activity);
-            }
-        }
+        res.component_log_activity[comp] = p.la(static_cast<Index>(c));
     }
     res.ph = -res.component_log_activity[db.proton()];
     const double sum = res.cations_meq + res.anions_meq;
     res.charge_balance_error_percent = sum > 0 ? 100.0 * (res.cations_meq - res.anions_meq) / sum : 0.0;
+
+    for (std::size_t a = 0; a < minerals.size(); ++a) {
+        const MineralState& ms = minerals[a];
+        PhaseTransfer t;
+        t.phase = db.minerals()[ms.spec.mineral].name;
+        t.moles = ms.status == MineralState::Status::at_target ? mineral_xi[a] : ms.xi;
+        t.at_target = ms.status == MineralState::Status::at_target;
+        t.exhausted = ms.status == MineralState::Status::exhausted;
+        t.blocked = ms.status == MineralState::Status::blocked;
+        res.transfers.push_back(t);
+    }
+    for (std::size_t a = 0; a < input.gases.size(); ++a) {
+        PhaseTransfer t;
+        t.phase = db.gases()[input.gases[a].gas].name;
+        t.is_gas = true;
+        t.moles = gas_xi[a];
+        t.at_target = true;
+        res.transfers.push_back(t);
+    }
 
     res.warnings = sys.warnings;
     if (res.ionic_strength > sys.model->max_ionic_strength()) {
@@ -591,7 +864,7 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
         res.warnings.push_back(o.str());
     }
     const bool balance_imposed = !input.ph || input.charge_balance_component;
-    if (!balance_imposed) {
+    if (!balance_imposed && input.minerals.empty() && input.gases.empty()) {
         // Standard Methods 1030 E acceptance: 0.2 meq/L for anion sums up to 3 meq/L, 2 % up
         // to 10 meq/L, 5 % above (sums per kg of water here).
         const double an = res.anions_meq, diff = std::abs(res.cations_meq - res.anions_meq);
@@ -610,6 +883,22 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
     summary.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t_begin).count();
     res.summary = summary;
     res.saturation = saturation_indices(db, res);
+    for (const auto& t : res.transfers) {
+        if (!t.exhausted && !t.blocked) continue;
+        double si = 0.0;
+        for (const auto& sat : res.saturation)
+            if (sat.phase == t.phase) si = sat.si;
+        std::ostringstream o;
+        o.precision(3);
+        if (t.exhausted)
+            o << t.phase << ": all of the " << t.moles * 1000 << " mmol/kgw available dissolved; the water stays "
+              << (si < -default_si_tolerance ? "undersaturated" : "near saturation") << " (SI " << si << ")";
+        else
+            o << t.phase << ": held back by its allowed direction (SI " << si << ", target "
+              << [&] { for (const auto& m : input.minerals) if (db.minerals()[m.mineral].name == t.phase) return m.target_si; return 0.0; }()
+              << ")";
+        res.warnings.push_back(o.str());
+    }
     return res;
 }
 

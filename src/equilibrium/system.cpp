@@ -41,6 +41,19 @@ ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& i
         if (column[ci.component] < 0) add_column(ci.component, ComponentColumn::Role::unknown);
     if (input.charge_balance_component && column[*input.charge_balance_component] < 0)
         add_column(*input.charge_balance_component, ComponentColumn::Role::unknown);
+    // Components that only a mineral or a gas brings in (calcite into pure water).
+    auto add_phase_columns = [&](const thermo::PhaseEntry& p) {
+        for (const auto& [j, v] : p.dissolution) {
+            if (column[j] >= 0) continue;
+            const auto role = db.species()[j].role;
+            if (role == thermo::ComponentRole::electron)
+                throw InputError(SourceLocation{input.label, 0, 0}, p.name,
+                                 "'" + p.name + "' takes part in redox (its reaction needs e-): give the water a pe");
+            add_column(j, ComponentColumn::Role::unknown);
+        }
+    };
+    for (const auto& m : input.minerals) add_phase_columns(db.minerals()[m.mineral]);
+    for (const auto& g : input.gases) add_phase_columns(db.gases()[g.gas]);
 
     // Species in play: every species whose formation uses only columns present.
     std::vector<std::string> redox_left_out, outside_range, constant_in_t;
@@ -93,6 +106,9 @@ ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& i
         p.salting_out = s.salting_out;
         sys.params.push_back(p);
     }
+    sys.alkalinity_of_columns.resize(static_cast<Eigen::Index>(ncol));
+    for (std::size_t c = 0; c < ncol; ++c)
+        sys.alkalinity_of_columns(static_cast<Eigen::Index>(c)) = db.species()[sys.columns[c].component].alkalinity;
     sys.model = activity::make_model(input.activity_model, input.temperature_c);
 
     if (!redox_left_out.empty())

@@ -1,0 +1,55 @@
+// Line plots as standalone SVG documents, and the same data as a CSV table.
+// Writers only format; they never solve, print or touch files.
+#pragma once
+
+#include <string>
+#include <utility>
+#include <vector>
+
+namespace deltag::io {
+
+// One curve. x and y have the same length. A point whose x or y is not finite is not drawn
+// (the line has a gap there) and is written as an empty cell in the CSV table.
+struct Series {
+    std::string name;
+    std::vector<double> x, y;
+};
+
+struct LinePlot {
+    std::string title;    // e.g. "Saturation against cycles of concentration"
+    std::string x_label;  // with its unit, e.g. "cycles of concentration (-)"
+    std::string y_label;  // with its unit, e.g. "saturation index (log units)"
+    std::vector<Series> series;
+    // Horizontal dashed lines with a label, e.g. {0.0, "saturation"}; always inside the y range.
+    std::vector<std::pair<double, std::string>> y_reference_lines;
+    std::string note;     // small text under the plot, e.g. the caution or "invented scenario"
+};
+
+// A complete standalone SVG document (UTF-8, no XML declaration; starts with "<svg").
+// Throws std::invalid_argument if the plot has no series, if a series' x and y differ in
+// length, if no point has both coordinates finite, or if a reference line is not finite.
+std::string line_plot_svg(const LinePlot& plot);
+
+// CSV table: first column x (header x_label), then one column per series (header: its name).
+// Every series must have the same x values as the first one (std::invalid_argument if not).
+// Numbers are written in the shortest form that reads back to the same double; a
+// non-finite value is an empty cell.
+std::string series_csv(const LinePlot& plot);
+
+// Axis scale with "nice" ticks (steps of 1, 2 or 5 times a power of ten). The data range,
+// widened by margin_fraction of its span on each side (never across zero when the data do
+// not cross it), is covered by [low, high], both multiples of step. A zero-width range is
+// widened around its value. Shared with other diagram writers and exposed for tests.
+struct AxisScale {
+    double low = 0.0, high = 1.0, step = 1.0;
+    std::vector<double> ticks;  // low, low + step, ..., high
+};
+// Throws std::invalid_argument for a non-finite bound or target_intervals < 1.
+AxisScale nice_scale(double data_low, double data_high, double margin_fraction = 0.0,
+                     int target_intervals = 5);
+// Tick label for value on an axis with the given step: fixed decimals enough for the step
+// ("0", "0.5", "-2.5", "0.002"), or "1.5e-7" style when the axis magnitude is very large or
+// very small.
+std::string tick_label(double value, double step, double axis_magnitude);
+
+}  // namespace deltag::io

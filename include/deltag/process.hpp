@@ -1,0 +1,104 @@
+// Process steps on waters: equilibrate with minerals and gases, dose a reagent (a fixed
+// amount or until a target), blend, concentrate, change temperature; and sweeps of one
+// input over a range. Steps are plain descriptions (read from a case file or built in
+// code); run_steps() executes them in order on the speciated waters.
+#pragma once
+
+#include <map>
+#include <optional>
+#include <string>
+#include <variant>
+#include <vector>
+
+#include "deltag/error.hpp"
+#include "deltag/speciation.hpp"
+
+namespace deltag::process {
+
+// --- step descriptions ------------------------------------------------------------------
+
+struct MineralSpec {
+    std::string name;                   // database mineral name
+    double target_si = 0.0;
+    std::optional<double> amount_mol_per_kgw;  // available to dissolve; absent: unlimited
+    equilibrium::MineralTarget::Direction direction = equilibrium::MineralTarget::Direction::both;
+    SourceLocation where;
+};
+
+struct GasSpec {
+    std::string name;                   // database gas name, e.g. "CO2(g)"
+    double log_partial_pressure_atm = 0.0;
+    SourceLocation where;
+};
+
+struct EquilibrateStep {
+    std::vector<MineralSpec> minerals;
+    std::vector<GasSpec> gases;
+};
+
+// An amount of reagent: value with a unit (mol, mmol, umol, mg or g per kgw or per L).
+struct Amount {
+    double value = 0.0;
+    std::string unit = "mmol/kgw";
+    SourceLocation where;
+};
+
+struct DoseTarget {
+    enum class Kind { ph, saturation_index, alkalinity, langelier };
+    Kind kind = Kind::ph;
+    double value = 0.0;              // pH; SI; alkalinity in meq/L; Langelier index
+    std::string mineral;             // for saturation_index
+    SourceLocation where;
+};
+
+struct DoseStep {
+    std::string reagent;             // formula, e.g. "H2SO4", "Ca(OH)2", "CO2"
+    SourceLocation reagent_where;
+    std::optional<Amount> amount;    // a fixed dose ...
+    std::optional<DoseTarget> until; // ... or the dose that reaches a target
+    std::optional<Amount> max_amount;  // with until: the largest dose to consider (default 1 mol/kgw)
+};
+
+struct BlendStep {
+    enum class Basis { volume, mass };
+    Basis basis = Basis::volume;
+    std::vector<std::pair<std::string, double>> parts;  // water (or step label) -> fraction
+    std::vector<SourceLocation> part_where;
+};
+
+struct ConcentrateStep {
+    double factor = 1.0;             // cycles of concentration, or 1/(1 - recovery)
+    std::vector<std::string> precipitate;  // minerals allowed to precipitate (to SI 0)
+    std::vector<SourceLocation> precipitate_where;
+};
+
+struct TemperatureStep {
+    double temperature_c = 25.0;
+    bool equilibrate = false;        // re-equilibrate the minerals and gases present
+};
+
+struct Step {
+    std::string label;               // default: "step N: KIND"
+    std::string water;               // start from this water or step label; empty: the previous result
+    SourceLocation where;
+    SourceLocation water_where;
+    std::variant<EquilibrateStep, DoseStep, BlendStep, ConcentrateStep, TemperatureStep> action;
+};
+
+std::string_view step_kind(const Step& s);  // "equilibrate", "dose", ...
+
+// One input varied over a range, many solves.
+struct Sweep {
+    enum class Variable { temperature_c, dose, factor, fraction };
+    std::string label;
+    std::string step;                // label of the step whose input is varied
+    Variable variable = Variable::temperature_c;
+    double from = 0.0, to = 0.0;
+    int points = 11;
+    std::string fraction_of;         // for fraction: the water whose fraction is varied (blend)
+    std::vector<std::string> outputs;  // "pH", "si:Calcite", "transfer:Calcite", "langelier", ...
+    std::string csv_path, svg_path;    // where to write (relative to the case file)
+    SourceLocation where;
+};
+
+}  // namespace deltag::process

@@ -1,0 +1,550 @@
+// Line plots as standalone SVG, and their data as CSV. Standard library only.
+//
+// Look: title top left; plot area with light horizontal grid lines and fainter vertical ones,
+// axis lines left and bottom with outward ticks; legend outside the plot area on the right;
+// a small grey note at the bottom. Colours are the Okabe-Ito set, ordered so the strongest
+// come first and the yellow (low contrast on white) last; every series also has its own dash
+// pattern and marker shape, so the curves stay apart in grey print.
+#include "deltag/plot.hpp"
+
+#include <algorithm>
+#include <array>
+#include <charconv>
+#include <cmath>
+#include <cstddef>
+#include <limits>
+#include <stdexcept>
+#include <string_view>
+
+namespace deltag::io {
+
+namespace {
+
+constexpr std::array<std::string_view, 8> kColours = {"#0072B2", "#D55E00", "#009E73", "#E69F00",
+                                                      "#CC79A7", "#56B4E9", "#000000", "#F0E442"};
+constexpr std::array<std::string_view, 6> kDashes = {"", "10 4", "2 3.5", "10 3 2 3", "5 3", "10 3 2 3 2 3"};
+constexpr int kMarkerShapes = 6;
+
+constexpr double kWidth = 720.0;
+constexpr double kMinHeight = 480.0;
+constexpr double kTitleSize = 16.0, kLabelSize = 13.0, kTickSize = 11.0, kLegendSize = 12.0,
+                 kNoteSize = 10.5;
+constexpr std::string_view kFont = "DejaVu Sans, Liberation Sans, Arial, sans-serif";
+
+// ---- text ---------------------------------------------------------------------------------
+
+std::string xml_escape(std::string_view s) {
+    std::string out;
+    out.reserve(s.size());
+    for (char c : s) {
+        switch (c) {
+            case '&': out += "&amp;"; break;
+            case '<': out += "&lt;"; break;
+            case '>': out += "&gt;"; break;
+            case '"': out += "&quot;"; break;
+            case '\'': out += "&apos;"; break;
+            default:
+                // Control characters are not allowed in XML 1.0 (tab is; it becomes a space).
+                if (static_cast<unsigned char>(c) < 0x20) {
+                    if (c == '\t') out += ' ';
+                } else {
+                    out += c;
+                }
+        }
+    }
+    return out;
+}
+
+// Number of code points in UTF-8 text (continuation bytes are not counted).
+std::size_t code_points(std::string_view s) {
+    return static_cast<std::size_t>(
+        std::count_if(s.begin(), s.end(), [](char c) { return (static_cast<unsigned char>(c) & 0xC0) != 0x80; }));
+}
+
+// Rough rendered width of text in a sans-serif font.
+double text_width(std::string_view s, double font_size) {
+    return 0.6 * font_size * static_cast<double>(code_points(s));
+}
+
+// Splits text into lines of at most max_chars code points at spaces (a longer word stays
+// whole); '\n' always breaks.
+std::vector<std::string> wrap(std::string_view text, std::size_t max_chars) {
+    std::vector<std::string> lines;
+    std::size_t start = 0;
+    while (start <= text.size()) {
+        const std::size_t nl = text.find('\n', start);
+        const std::string_view para = text.substr(start, nl == std::string_view::npos ? std::string_view::npos : nl - start);
+        std::string line;
+        std::size_t pos = 0;
+        while (pos < para.size()) {
+            const std::size_t sp = para.find(' ', pos);
+            const std::string_view word = para.substr(pos, sp == std::string_view::npos ? std::string_view::npos : sp - pos);
+            if (!word.empty()) {
+                if (!line.empty() && code_points(line) + 1 + code_points(word) > max_chars) {
+                    lines.push_back(line);
+                    line.clear();
+                }
+                if (!line.empty()) line += ' ';
+                line += word;
+            }
+            if (sp == std::string_view::npos) break;
+            pos = sp + 1;
+        }
+        lines.push_back(line);
+        if (nl == std::string_view::npos) break;
+        start = nl + 1;
+    }
+    while (!lines.empty() && lines.back().empty()) lines.pop_back();
+    return lines;
+}
+
+std::size_t chars_for_width(double width, double font_size) {
+    return std::max<std::size_t>(8, static_cast<std::size_t>(width / (0.6 * font_size)));
+}
+
+// ---- numbers ------------------------------------------------------------------------------
+
+std::string fixed(double v, int decimals) {
+    std::array<char, 64> buf{};
+    auto [end, ec] = std::to_chars(buf.data(), buf.data() + buf.size(), v, std::chars_format::fixed, decimals);
+    if (ec != std::errc()) throw std::logic_error("internal error: number does not fit its buffer");
+    return std::string(buf.data(), end);
+}
+
+// Coordinates: two decimals, trailing zeros dropped.
+std::string coord(double v) {
+    if (!std::isfinite(v)) throw std::logic_error("internal error: non-finite SVG coordinate");
+    std::string s = fixed(v, 2);
+    while (s.back() == '0') s.pop_back();
+    if (s.back() == '.') s.pop_back();
+    if (s == "-0") s = "0";
+    return s;
+}
+
+// Shortest text that reads back to the same double.
+std::string round_trip(double v) {
+    std::array<char, 64> buf{};
+    auto [end, ec] = std::to_chars(buf.data(), buf.data() + buf.size(), v);
+    if (ec != std::errc()) throw std::logic_error("internal error: number does not fit its buffer");
+    return std::string(buf.data(), end);
+}
+
+double pow10(int e) { return std::pow(10.0, static_cast<double>(e)); }
+
+// ---- CSV ----------------------------------------------------------------------------------
+
+std::string csv_field(const std::string& s) {
+    if (s.find_first_of(",\"\n\r") == std::string::npos) return s;
+    std::string q = "\"";
+    for (char c : s) q += c == '"' ? std::string("\"\"") : std::string(1, c);
+    return q + "\"";
+}
+
+void check_lengths(const LinePlot& plot) {
+    for (const auto& s : plot.series)
+        if (s.x.size() != s.y.size())
+            throw std::invalid_argument("plot series '" + s.name + "' has " + std::to_string(s.x.size()) +
+                                        " x values but " + std::to_string(s.y.size()) + " y values");
+}
+
+// ---- SVG pieces ---------------------------------------------------------------------------
+
+struct Style {
+    std::string_view colour;
+    std::string_view dash;
+    int marker;
+};
+
+Style style_of(std::size_t i) {
+    return Style{kColours[i % kColours.size()], kDashes[(i + i / kMarkerShapes) % kDashes.size()],
+                 static_cast<int>(i % kMarkerShapes)};
+}
+
+// A marker of radius about r at (x, y); fill and outline come from the enclosing group.
+std::string marker_svg(int shape, double x, double y, double r) {
+    auto poly = [&](std::initializer_list<std::pair<double, double>> pts) {
+        std::string d = "<path d=\"";
+        bool first = true;
+        for (const auto& [dx, dy] : pts) {
+            d += first ? "M" : "L";
+            d += coord(x + dx * r) + " " + coord(y + dy * r);
+            first = false;
+        }
+        return d + "Z\"/>";
+    };
+    switch (shape) {
+        case 0: return "<circle cx=\"" + coord(x) + "\" cy=\"" + coord(y) + "\" r=\"" + coord(r) + "\"/>";
+        case 1: return poly({{-0.85, -0.85}, {0.85, -0.85}, {0.85, 0.85}, {-0.85, 0.85}});
+        case 2: return poly({{0, -1.15}, {1.05, 0.8}, {-1.05, 0.8}});
+        case 3: return poly({{0, -1.2}, {1.1, 0}, {0, 1.2}, {-1.1, 0}});
+        case 4: return poly({{0, 1.15}, {1.05, -0.8}, {-1.05, -0.8}});
+        default:
+            return poly({{-0.35, -1.1}, {0.35, -1.1}, {0.35, -0.35}, {1.1, -0.35}, {1.1, 0.35}, {0.35, 0.35},
+                         {0.35, 1.1}, {-0.35, 1.1}, {-0.35, 0.35}, {-1.1, 0.35}, {-1.1, -0.35}, {-0.35, -0.35}});
+    }
+}
+
+std::string text_svg(double x, double y, std::string_view anchor, double size, std::string_view extra,
+                     std::string_view content) {
+    std::string t = "<text x=\"" + coord(x) + "\" y=\"" + coord(y) + "\" font-size=\"" + coord(size) + "\"";
+    if (anchor != "start") t += " text-anchor=\"" + std::string(anchor) + "\"";
+    if (!extra.empty()) t += " " + std::string(extra);
+    return t + ">" + xml_escape(content) + "</text>\n";
+}
+
+std::string line_svg(double x1, double y1, double x2, double y2) {
+    return "<line x1=\"" + coord(x1) + "\" y1=\"" + coord(y1) + "\" x2=\"" + coord(x2) + "\" y2=\"" + coord(y2) +
+           "\"/>\n";
+}
+
+bool finite_point(const Series& s, std::size_t i) { return std::isfinite(s.x[i]) && std::isfinite(s.y[i]); }
+
+}  // namespace
+
+// ---- scales -------------------------------------------------------------------------------
+
+AxisScale nice_scale(double data_low, double data_high, double margin_fraction, int target_intervals) {
+    if (!std::isfinite(data_low) || !std::isfinite(data_high))
+        throw std::invalid_argument("axis range has a non-finite bound");
+    if (target_intervals < 1) throw std::invalid_argument("axis needs at least one tick interval");
+    double lo = std::min(data_low, data_high), hi = std::max(data_low, data_high);
+    const double magnitude = std::max(std::abs(lo), std::abs(hi));
+    if (hi - lo <= magnitude * 1e-9) {  // constant (to display precision): widen around the value
+        const double centre = 0.5 * (lo + hi);
+        const double half = centre == 0.0 ? 1.0 : 0.1 * std::abs(centre);
+        lo = centre - half;
+        hi = centre + half;
+    }
+    const double margin = std::max(0.0, margin_fraction) * (hi - lo);
+    double plo = lo - margin, phi = hi + margin;
+    if (lo >= 0.0 && plo < 0.0) plo = 0.0;
+    if (hi <= 0.0 && phi > 0.0) phi = 0.0;
+    const double raw = (phi - plo) / target_intervals;
+    if (!std::isfinite(raw) || raw <= 0.0) throw std::invalid_argument("axis range is too large to draw");
+
+    int exponent = static_cast<int>(std::floor(std::log10(raw)));
+    const double f = raw / pow10(exponent);
+    double nice = f <= 1.0 + 1e-9 ? 1.0 : f <= 2.0 + 1e-9 ? 2.0 : f <= 5.0 + 1e-9 ? 5.0 : 10.0;
+    if (nice == 10.0) {
+        nice = 1.0;
+        ++exponent;
+    }
+    // Values are (integer * nice) scaled by the power of ten, dividing for negative powers so
+    // that e.g. 0.3 is the double nearest 0.3, not 3 * 0.1.
+    auto value = [&](double k) { return exponent >= 0 ? k * nice * pow10(exponent) : k * nice / pow10(-exponent); };
+    AxisScale s;
+    s.step = value(1.0);
+    // Tolerance in units of a step: rounding noise only (a few ulps of the quotient).
+    auto tol = [](double q) { return 1e-9 + 1e-14 * std::abs(q); };
+    const double q0 = plo / s.step, q1 = phi / s.step;
+    const double i0 = std::floor(q0 + tol(q0)), i1 = std::ceil(q1 - tol(q1));
+    for (double k = i0; k <= i1 + 0.5; k += 1.0) {
+        const double v = value(k);
+        s.ticks.push_back(v == 0.0 ? 0.0 : v);  // no -0
+    }
+    s.low = s.ticks.front();
+    s.high = s.ticks.back();
+    return s;
+}
+
+std::string tick_label(double value, double step, double axis_magnitude) {
+    if (!std::isfinite(value) || !std::isfinite(step) || step <= 0.0)
+        throw std::invalid_argument("tick label needs a finite value and a positive step");
+    if (std::abs(value) < step * 1e-6) value = 0.0;
+    const bool scientific = axis_magnitude >= 1e6 || (axis_magnitude > 0.0 && axis_magnitude < 1e-3);
+    if (!scientific) {
+        const int decimals = std::max(0, static_cast<int>(std::ceil(-std::log10(step) - 1e-9)));
+        return fixed(value, decimals);
+    }
+    if (value == 0.0) return "0";
+    const int e = static_cast<int>(std::floor(std::log10(std::abs(value)) + 1e-9));
+    const int decimals = std::max(0, static_cast<int>(std::ceil(std::log10(pow10(e) / step) - 1e-9)));
+    std::string mantissa = fixed(value / pow10(e), decimals);
+    if (mantissa.find('.') != std::string::npos) {
+        while (mantissa.back() == '0') mantissa.pop_back();
+        if (mantissa.back() == '.') mantissa.pop_back();
+    }
+    return mantissa + "e" + std::to_string(e);
+}
+
+// ---- CSV ----------------------------------------------------------------------------------
+
+std::string series_csv(const LinePlot& plot) {
+    if (plot.series.empty()) throw std::invalid_argument("plot has no series to write as CSV");
+    check_lengths(plot);
+    const auto& x = plot.series.front().x;
+    for (const auto& s : plot.series) {
+        bool same = s.x.size() == x.size();
+        for (std::size_t i = 0; same && i < x.size(); ++i)
+            same = s.x[i] == x[i] || (std::isnan(s.x[i]) && std::isnan(x[i]));
+        if (!same)
+            throw std::invalid_argument("CSV needs one x column: series '" + s.name +
+                                        "' does not have the same x values as series '" +
+                                        plot.series.front().name + "'");
+    }
+    auto cell = [](double v) { return std::isfinite(v) ? round_trip(v) : std::string(); };
+    std::string out = csv_field(plot.x_label.empty() ? std::string("x") : plot.x_label);
+    for (const auto& s : plot.series) {
+        out += ',';
+        out += csv_field(s.name);
+    }
+    out += '\n';
+    for (std::size_t i = 0; i < x.size(); ++i) {
+        out += cell(x[i]);
+        for (const auto& s : plot.series) {
+            out += ',';
+            out += cell(s.y[i]);
+        }
+        out += '\n';
+    }
+    return out;
+}
+
+// ---- SVG ----------------------------------------------------------------------------------
+
+std::string line_plot_svg(const LinePlot& plot) {
+    if (plot.series.empty()) throw std::invalid_argument("plot '" + plot.title + "' has no series");
+    check_lengths(plot);
+
+    // Data ranges: x over every finite x (so the whole swept range shows even where a value
+    // is missing), y over every drawable point and every reference line.
+    constexpr double inf = std::numeric_limits<double>::infinity();
+    double xmin = inf, xmax = -inf, ymin = inf, ymax = -inf;
+    std::size_t drawable = 0;
+    for (const auto& s : plot.series)
+        for (std::size_t i = 0; i < s.x.size(); ++i) {
+            if (std::isfinite(s.x[i])) {
+                xmin = std::min(xmin, s.x[i]);
+                xmax = std::max(xmax, s.x[i]);
+            }
+            if (finite_point(s, i)) {
+                ++drawable;
+                ymin = std::min(ymin, s.y[i]);
+                ymax = std::max(ymax, s.y[i]);
+            }
+        }
+    if (drawable == 0)
+        throw std::invalid_argument("plot '" + plot.title + "' has no point with finite x and y values");
+    for (const auto& [y, label] : plot.y_reference_lines) {
+        if (!std::isfinite(y))
+            throw std::invalid_argument("reference line '" + label + "' of plot '" + plot.title + "' is not finite");
+        ymin = std::min(ymin, y);
+        ymax = std::max(ymax, y);
+    }
+    const AxisScale xs = nice_scale(xmin, xmax, 0.0);
+    const AxisScale ys = nice_scale(ymin, ymax, 0.04);
+    const double xmag = std::max(std::abs(xs.low), std::abs(xs.high));
+    const double ymag = std::max(std::abs(ys.low), std::abs(ys.high));
+    std::vector<std::string> xlabels, ylabels;
+    for (double t : xs.ticks) xlabels.push_back(tick_label(t, xs.step, xmag));
+    for (double t : ys.ticks) ylabels.push_back(tick_label(t, ys.step, ymag));
+
+    // ---- layout
+    const auto title_lines = wrap(plot.title, chars_for_width(kWidth - 40.0, kTitleSize));
+    const auto note_lines = wrap(plot.note, chars_for_width(kWidth - 40.0, kNoteSize));
+
+    constexpr double kLegendTextMax = 190.0, kSample = 30.0, kLegendPad = 10.0, kLegendLine = 15.0,
+                     kLegendGap = 7.0;
+    std::vector<std::vector<std::string>> legend_names;
+    double legend_text_w = 0.0, legend_h = kLegendPad * 2.0 - kLegendGap;
+    for (const auto& s : plot.series) {
+        auto lines = wrap(s.name.empty() ? std::string("(unnamed)") : s.name,
+                          chars_for_width(kLegendTextMax, kLegendSize));
+        if (lines.empty()) lines.emplace_back("(unnamed)");
+        for (const auto& l : lines) legend_text_w = std::max(legend_text_w, text_width(l, kLegendSize));
+        legend_h += kLegendLine * static_cast<double>(lines.size()) + kLegendGap;
+        legend_names.push_back(std::move(lines));
+    }
+    const double legend_w = kLegendPad + kSample + 8.0 + std::min(legend_text_w, kLegendTextMax + 12.0) + kLegendPad;
+
+    double tick_w = 0.0;
+    for (const auto& l : ylabels) tick_w = std::max(tick_w, text_width(l, kTickSize));
+    const double plot_left = 26.0 + 10.0 + tick_w + 8.0;
+    const double plot_right = kWidth - 16.0 - legend_w - 18.0;
+    const double plot_top = title_lines.empty() ? 22.0 : 30.0 + 20.0 * static_cast<double>(title_lines.size());
+    const auto xtitle_lines = wrap(plot.x_label, chars_for_width(plot_right - plot_left, kLabelSize));
+    const double below = 22.0 + 17.0 * static_cast<double>(std::max<std::size_t>(1, xtitle_lines.size())) +
+                         (note_lines.empty() ? 8.0 : 14.0 + 13.0 * static_cast<double>(note_lines.size()));
+    const double height = std::max(kMinHeight, plot_top + std::max(240.0, legend_h) + below);
+    const double plot_bottom = height - below;
+
+    auto px = [&](double x) { return plot_left + (x - xs.low) / (xs.high - xs.low) * (plot_right - plot_left); };
+    auto py = [&](double y) { return plot_bottom - (y - ys.low) / (ys.high - ys.low) * (plot_bottom - plot_top); };
+
+    // ---- document
+    std::string o;
+    o += "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"" + coord(kWidth) + "\" height=\"" + coord(height) +
+         "\" viewBox=\"0 0 " + coord(kWidth) + " " + coord(height) + "\" font-family=\"" + std::string(kFont) +
+         "\" role=\"img\">\n";
+    o += "<title>" + xml_escape(plot.title) + "</title>\n";
+    if (!plot.note.empty()) o += "<desc>" + xml_escape(plot.note) + "</desc>\n";
+    o += "<defs><clipPath id=\"deltag-plot-area\"><rect x=\"" + coord(plot_left) + "\" y=\"" + coord(plot_top) +
+         "\" width=\"" + coord(plot_right - plot_left) + "\" height=\"" + coord(plot_bottom - plot_top) +
+         "\"/></clipPath></defs>\n";
+    o += "<rect width=\"" + coord(kWidth) + "\" height=\"" + coord(height) + "\" fill=\"#FFFFFF\"/>\n";
+
+    // Title.
+    o += "<g class=\"title\" fill=\"#1A1A1A\" font-weight=\"bold\">\n";
+    for (std::size_t i = 0; i < title_lines.size(); ++i)
+        o += text_svg(20.0, 26.0 + 20.0 * static_cast<double>(i), "start", kTitleSize, "", title_lines[i]);
+    o += "</g>\n";
+
+    // Plot area and grid.
+    o += "<g class=\"grid\">\n<rect x=\"" + coord(plot_left) + "\" y=\"" + coord(plot_top) + "\" width=\"" +
+         coord(plot_right - plot_left) + "\" height=\"" + coord(plot_bottom - plot_top) + "\" fill=\"#F7F7F4\"/>\n";
+    o += "<g stroke=\"#EBEBEB\" stroke-width=\"1\">\n";
+    for (double t : xs.ticks) o += line_svg(px(t), plot_top, px(t), plot_bottom);
+    o += "</g>\n<g stroke=\"#DADADA\" stroke-width=\"1\">\n";
+    for (double t : ys.ticks) o += line_svg(plot_left, py(t), plot_right, py(t));
+    o += "</g>\n</g>\n";
+
+    // Axes: lines, ticks, tick labels, titles.
+    o += "<g class=\"axes\" fill=\"#333333\">\n<g stroke=\"#333333\" stroke-width=\"1\">\n";
+    o += line_svg(plot_left, plot_bottom, plot_right, plot_bottom);
+    o += line_svg(plot_left, plot_bottom, plot_left, plot_top);
+    for (double t : xs.ticks) o += line_svg(px(t), plot_bottom, px(t), plot_bottom + 5.0);
+    for (double t : ys.ticks) o += line_svg(plot_left - 5.0, py(t), plot_left, py(t));
+    o += "</g>\n";
+    for (std::size_t i = 0; i < xs.ticks.size(); ++i)
+        o += text_svg(px(xs.ticks[i]), plot_bottom + 18.0, "middle", kTickSize, "", xlabels[i]);
+    for (std::size_t i = 0; i < ys.ticks.size(); ++i)
+        o += text_svg(plot_left - 8.0, py(ys.ticks[i]) + 4.0, "end", kTickSize, "", ylabels[i]);
+    for (std::size_t i = 0; i < xtitle_lines.size(); ++i)
+        o += text_svg(0.5 * (plot_left + plot_right), plot_bottom + 38.0 + 17.0 * static_cast<double>(i), "middle",
+                      kLabelSize, "fill=\"#1A1A1A\"", xtitle_lines[i]);
+    {
+        const double cx = 24.0, cy = 0.5 * (plot_top + plot_bottom);
+        o += text_svg(cx, cy, "middle", kLabelSize,
+                      "fill=\"#1A1A1A\" transform=\"rotate(-90 " + coord(cx) + " " + coord(cy) + ")\"", plot.y_label);
+    }
+    o += "</g>\n";
+
+    // Reference lines under the series; their labels come after the series, on top.
+    if (!plot.y_reference_lines.empty()) {
+        o += "<g class=\"reference-lines\" stroke=\"#4D4D4D\" stroke-width=\"1.3\" stroke-dasharray=\"7 4\">\n";
+        for (const auto& ref : plot.y_reference_lines) o += line_svg(plot_left, py(ref.first), plot_right, py(ref.first));
+        o += "</g>\n";
+    }
+
+    // Series: the line (with gaps at non-finite points), then the markers.
+    o += "<g class=\"series\">\n";
+    for (std::size_t si = 0; si < plot.series.size(); ++si) {
+        const Series& s = plot.series[si];
+        const Style st = style_of(si);
+        std::string d;
+        bool pen = false;
+        std::vector<std::size_t> points;
+        for (std::size_t i = 0; i < s.x.size(); ++i) {
+            if (!finite_point(s, i)) {
+                pen = false;
+                continue;
+            }
+            d += (pen ? "L" : (d.empty() ? "M" : " M")) + coord(px(s.x[i])) + " " + coord(py(s.y[i]));
+            pen = true;
+            points.push_back(i);
+        }
+        o += "<g class=\"series-" + std::to_string(si + 1) + "\">\n";
+        if (!d.empty()) {
+            o += "<path d=\"" + d + "\" fill=\"none\" stroke=\"" + std::string(st.colour) +
+                 "\" stroke-width=\"2\" stroke-linejoin=\"round\"";
+            if (!st.dash.empty()) o += " stroke-dasharray=\"" + std::string(st.dash) + "\"";
+            o += " clip-path=\"url(#deltag-plot-area)\"/>\n";  // markers are not clipped: a point on
+                                                                  // the frame stays whole
+        }
+        // Markers: at most about 24 per series, staggered between series so they do not sit
+        // on top of each other; an isolated point always gets one.
+        const std::size_t every = std::max<std::size_t>(1, (points.size() + 23) / 24);
+        const std::size_t offset = every * si / plot.series.size();
+        o += "<g fill=\"" + std::string(st.colour) + "\" stroke=\"#222222\" stroke-width=\"0.7\">\n";
+        for (std::size_t j = 0; j < points.size(); ++j) {
+            const std::size_t i = points[j];
+            const bool isolated = (i == 0 || !finite_point(s, i - 1)) && (i + 1 >= s.x.size() || !finite_point(s, i + 1));
+            if ((j + every - offset) % every == 0 || isolated)
+                o += marker_svg(st.marker, px(s.x[i]), py(s.y[i]), 4.0) + "\n";
+        }
+        o += "</g>\n</g>\n";
+    }
+    o += "</g>\n";
+
+    // Reference labels on a pale patch, at whichever end of the line (above or below it)
+    // crosses the fewest drawn curves.
+    if (!plot.y_reference_lines.empty()) {
+        auto crowding = [&](double rx, double ry, double rw, double rh) {
+            std::size_t hits = 0;
+            auto inside = [&](double x, double y) { return x >= rx && x <= rx + rw && y >= ry && y <= ry + rh; };
+            for (const auto& s : plot.series)
+                for (std::size_t i = 0; i < s.x.size(); ++i) {
+                    if (!finite_point(s, i)) continue;
+                    const double x1 = px(s.x[i]), y1 = py(s.y[i]);
+                    hits += inside(x1, y1) ? 4 : 0;  // a marker weighs more than a stretch of line
+                    if (i + 1 >= s.x.size() || !finite_point(s, i + 1)) continue;
+                    const double x2 = px(s.x[i + 1]), y2 = py(s.y[i + 1]);
+                    const double n = std::ceil(std::hypot(x2 - x1, y2 - y1) / 3.0);
+                    for (double k = 1.0; k < n; k += 1.0)
+                        hits += inside(x1 + (x2 - x1) * k / n, y1 + (y2 - y1) * k / n) ? 1 : 0;
+                }
+            return hits;
+        };
+        o += "<g class=\"reference-labels\" fill=\"#333333\" font-style=\"italic\">\n";
+        for (const auto& [y, label] : plot.y_reference_lines) {
+            if (label.empty()) continue;
+            const double yy = py(y), w = text_width(label, kTickSize) + 6.0, h = 14.0;
+            double best_x = plot_right - 4.0 - w, best_base = yy - 5.0;
+            std::size_t best = std::numeric_limits<std::size_t>::max();
+            for (double base : {yy - 5.0, yy + 14.0}) {
+                if (base - 10.5 < plot_top || base + 3.5 > plot_bottom) continue;
+                for (double x : {plot_right - 4.0 - w, plot_left + 4.0}) {
+                    const std::size_t c = crowding(x - 3.0, base - 13.5, w + 6.0, h + 6.0);
+                    if (c < best) {
+                        best = c;
+                        best_x = x;
+                        best_base = base;
+                    }
+                }
+            }
+            o += "<rect x=\"" + coord(best_x) + "\" y=\"" + coord(best_base - 10.5) + "\" width=\"" + coord(w) +
+                 "\" height=\"" + coord(h) + "\" fill=\"#FFFFFF\" fill-opacity=\"0.85\"/>\n";
+            o += text_svg(best_x + 3.0, best_base, "start", kTickSize, "", label);
+        }
+        o += "</g>\n";
+    }
+
+    // Legend, outside the plot area on the right.
+    {
+        const double lx = plot_right + 18.0, ly = plot_top;
+        o += "<g class=\"legend\">\n<rect x=\"" + coord(lx) + "\" y=\"" + coord(ly) + "\" width=\"" +
+             coord(legend_w) + "\" height=\"" + coord(legend_h) +
+             "\" rx=\"3\" fill=\"#FFFFFF\" stroke=\"#C8C8C8\" stroke-width=\"1\"/>\n";
+        double y = ly + kLegendPad + 9.0;
+        for (std::size_t si = 0; si < plot.series.size(); ++si) {
+            const Style st = style_of(si);
+            const double mid = y - 4.0;
+            o += "<path d=\"M" + coord(lx + kLegendPad) + " " + coord(mid) + "H" + coord(lx + kLegendPad + kSample) +
+                 "\" stroke=\"" + std::string(st.colour) + "\" stroke-width=\"2\"";
+            if (!st.dash.empty()) o += " stroke-dasharray=\"" + std::string(st.dash) + "\"";
+            o += "/>\n<g fill=\"" + std::string(st.colour) + "\" stroke=\"#222222\" stroke-width=\"0.7\">" +
+                 marker_svg(st.marker, lx + kLegendPad + 0.5 * kSample, mid, 4.0) + "</g>\n";
+            for (const auto& line : legend_names[si]) {
+                o += text_svg(lx + kLegendPad + kSample + 8.0, y, "start", kLegendSize, "fill=\"#1A1A1A\"", line);
+                y += kLegendLine;
+            }
+            y += kLegendGap;
+        }
+        o += "</g>\n";
+    }
+
+    // Note.
+    if (!note_lines.empty()) {
+        o += "<g class=\"note\" fill=\"#555555\">\n";
+        double y = plot_bottom + 22.0 + 17.0 * static_cast<double>(std::max<std::size_t>(1, xtitle_lines.size())) + 14.0;
+        for (const auto& line : note_lines) {
+            o += text_svg(20.0, y, "start", kNoteSize, "", line);
+            y += 13.0;
+        }
+        o += "</g>\n";
+    }
+    o += "</svg>\n";
+    return o;
+}
+
+}  // namespace deltag::io
