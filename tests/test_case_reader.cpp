@@ -1,12 +1,15 @@
 // Case-file reader: the core of the case-file format (interface contract, "Case file (TOML)
-// - the core") and every error the reader raises, each checked for its key, its line and
-// what was expected.
+// - the core"), process steps and sweeps, and every error the reader raises, each checked for
+// its key, its line and what was expected. Keys of steps and sweeps are written
+// step[N].KEY / sweep[N].KEY, N counted from 1 in file order (see src/io/case_reader.cpp).
+// All waters in these tests are invented scenarios.
 #include <doctest/doctest.h>
 
 #include <cstdio>
 #include <fstream>
 #include <optional>
 #include <string>
+#include <variant>
 
 #include "deltag/case.hpp"
 
@@ -44,7 +47,7 @@ void check_error(std::string_view text, const std::string& key, int line, const 
     CHECK(e->suggestion() == suggestion);
 }
 
-// The case of the interface contract, without its [[step]] (steps come in a later version).
+// The case of the interface contract; its [[step]] is contract_step below.
 // The water is an invented scenario.
 constexpr std::string_view contract_case = R"toml(title = "Make-up water, north cooling loop"
 database = "core"
@@ -67,6 +70,16 @@ SO4 = 42.0
 Alkalinity = { value = 135, unit = "mg/L", as = "CaCO3" }
 NO3 = { value = 2.1, as = "N" }
 SiO2 = 12.0
+)toml";
+
+// The contract's [[step]], appended to contract_case: line 22 is empty, [[step]] is line 23.
+constexpr std::string_view contract_step = R"toml(
+[[step]]
+water = "makeup"
+kind = "equilibrate"
+label = "open to air, calcite present"
+minerals = { Calcite = 0.0 }
+gases = { "CO2(g)" = -3.4 }
 )toml";
 
 }  // namespace
@@ -268,14 +281,6 @@ TEST_CASE("errors: the file as a whole") {
 }
 
 TEST_CASE("errors: keys of later versions are refused, not ignored") {
-    SUBCASE("step") {
-        check_error("[water.a]\npH = 7\n\n[[step]]\nwater = \"a\"\nkind = \"equilibrate\"\n", "step", 4,
-                    "process steps ([[step]]) are not run by this version of deltag yet; remove 'step'");
-    }
-    SUBCASE("sweep") {
-        check_error("[water.a]\n[sweep]\nvalues = [1, 2]\n", "sweep", 2,
-                    "sweeps are not run by this version of deltag yet");
-    }
     SUBCASE("cell") {
         check_error("[water.a]\n\n[cell]\ncathode = \"x\"\n", "cell", 3,
                     "cells in a case file are not run by this version of deltag yet");
@@ -399,5 +404,933 @@ TEST_CASE("errors: analytes") {
     SUBCASE("'as' of the wrong type") {
         check_error("[water.a.analytes]\nNO3 = { value = 4, as = 14 }\n", "water.a.analytes.NO3.as", 2,
                     "expected a string, found an integer");
+    }
+}
+
+// --- process steps and sweeps -------------------------------------------------------------
+
+namespace {
+
+using deltag::process::BlendStep;
+using deltag::process::ConcentrateStep;
+using deltag::process::DoseStep;
+using deltag::process::DoseTarget;
+using deltag::process::EquilibrateStep;
+using deltag::process::Sweep;
+using deltag::process::TemperatureStep;
+using Direction = deltag::equilibrium::MineralTarget::Direction;
+
+// One invented water on lines 1-2; step_of() puts a [[step]] on line 3 and its kind on line 4,
+// so the first of `lines` is line 5.
+const std::string one_water = "[water.well]\npH = 7.5\n";
+std::string step_of(const std::string& kind, const std::string& lines) {
+    return one_water + "[[step]]\nkind = \"" + kind + "\"\n" + lines;
+}
+constexpr int first = 5;  // line of the first of step_of's `lines`
+
+// Two invented waters on lines 1-4.
+const std::string two_waters = "[water.well]\npH = 7.5\n[water.river]\npH = 7.9\n";
+
+// Five labelled steps of every kind that a sweep can vary (invented), then [[sweep]] on
+// line 25: the first of sweep_with's `lines` is line 26.
+const std::string sweep_base = one_water + R"toml([[step]]
+label = "heat"
+kind = "temperature"
+temperature_c = 40
+[[step]]
+label = "acid"
+kind = "dose"
+reagent = "H2SO4"
+until = { pH = 7 }
+[[step]]
+label = "cycles"
+kind = "concentrate"
+factor = 2
+[[step]]
+label = "mix"
+kind = "blend"
+waters = { well = 1, cycles = 1 }
+[[step]]
+label = "lime"
+kind = "dose"
+reagent = "Ca(OH)2"
+amount = { value = 1, unit = "mmol/kgw" }
+)toml";
+std::string sweep_with(const std::string& lines) { return sweep_base + "[[sweep]]\n" + lines; }
+constexpr int sw = 26;  // line of the first of sweep_with's `lines`
+const std::string factor_sweep = "step = \"cycles\"\nvariable = \"factor\"\nfrom = 1\nto = 4\n";  // lines sw..sw+3
+
+}  // namespace
+
+TEST_CASE("the contract's [[step]] reads into an equilibrate step") {
+    const auto c = parse_case(std::string(contract_case) + std::string(contract_step), "test.toml");
+    REQUIRE(c.steps.size() == 1);
+    const auto& s = c.steps[0];
+    CHECK(s.label == "open to air, calcite present");
+    CHECK(s.water == "makeup");
+    CHECK(s.where.line == 23);
+    CHECK(s.where.file == "test.toml");
+    CHECK(s.water_where.line == 24);
+    CHECK(s.water_where.column == 1);
+    REQUIRE(std::holds_alternative<EquilibrateStep>(s.action));
+    const auto& e = std::get<EquilibrateStep>(s.action);
+    REQUIRE(e.minerals.size() == 1);
+    CHECK(e.minerals[0].name == "Calcite");
+    CHECK(e.minerals[0].target_si == 0.0);
+    CHECK_FALSE(e.minerals[0].amount_mol_per_kgw.has_value());
+    CHECK(e.minerals[0].direction == Direction::both);
+    CHECK(e.minerals[0].where.line == 27);
+    CHECK(e.minerals[0].where.column == 14);  // the key Calcite
+    REQUIRE(e.gases.size() == 1);
+    CHECK(e.gases[0].name == "CO2(g)");
+    CHECK(e.gases[0].log_partial_pressure_atm == -3.4);
+    CHECK(e.gases[0].where.line == 28);
+    CHECK(e.gases[0].where.column == 11);
+    CHECK(c.sweeps.empty());
+}
+
+TEST_CASE("every kind of step and a sweep read into their structs, in file order") {
+    const auto c = parse_case(R"toml(title = "Cooling loop (invented scenario)"
+
+[water.makeup]
+pH = 7.85
+[water.well]
+pH = 7.2
+[water.river]
+pH = 8.1
+
+[[step]]
+water = "makeup"
+label = "open to air"
+kind = "equilibrate"
+minerals = { Calcite = 0.0, Gypsum = { si = 0.5, amount_mmol_per_kgw = 2.0, only = "dissolve" } }
+gases = { "CO2(g)" = -3.4 }
+
+[[step]]
+kind = "dose"
+reagent = "H2SO4"
+amount = { value = 0.5, unit = "mmol/kgw" }
+
+[[step]]
+kind = "dose"
+reagent = "NaOH"
+until = { pH = 7.2 }
+max_amount = { value = 10, unit = "mmol/L" }
+
+[[step]]
+kind = "blend"
+waters = { well = 0.7, river = 0.3 }
+by = "mass"
+
+[[step]]
+label = "concentrate"
+water = "open to air"
+kind = "concentrate"
+factor = 4.0
+precipitate = ["Calcite", "Gypsum"]
+
+[[step]]
+kind = "temperature"
+temperature_c = 45.0
+equilibrate = true
+
+[[sweep]]
+label = "cycles"
+step = "concentrate"
+variable = "factor"
+from = 1.0
+to = 6.0
+points = 26
+outputs = ["si:Calcite", "si:Gypsum", "pH", "langelier"]
+csv = "cycles.csv"
+svg = "cycles.svg"
+)toml", "test.toml");
+    REQUIRE(c.waters.size() == 3);
+    REQUIRE(c.steps.size() == 6);
+
+    const auto& s1 = c.steps[0];
+    CHECK(s1.label == "open to air");
+    CHECK(s1.water == "makeup");
+    CHECK(s1.where.line == 10);
+    CHECK(s1.water_where.line == 11);
+    const auto& e = std::get<EquilibrateStep>(s1.action);
+    REQUIRE(e.minerals.size() == 2);
+    CHECK(e.minerals[0].name == "Calcite");  // file order, not key order
+    CHECK(e.minerals[1].name == "Gypsum");
+    CHECK(e.minerals[1].target_si == 0.5);
+    REQUIRE(e.minerals[1].amount_mol_per_kgw.has_value());
+    CHECK(*e.minerals[1].amount_mol_per_kgw == doctest::Approx(2.0e-3));  // mmol -> mol
+    CHECK(e.minerals[1].direction == Direction::dissolve_only);
+    CHECK(e.minerals[1].where.line == 14);
+    CHECK(e.minerals[1].where.column == 29);
+    CHECK(e.gases.at(0).where.line == 15);
+
+    const auto& s2 = c.steps[1];
+    CHECK(s2.label == "step 2 (dose)");
+    CHECK(s2.water.empty());  // the previous result
+    CHECK(s2.where.line == 17);
+    CHECK(s2.water_where.line == 0);
+    const auto& d2 = std::get<DoseStep>(s2.action);
+    CHECK(d2.reagent == "H2SO4");
+    CHECK(d2.reagent_where.line == 19);
+    REQUIRE(d2.amount.has_value());
+    CHECK(d2.amount->value == 0.5);
+    CHECK(d2.amount->unit == "mmol/kgw");
+    CHECK(d2.amount->where.line == 20);
+    CHECK_FALSE(d2.until.has_value());
+    CHECK_FALSE(d2.max_amount.has_value());
+
+    const auto& d3 = std::get<DoseStep>(c.steps[2].action);
+    CHECK(c.steps[2].label == "step 3 (dose)");
+    CHECK(d3.reagent == "NaOH");
+    CHECK_FALSE(d3.amount.has_value());
+    REQUIRE(d3.until.has_value());
+    CHECK(d3.until->kind == DoseTarget::Kind::ph);
+    CHECK(d3.until->value == 7.2);
+    CHECK(d3.until->mineral.empty());
+    CHECK(d3.until->where.line == 25);
+    REQUIRE(d3.max_amount.has_value());
+    CHECK(d3.max_amount->value == 10.0);
+    CHECK(d3.max_amount->unit == "mmol/L");
+    CHECK(d3.max_amount->where.line == 26);
+
+    const auto& s4 = c.steps[3];
+    CHECK(s4.label == "step 4 (blend)");
+    CHECK(s4.water.empty());
+    const auto& b = std::get<BlendStep>(s4.action);
+    CHECK(b.basis == BlendStep::Basis::mass);
+    REQUIRE(b.parts.size() == 2);
+    CHECK(b.parts[0].first == "well");
+    CHECK(b.parts[0].second == doctest::Approx(0.7));
+    CHECK(b.parts[1].first == "river");
+    CHECK(b.parts[1].second == doctest::Approx(0.3));
+    REQUIRE(b.part_where.size() == 2);
+    CHECK(b.part_where[0].line == 30);
+    CHECK(b.part_where[0].column == 12);
+    CHECK(b.part_where[1].column == 24);
+
+    const auto& s5 = c.steps[4];
+    CHECK(s5.label == "concentrate");
+    CHECK(s5.water == "open to air");  // an earlier step's label
+    CHECK(s5.water_where.line == 35);
+    const auto& k = std::get<ConcentrateStep>(s5.action);
+    CHECK(k.factor == 4.0);
+    REQUIRE(k.precipitate.size() == 2);
+    CHECK(k.precipitate[0] == "Calcite");
+    CHECK(k.precipitate[1] == "Gypsum");
+    REQUIRE(k.precipitate_where.size() == 2);
+    CHECK(k.precipitate_where[0].line == 38);
+    CHECK(k.precipitate_where[0].column == 16);
+    CHECK(k.precipitate_where[1].column == 27);
+
+    const auto& s6 = c.steps[5];
+    CHECK(s6.label == "step 6 (temperature)");
+    const auto& t = std::get<TemperatureStep>(s6.action);
+    CHECK(t.temperature_c == 45.0);
+    CHECK(t.equilibrate);
+
+    REQUIRE(c.sweeps.size() == 1);
+    const auto& w = c.sweeps[0];
+    CHECK(w.label == "cycles");
+    CHECK(w.step == "concentrate");
+    CHECK(w.variable == Sweep::Variable::factor);
+    CHECK(w.from == 1.0);
+    CHECK(w.to == 6.0);
+    CHECK(w.points == 26);
+    CHECK(w.fraction_of.empty());
+    CHECK(w.outputs == std::vector<std::string>{"si:Calcite", "si:Gypsum", "pH", "langelier"});
+    CHECK(w.csv_path == "cycles.csv");
+    CHECK(w.svg_path == "cycles.svg");
+    CHECK(w.where.line == 45);
+}
+
+TEST_CASE("step defaults: both directions, unlimited solid, volume basis, no re-equilibration") {
+    const auto c = parse_case(one_water + R"toml([[step]]
+kind = "equilibrate"
+minerals = { Calcite = { } }
+[[step]]
+kind = "equilibrate"
+gases = { "O2(g)" = -0.68 }
+[[step]]
+kind = "temperature"
+temperature_c = 0
+[[step]]
+kind = "blend"
+waters = { well = 1, "step 3 (temperature)" = 1 }
+)toml", "test.toml");
+    REQUIRE(c.steps.size() == 4);
+    CHECK(c.steps[0].water.empty());  // one water: the first step starts from it
+    const auto& m = std::get<EquilibrateStep>(c.steps[0].action).minerals.at(0);
+    CHECK(m.target_si == 0.0);
+    CHECK_FALSE(m.amount_mol_per_kgw.has_value());
+    CHECK(m.direction == Direction::both);
+    CHECK(std::get<EquilibrateStep>(c.steps[0].action).gases.empty());
+    CHECK(std::get<EquilibrateStep>(c.steps[1].action).minerals.empty());
+    CHECK(std::get<EquilibrateStep>(c.steps[1].action).gases.at(0).log_partial_pressure_atm == -0.68);
+    CHECK_FALSE(std::get<TemperatureStep>(c.steps[2].action).equilibrate);
+    CHECK(std::get<TemperatureStep>(c.steps[2].action).temperature_c == 0.0);
+    const auto& b = std::get<BlendStep>(c.steps[3].action);
+    CHECK(b.basis == BlendStep::Basis::volume);
+    REQUIRE(b.parts.size() == 2);
+    CHECK(b.parts[1].first == "step 3 (temperature)");  // a default label can be referred to
+    CHECK(b.parts[1].second == 0.5);
+}
+
+TEST_CASE("mineral tables: amount in mol, precipitate only, limits of the ranges") {
+    const auto c = parse_case(step_of("equilibrate", R"toml(minerals = { Barite = { amount_mol_per_kgw = 0.001 }, Gypsum = { si = -20, only = "precipitate" }, Halite = 20, Calcite = { amount_mmol_per_kgw = 0 } }
+gases = { "CO2(g)" = 2, "O2(g)" = -20 }
+)toml"), "test.toml");
+    const auto& e = std::get<EquilibrateStep>(c.steps.at(0).action);
+    REQUIRE(e.minerals.size() == 4);
+    CHECK(e.minerals[0].name == "Barite");
+    CHECK(*e.minerals[0].amount_mol_per_kgw == 0.001);
+    CHECK(e.minerals[0].direction == Direction::both);
+    CHECK(e.minerals[1].target_si == -20.0);
+    CHECK(e.minerals[1].direction == Direction::precipitate_only);
+    CHECK_FALSE(e.minerals[1].amount_mol_per_kgw.has_value());
+    CHECK(e.minerals[2].target_si == 20.0);
+    CHECK(*e.minerals[3].amount_mol_per_kgw == 0.0);
+    REQUIRE(e.gases.size() == 2);
+    CHECK(e.gases[0].log_partial_pressure_atm == 2.0);
+    CHECK(e.gases[1].log_partial_pressure_atm == -20.0);
+}
+
+TEST_CASE("dose targets: pH, saturation index, alkalinity, Langelier index") {
+    auto target_of = [](const std::string& until) {
+        const auto c = parse_case(step_of("dose", "reagent = \"CO2\"\nuntil = " + until + "\n"), "test.toml");
+        return *std::get<DoseStep>(c.steps.at(0).action).until;
+    };
+    const auto ph = target_of("{ pH = 0 }");
+    CHECK(ph.kind == DoseTarget::Kind::ph);
+    CHECK(ph.value == 0.0);
+    CHECK(ph.where.line == first + 1);
+    CHECK(ph.where.column == 11);
+    const auto si = target_of("{ si = { Calcite = -0.2 } }");
+    CHECK(si.kind == DoseTarget::Kind::saturation_index);
+    CHECK(si.mineral == "Calcite");
+    CHECK(si.value == -0.2);
+    CHECK(si.where.column == 18);  // the mineral's key
+    const auto alk = target_of("{ alkalinity_meq_per_l = 1.5 }");
+    CHECK(alk.kind == DoseTarget::Kind::alkalinity);
+    CHECK(alk.value == 1.5);
+    const auto negative = target_of("{ alkalinity_meq_per_l = -0.5 }");
+    CHECK(negative.value == -0.5);
+    const auto lsi = target_of("{ langelier = 0.3 }");
+    CHECK(lsi.kind == DoseTarget::Kind::langelier);
+    CHECK(lsi.value == 0.3);
+}
+
+TEST_CASE("every dose unit is accepted") {
+    for (const char* u : {"mol/kgw", "mmol/kgw", "umol/kgw", "mg/kgw", "g/kgw", "mol/L", "mmol/L", "umol/L", "mg/L",
+                          "g/L"}) {
+        const auto c = parse_case(step_of("dose", std::string("reagent = \"NaOCl\"\namount = { value = 0, unit = \"") + u +
+                                                      "\" }\n"),
+                                  "test.toml");
+        CHECK(std::get<DoseStep>(c.steps.at(0).action).amount->unit == u);
+    }
+}
+
+TEST_CASE("concentrate: recovery is turned into a factor, 1/(1 - r)") {
+    const auto c = parse_case(step_of("concentrate", "recovery = 0.75\n") + "[[step]]\nkind = \"concentrate\"\nrecovery = 0\n" +
+                                  "[[step]]\nkind = \"concentrate\"\nfactor = 1\nprecipitate = []\n",
+                              "test.toml");
+    CHECK(std::get<ConcentrateStep>(c.steps.at(0).action).factor == doctest::Approx(4.0));
+    CHECK(std::get<ConcentrateStep>(c.steps.at(1).action).factor == 1.0);
+    CHECK(std::get<ConcentrateStep>(c.steps.at(2).action).factor == 1.0);
+    CHECK(std::get<ConcentrateStep>(c.steps.at(2).action).precipitate.empty());
+}
+
+TEST_CASE("blend fractions that do not add up to 1 are normalised") {
+    const auto c = parse_case(two_waters + "[[step]]\nkind = \"blend\"\nwaters = { river = 3, well = 7 }\n", "test.toml");
+    const auto& b = std::get<BlendStep>(c.steps.at(0).action);
+    REQUIRE(b.parts.size() == 2);
+    CHECK(b.parts[0].first == "river");
+    CHECK(b.parts[0].second == doctest::Approx(0.3));
+    CHECK(b.parts[1].first == "well");
+    CHECK(b.parts[1].second == doctest::Approx(0.7));
+}
+
+TEST_CASE("steps as an array of inline tables; no steps at all") {
+    const auto c = parse_case("step = [{ kind = \"temperature\", temperature_c = 30 }]\n[water.a]\n", "test.toml");
+    REQUIRE(c.steps.size() == 1);
+    CHECK(c.steps[0].label == "step 1 (temperature)");
+    CHECK(c.steps[0].where.line == 1);
+    const auto none = parse_case("step = []\n[water.a]\n", "test.toml");
+    CHECK(none.steps.empty());
+    CHECK(none.sweeps.empty());
+}
+
+TEST_CASE("sweeps of each variable; default label and points; every output form") {
+    const auto c = parse_case(sweep_base + R"toml([[sweep]]
+step = "heat"
+variable = "temperature_c"
+from = 100
+to = 0
+outputs = ["pH", "ionic_strength", "alkalinity", "langelier", "ryznar", "ccpp", "si:Calcite", "transfer:CO2(g)", "total:Ca", "total:C"]
+[[sweep]]
+step = "lime"
+variable = "dose"
+from = 0
+to = 5
+points = 2
+outputs = ["pH"]
+[[sweep]]
+step = "cycles"
+variable = "factor"
+from = 1
+to = 8
+points = 1000
+outputs = ["si:Gypsum"]
+[[sweep]]
+label = "share of the well"
+step = "mix"
+variable = "fraction"
+fraction_of = "well"
+from = 0
+to = 1
+outputs = ["pH"]
+)toml", "test.toml");
+    REQUIRE(c.sweeps.size() == 4);
+    CHECK(c.sweeps[0].label == "sweep 1");
+    CHECK(c.sweeps[0].variable == Sweep::Variable::temperature_c);
+    CHECK(c.sweeps[0].from == 100.0);
+    CHECK(c.sweeps[0].to == 0.0);
+    CHECK(c.sweeps[0].points == 11);
+    CHECK(c.sweeps[0].outputs.size() == 10);
+    CHECK(c.sweeps[0].csv_path.empty());
+    CHECK(c.sweeps[0].svg_path.empty());
+    CHECK(c.sweeps[0].where.line == 25);
+    CHECK(c.sweeps[1].label == "sweep 2");
+    CHECK(c.sweeps[1].variable == Sweep::Variable::dose);
+    CHECK(c.sweeps[1].points == 2);
+    CHECK(c.sweeps[2].variable == Sweep::Variable::factor);
+    CHECK(c.sweeps[2].points == 1000);
+    CHECK(c.sweeps[3].label == "share of the well");
+    CHECK(c.sweeps[3].variable == Sweep::Variable::fraction);
+    CHECK(c.sweeps[3].fraction_of == "well");
+    CHECK(c.sweeps[3].step == "mix");
+}
+
+TEST_CASE("errors: the step and sweep arrays") {
+    SUBCASE("[step] as a table") {
+        check_error("[water.a]\npH = 7\n\n[step]\nkind = \"dose\"\n", "step", 4,
+                    "expected [[step]] tables, one per step, found a table ([step]); write [[step]]");
+    }
+    SUBCASE("[sweep] as a table") {
+        check_error("[water.a]\n[sweep]\nstep = \"x\"\n", "sweep", 2,
+                    "expected [[sweep]] tables, one per sweep, found a table ([sweep]); write [[sweep]]");
+    }
+    SUBCASE("step as a number") {
+        check_error("step = 3\n[water.a]\n", "step", 1, "expected [[step]] tables, one per step, found an integer");
+    }
+    SUBCASE("an element that is not a table") {
+        check_error("step = [{ kind = \"temperature\", temperature_c = 30 }, 2]\n[water.a]\n", "step[2]", 1,
+                    "expected a table describing a step ([[step]]), found an integer");
+    }
+    SUBCASE("an unknown top-level key lists step and sweep") {
+        check_error("[water.a]\n[[steps]]\nkind = \"dose\"\n", "steps", 2,
+                    "unknown key; expected one of: title, database, activity_model, water, step, sweep", "step");
+    }
+}
+
+TEST_CASE("errors: kind, keys, label and water of a step") {
+    SUBCASE("no kind") {
+        check_error(one_water + "[[step]]\nlabel = \"x\"\n", "step[1].kind", 3,
+                    "missing: expected the kind of step, one of: equilibrate, dose, blend, concentrate, temperature");
+    }
+    SUBCASE("unknown kind, nearest name suggested") {
+        check_error(one_water + "\n[[step]]\nkind = \"doze\"\n", "step[1].kind", 5,
+                    "unknown kind of step 'doze'; expected one of: equilibrate, dose, blend, concentrate, temperature",
+                    "dose");
+    }
+    SUBCASE("kind of the wrong type") {
+        check_error(one_water + "[[step]]\nkind = 1\n", "step[1].kind", 4, "expected a string, found an integer");
+    }
+    SUBCASE("a key of another kind") {
+        check_error(step_of("blend", "waters = { well = 1, x = 1 }\nreagent = \"H2SO4\"\n"), "step[1].reagent", first + 1,
+                    "'reagent' does not belong to a step of kind 'blend' (it is a key of 'dose' steps); a step of kind "
+                    "'blend' takes: kind, label, waters, by");
+    }
+    SUBCASE("water in a blend: waters suggested") {
+        check_error(step_of("blend", "water = \"well\"\n"), "step[1].water", first,
+                    "'water' does not belong to a step of kind 'blend' (it is a key of 'equilibrate', 'dose', "
+                    "'concentrate', 'temperature' steps)",
+                    "waters");
+    }
+    SUBCASE("the first stray key in the file is named, in the second step") {
+        check_error(step_of("temperature", "temperature_c = 30\n") + "[[step]]\nkind = \"equilibrate\"\nminerls = { Calcite = 0 }\nfactor = 2\n",
+                    "step[2].minerls", first + 3,
+                    "unknown key for a step of kind 'equilibrate'; a step of kind 'equilibrate' takes: kind, label, "
+                    "water, minerals, gases",
+                    "minerals");
+    }
+    SUBCASE("a key in a sub-table of the step") {
+        check_error(step_of("temperature", "temperature_c = 30\n[step.gases]\n\"CO2(g)\" = -3.4\n"), "step[1].gases",
+                    first + 1, "'gases' does not belong to a step of kind 'temperature' (it is a key of 'equilibrate' steps)");
+    }
+    SUBCASE("an empty label") {
+        check_error(step_of("temperature", "temperature_c = 30\nlabel = \"\"\n"), "step[1].label", first + 1,
+                    "expected a label for the step, found an empty string");
+    }
+    SUBCASE("a label that is a water's name") {
+        check_error(step_of("temperature", "temperature_c = 30\nlabel = \"well\"\n"), "step[1].label", first + 1,
+                    "the label 'well' is already the name of a water (line 1); results are reported by label, so "
+                    "each must be unique");
+    }
+    SUBCASE("a label used by an earlier step") {
+        check_error(step_of("temperature", "temperature_c = 30\nlabel = \"warm\"\n") +
+                        "[[step]]\nkind = \"temperature\"\ntemperature_c = 40\nlabel = \"warm\"\n",
+                    "step[2].label", first + 5,
+                    "the label 'warm' is already the label of step 1 (line 3); results are reported by label");
+    }
+    SUBCASE("a default label taken by an earlier step") {
+        check_error(step_of("temperature", "temperature_c = 30\nlabel = \"step 2 (dose)\"\n") +
+                        "[[step]]\nkind = \"dose\"\nreagent = \"HCl\"\namount = { value = 1, unit = \"mmol/kgw\" }\n",
+                    "step[2].label", first + 2,
+                    "the default label 'step 2 (dose)' is already the label of step 1 (line 3); give this step a "
+                    "label = \"...\" of its own");
+    }
+    SUBCASE("water: no such water or step, nearest name suggested") {
+        check_error(two_waters + "[[step]]\nkind = \"temperature\"\nlabel = \"warm\"\ntemperature_c = 30\nwater = \"well\"\n" +
+                        "[[step]]\nkind = \"temperature\"\ntemperature_c = 40\nwater = \"wam\"\n",
+                    "step[2].water", 13,
+                    "no water or earlier step is called 'wam'; expected one of: well, river, warm", "warm");
+    }
+    SUBCASE("water: the step's own label") {
+        check_error(step_of("temperature", "temperature_c = 30\nlabel = \"warm\"\nwater = \"warm\"\n"), "step[1].water",
+                    first + 2, "'warm' is the label of this step itself; a step starts from a water or the result of "
+                               "an earlier step");
+    }
+    SUBCASE("water: a later step's label") {
+        check_error(step_of("temperature", "temperature_c = 30\nwater = \"step 2 (temperature)\"\n") +
+                        "[[step]]\nkind = \"temperature\"\ntemperature_c = 40\n",
+                    "step[1].water", first + 1,
+                    "'step 2 (temperature)' is the label of a later step (step 2, line 7); a step starts from a water "
+                    "or the result of an earlier step");
+    }
+    SUBCASE("water of the wrong type") {
+        check_error(step_of("temperature", "temperature_c = 30\nwater = 1\n"), "step[1].water", first + 1,
+                    "expected a string, found an integer");
+    }
+    SUBCASE("the first step without water, with several waters") {
+        check_error(two_waters + "\n[[step]]\nkind = \"temperature\"\ntemperature_c = 30\n", "step[1].water", 6,
+                    "missing: the first step has no earlier step to start from and the case has 2 waters (well, "
+                    "river); name the one it starts from: water = \"well\"");
+    }
+}
+
+TEST_CASE("errors: equilibrate") {
+    SUBCASE("neither minerals nor gases") {
+        check_error(step_of("equilibrate", "label = \"x\"\n"), "step[1]", 3,
+                    "a step of kind 'equilibrate' needs minerals = { NAME = target SI, ... } or gases = { \"NAME(g)\" "
+                    "= log10 partial pressure in atm, ... }, with at least one entry");
+    }
+    SUBCASE("empty minerals and gases") {
+        check_error(step_of("equilibrate", "minerals = {}\ngases = {}\n"), "step[1]", 3,
+                    "needs minerals = { NAME = target SI, ... } or gases");
+    }
+    SUBCASE("minerals not a table") {
+        check_error(step_of("equilibrate", "minerals = [\"Calcite\"]\n"), "step[1].minerals", first,
+                    "expected a table, found an array");
+    }
+    SUBCASE("target SI out of range") {
+        check_error(step_of("equilibrate", "minerals = { Calcite = 0, Gypsum = 25 }\n"), "step[1].minerals.Gypsum",
+                    first, "expected a target saturation index from -20 to 20, found 25");
+    }
+    SUBCASE("target SI not finite") {
+        check_error(step_of("equilibrate", "minerals = { Calcite = nan }\n"), "step[1].minerals.Calcite", first,
+                    "expected a finite number");
+    }
+    SUBCASE("a mineral given as a string") {
+        check_error(step_of("equilibrate", "\nminerals = { Calcite = \"yes\" }\n"), "step[1].minerals.Calcite",
+                    first + 1,
+                    "expected a target saturation index (a number) or a table { si = ..., amount_mmol_per_kgw = ..., "
+                    "only = \"dissolve\" or \"precipitate\" }, found a string");
+    }
+    SUBCASE("si out of range in a mineral table") {
+        check_error(step_of("equilibrate", "minerals = { Calcite = { si = -30 } }\n"), "step[1].minerals.Calcite.si",
+                    first, "expected a target saturation index from -20 to 20, found -30");
+    }
+    SUBCASE("both amounts") {
+        check_error(step_of("equilibrate",
+                            "[step.minerals.Gypsum]\namount_mol_per_kgw = 0.001\namount_mmol_per_kgw = 1\n"),
+                    "step[1].minerals.Gypsum.amount_mmol_per_kgw", first + 2,
+                    "give the amount of solid once, as amount_mol_per_kgw or amount_mmol_per_kgw, not both");
+    }
+    SUBCASE("a negative amount") {
+        check_error(step_of("equilibrate", "minerals = { Gypsum = { amount_mmol_per_kgw = -1 } }\n"),
+                    "step[1].minerals.Gypsum.amount_mmol_per_kgw", first,
+                    "expected an amount of solid of zero or more, found -1");
+    }
+    SUBCASE("unknown direction, nearest name suggested") {
+        check_error(step_of("equilibrate", "minerals = { Gypsum = { only = \"disolve\" } }\n"),
+                    "step[1].minerals.Gypsum.only", first,
+                    "expected \"dissolve\" or \"precipitate\" (leave 'only' out to allow both), found \"disolve\"",
+                    "dissolve");
+    }
+    SUBCASE("an amount with precipitate only") {
+        check_error(step_of("equilibrate", "minerals = { Gypsum = { only = \"precipitate\", amount_mol_per_kgw = 1 } }\n"),
+                    "step[1].minerals.Gypsum.only", first,
+                    "an amount of solid limits how much can dissolve; a mineral that may only precipitate takes none: "
+                    "remove amount_mol_per_kgw or 'only'");
+    }
+    SUBCASE("unknown key in a mineral table, nearest name suggested") {
+        check_error(step_of("equilibrate", "minerals = { Gypsum = { amount_mmol_per_kg = 1 } }\n"),
+                    "step[1].minerals.Gypsum.amount_mmol_per_kg", first,
+                    "unknown key; expected one of: si, amount_mol_per_kgw, amount_mmol_per_kgw, only",
+                    "amount_mmol_per_kgw");
+    }
+    SUBCASE("a gas given as a string") {
+        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = \"air\" }\n"), "step[1].gases.\"CO2(g)\"", first,
+                    "expected the log10 partial pressure of the gas in atm (a number), found a string");
+    }
+    SUBCASE("a gas above 100 atm") {
+        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = 3 }\n"), "step[1].gases.\"CO2(g)\"", first,
+                    "expected a log10 partial pressure in atm from -20 to 2, found 3");
+    }
+}
+
+TEST_CASE("errors: dose") {
+    const std::string reagent = "reagent = \"H2SO4\"\n";  // line `first`
+    SUBCASE("no reagent") {
+        check_error(step_of("dose", "amount = { value = 1, unit = \"mmol/kgw\" }\n"), "step[1].reagent", 3,
+                    "missing: expected the reagent, a formula such as \"H2SO4\" or \"Ca(OH)2\"");
+    }
+    SUBCASE("an empty reagent") {
+        check_error(step_of("dose", "reagent = \"\"\n"), "step[1].reagent", first,
+                    "expected the reagent's formula, such as \"H2SO4\", found an empty string");
+    }
+    SUBCASE("both amount and until") {
+        check_error(step_of("dose", reagent + "amount = { value = 1, unit = \"mmol/kgw\" }\nuntil = { pH = 7 }\n"),
+                    "step[1].until", first + 2,
+                    "give either amount (a fixed dose) or until (dose until a target is reached), not both");
+    }
+    SUBCASE("neither amount nor until") {
+        check_error(step_of("dose", reagent), "step[1].amount", 3,
+                    "missing: a step of kind 'dose' needs amount = { value = ..., unit = \"mmol/kgw\" } or until = "
+                    "{ pH = ... }");
+    }
+    SUBCASE("amount as a bare number") {
+        check_error(step_of("dose", reagent + "amount = 0.5\n"), "step[1].amount", first + 1,
+                    "expected an amount { value = ..., unit = \"mmol/kgw\" }, found a number");
+    }
+    SUBCASE("amount without value") {
+        check_error(step_of("dose", reagent + "amount = { unit = \"mmol/kgw\" }\n"), "step[1].amount.value", first + 1,
+                    "missing: expected the amount, a number (value = ...)");
+    }
+    SUBCASE("a negative amount") {
+        check_error(step_of("dose", reagent + "amount = { value = -0.5, unit = \"mmol/kgw\" }\n"),
+                    "step[1].amount.value", first + 1, "expected an amount of zero or more, found -0.5");
+    }
+    SUBCASE("amount without unit") {
+        check_error(step_of("dose", reagent + "amount = { value = 0.5 }\n"), "step[1].amount.unit", first + 1,
+                    "missing: expected the unit of the amount, one of: mol/kgw, mmol/kgw, umol/kgw, mg/kgw, g/kgw, "
+                    "mol/L, mmol/L, umol/L, mg/L, g/L");
+    }
+    SUBCASE("an unknown unit, nearest name suggested") {
+        check_error(step_of("dose", reagent + "amount = { value = 0.5, unit = \"mmol/kg\" }\n"), "step[1].amount.unit",
+                    first + 1, "unknown unit of amount 'mmol/kg'; expected one of: mol/kgw, mmol/kgw", "mmol/kgw");
+    }
+    SUBCASE("an unknown key in amount, nearest name suggested") {
+        check_error(step_of("dose", reagent + "amount = { value = 0.5, unit = \"mg/L\", units = \"mg/L\" }\n"),
+                    "step[1].amount.units", first + 1, "unknown key; expected one of: value, unit", "unit");
+    }
+    SUBCASE("a misspelt value in amount is named as misspelt, not as missing") {
+        check_error(step_of("dose", reagent + "amount = { valeu = 0.5, unit = \"mg/L\" }\n"), "step[1].amount.valeu",
+                    first + 1, "unknown key; expected one of: value, unit", "value");
+    }
+    SUBCASE("max_amount with a fixed amount") {
+        check_error(step_of("dose", reagent + "amount = { value = 1, unit = \"mmol/kgw\" }\nmax_amount = { value = 2, unit = \"mmol/kgw\" }\n"),
+                    "step[1].max_amount", first + 2,
+                    "max_amount limits a dose with until; a fixed amount needs none");
+    }
+    SUBCASE("max_amount of zero") {
+        check_error(step_of("dose", reagent + "until = { pH = 7 }\nmax_amount = { value = 0, unit = \"mmol/kgw\" }\n"),
+                    "step[1].max_amount.value", first + 2, "expected a largest dose above zero, found 0");
+    }
+    SUBCASE("until as a number") {
+        check_error(step_of("dose", reagent + "until = 7\n"), "step[1].until", first + 1,
+                    "expected a target { pH = ..., si = { MINERAL = ... }, alkalinity_meq_per_l = ... or langelier = "
+                    "... }, found an integer");
+    }
+    SUBCASE("an unknown target, nearest name suggested") {
+        check_error(step_of("dose", reagent + "until = { ph = 7 }\n"), "step[1].until.ph", first + 1,
+                    "unknown key; expected one of: pH, si, alkalinity_meq_per_l, langelier", "pH");
+    }
+    SUBCASE("no target") {
+        check_error(step_of("dose", reagent + "until = {}\n"), "step[1].until", first + 1,
+                    "expected one target in until: pH = ..., si = { MINERAL = ... }, alkalinity_meq_per_l = ... or "
+                    "langelier = ...; found none");
+    }
+    SUBCASE("two targets") {
+        check_error(step_of("dose", reagent + "[step.until]\npH = 7\nlangelier = 0\n"), "step[1].until.langelier",
+                    first + 3, "until takes one target, found both 'pH' and 'langelier'");
+    }
+    SUBCASE("a pH out of range") {
+        check_error(step_of("dose", reagent + "until = { pH = 15 }\n"), "step[1].until.pH", first + 1,
+                    "expected a pH from 0 to 14, found 15");
+    }
+    SUBCASE("si not a table") {
+        check_error(step_of("dose", reagent + "until = { si = 0 }\n"), "step[1].until.si", first + 1,
+                    "expected si = { MINERAL = target saturation index }, found an integer");
+    }
+    SUBCASE("si with no mineral") {
+        check_error(step_of("dose", reagent + "until = { si = {} }\n"), "step[1].until.si", first + 1,
+                    "expected one mineral and its target saturation index, e.g. si = { Calcite = 0.0 }; found none");
+    }
+    SUBCASE("si with two minerals") {
+        check_error(step_of("dose", reagent + "until = { si = { Calcite = 0, Aragonite = 0 } }\n"),
+                    "step[1].until.si.Aragonite", first + 1, "si takes one mineral, found both 'Calcite' and 'Aragonite'");
+    }
+    SUBCASE("si out of range") {
+        check_error(step_of("dose", reagent + "until = { si = { Calcite = 21 } }\n"), "step[1].until.si.Calcite",
+                    first + 1, "expected a target saturation index from -20 to 20, found 21");
+    }
+    SUBCASE("alkalinity out of range") {
+        check_error(step_of("dose", reagent + "until = { alkalinity_meq_per_l = 5000 }\n"),
+                    "step[1].until.alkalinity_meq_per_l", first + 1,
+                    "expected an alkalinity from -1000 to 1000 meq/L, found 5000");
+    }
+    SUBCASE("Langelier index out of range") {
+        check_error(step_of("dose", reagent + "until = { langelier = -15 }\n"), "step[1].until.langelier", first + 1,
+                    "expected a Langelier index from -14 to 14, found -15");
+    }
+}
+
+TEST_CASE("errors: blend") {
+    SUBCASE("no waters") {
+        check_error(step_of("blend", "by = \"mass\"\n"), "step[1].waters", 3,
+                    "missing: a step of kind 'blend' needs waters = { NAME = fraction, NAME = fraction, ... } naming "
+                    "at least two waters or earlier steps");
+    }
+    SUBCASE("waters not a table") {
+        check_error(step_of("blend", "waters = [\"well\", \"river\"]\n"), "step[1].waters", first,
+                    "expected a table { NAME = fraction, ... }, found an array");
+    }
+    SUBCASE("one water only") {
+        check_error(step_of("blend", "waters = { well = 1 }\n"), "step[1].waters", first,
+                    "a blend needs at least two waters, found 1");
+    }
+    SUBCASE("a fraction of zero") {
+        check_error(two_waters + "[[step]]\nkind = \"blend\"\nwaters = { well = 1, river = 0 }\n", "step[1].waters.river",
+                    7, "expected a fraction above zero, found 0");
+    }
+    SUBCASE("a fraction that is not a number") {
+        check_error(two_waters + "[[step]]\nkind = \"blend\"\nwaters = { well = 1, river = \"half\" }\n",
+                    "step[1].waters.river", 7, "expected a number, found a string");
+    }
+    SUBCASE("a part that is no water, nearest name suggested") {
+        check_error(two_waters + "[[step]]\nkind = \"blend\"\n\nwaters = { well = 1, rivr = 1 }\n", "step[1].waters.rivr",
+                    8, "no water or earlier step is called 'rivr'; expected one of: well, river", "river");
+    }
+    SUBCASE("an unknown basis, nearest name suggested") {
+        check_error(two_waters + "[[step]]\nkind = \"blend\"\nwaters = { well = 1, river = 1 }\nby = \"volumes\"\n",
+                    "step[1].by", 8, "expected \"volume\" or \"mass\", found \"volumes\"", "volume");
+    }
+}
+
+TEST_CASE("errors: concentrate") {
+    SUBCASE("both factor and recovery") {
+        check_error(step_of("concentrate", "factor = 2\nrecovery = 0.5\n"), "step[1].recovery", first + 1,
+                    "give factor or recovery, not both (factor = 1/(1 - recovery))");
+    }
+    SUBCASE("neither factor nor recovery") {
+        check_error(step_of("concentrate", "precipitate = [\"Calcite\"]\n"), "step[1].factor", 3,
+                    "missing: a step of kind 'concentrate' needs factor = ... (cycles of concentration, 1 or more) or "
+                    "recovery = ... (the fraction of the water removed, from 0 to below 1)");
+    }
+    SUBCASE("a factor below 1") {
+        check_error(step_of("concentrate", "factor = 0.5\n"), "step[1].factor", first,
+                    "expected a concentration factor of 1 or more, found 0.5");
+    }
+    SUBCASE("a recovery of 1") {
+        check_error(step_of("concentrate", "recovery = 1.0\n"), "step[1].recovery", first,
+                    "expected a recovery (the fraction of the water removed) from 0 to below 1, found 1");
+    }
+    SUBCASE("precipitate not an array") {
+        check_error(step_of("concentrate", "factor = 2\nprecipitate = \"Calcite\"\n"), "step[1].precipitate", first + 1,
+                    "expected an array, found a string");
+    }
+    SUBCASE("a mineral that is not a string, at its own line") {
+        check_error(step_of("concentrate", "factor = 2\nprecipitate = [\"Calcite\",\n  3]\n"), "step[1].precipitate",
+                    first + 2, "expected mineral names (strings), found an integer in the list");
+    }
+    SUBCASE("an empty mineral name") {
+        check_error(step_of("concentrate", "factor = 2\nprecipitate = [\"\"]\n"), "step[1].precipitate", first + 1,
+                    "expected a mineral name, found an empty string");
+    }
+    SUBCASE("a mineral listed twice") {
+        check_error(step_of("concentrate", "factor = 2\nprecipitate = [\"Gypsum\", \"Gypsum\"]\n"), "step[1].precipitate",
+                    first + 1, "the mineral 'Gypsum' is listed twice");
+    }
+}
+
+TEST_CASE("errors: temperature") {
+    SUBCASE("no temperature_c") {
+        check_error(step_of("temperature", "equilibrate = true\n"), "step[1].temperature_c", 3,
+                    "missing: a step of kind 'temperature' needs temperature_c = ... (°C)");
+    }
+    SUBCASE("above 100 degC") {
+        check_error(step_of("temperature", "temperature_c = 150\n"), "step[1].temperature_c", first,
+                    "expected a temperature from 0 to 100 °C (the range of the water-property correlations), found 150");
+    }
+    SUBCASE("equilibrate not a boolean") {
+        check_error(step_of("temperature", "temperature_c = 50\nequilibrate = \"yes\"\n"), "step[1].equilibrate",
+                    first + 1, "expected true or false, found a string");
+    }
+}
+
+TEST_CASE("errors: sweeps") {
+    const std::string outputs = "outputs = [\"pH\"]\n";
+    SUBCASE("the base case reads") {
+        CHECK(parse_case(sweep_with(factor_sweep + outputs), "test.toml").sweeps.size() == 1);
+    }
+    SUBCASE("an empty label") {
+        check_error(sweep_with("label = \"\"\n" + factor_sweep + outputs), "sweep[1].label", sw,
+                    "expected a label for the sweep, found an empty string");
+    }
+    SUBCASE("a label used twice") {
+        check_error(sweep_with("label = \"a\"\n" + factor_sweep + outputs) + "[[sweep]]\nlabel = \"a\"\n" + factor_sweep +
+                        outputs,
+                    "sweep[2].label", sw + 7,
+                    "the label 'a' is already the label of sweep 1 (line 25); give each sweep its own label");
+    }
+    SUBCASE("a default label taken by an earlier sweep") {
+        check_error(sweep_with("label = \"sweep 2\"\n" + factor_sweep + outputs) + "[[sweep]]\n" + factor_sweep + outputs,
+                    "sweep[2].label", sw + 6, "the default label 'sweep 2' is already the label of sweep 1 (line 25)");
+    }
+    SUBCASE("no step") {
+        check_error(sweep_with("variable = \"factor\"\nfrom = 1\nto = 2\n" + outputs), "sweep[1].step", sw - 1,
+                    "missing: expected the label of the step whose input the sweep varies");
+    }
+    SUBCASE("no step of that label, nearest suggested") {
+        check_error(sweep_with("step = \"cycle\"\nvariable = \"factor\"\nfrom = 1\nto = 2\n" + outputs), "sweep[1].step", sw,
+                    "no step is labelled 'cycle'; expected one of: heat, acid, cycles, mix, lime", "cycles");
+    }
+    SUBCASE("the case has no steps") {
+        check_error("[water.a]\n[[sweep]]\nstep = \"x\"\nvariable = \"factor\"\n", "sweep[1].step", 3,
+                    "no step is labelled 'x': the case has no [[step]]; a sweep varies an input of a step");
+    }
+    SUBCASE("no variable") {
+        check_error(sweep_with("step = \"cycles\"\n"), "sweep[1].variable", sw - 1,
+                    "missing: expected what the sweep varies, one of: temperature_c, dose, factor, fraction");
+    }
+    SUBCASE("an unknown variable, nearest suggested") {
+        check_error(sweep_with("step = \"heat\"\nvariable = \"temperature\"\n"), "sweep[1].variable", sw + 1,
+                    "unknown variable 'temperature'; expected one of: temperature_c, dose, factor, fraction",
+                    "temperature_c");
+    }
+    SUBCASE("a variable of another kind of step") {
+        check_error(sweep_with("step = \"heat\"\nvariable = \"factor\"\n"), "sweep[1].variable", sw + 1,
+                    "the variable 'factor' is an input of a step of kind 'concentrate', but step 'heat' (line 3) is of "
+                    "kind 'temperature'");
+    }
+    SUBCASE("dose of a step that doses until a target") {
+        check_error(sweep_with("step = \"acid\"\nvariable = \"dose\"\n"), "sweep[1].variable", sw + 1,
+                    "the variable 'dose' varies a fixed amount, but step 'acid' doses until a target; give that step "
+                    "amount = { ... } instead of until");
+    }
+    SUBCASE("no from") {
+        check_error(sweep_with("step = \"cycles\"\nvariable = \"factor\"\nto = 2\n"), "sweep[1].from", sw - 1,
+                    "missing: expected the first value of the variable");
+    }
+    SUBCASE("no to") {
+        check_error(sweep_with("step = \"cycles\"\nvariable = \"factor\"\nfrom = 2\n"), "sweep[1].to", sw - 1,
+                    "missing: expected the last value of the variable");
+    }
+    SUBCASE("a temperature out of range") {
+        check_error(sweep_with("step = \"heat\"\nvariable = \"temperature_c\"\nfrom = 10\nto = 120\n"), "sweep[1].to",
+                    sw + 3, "expected a temperature from 0 to 100 °C, found 120");
+    }
+    SUBCASE("a negative dose, in the step's unit") {
+        check_error(sweep_with("step = \"lime\"\nvariable = \"dose\"\nfrom = -1\nto = 2\n"), "sweep[1].from", sw + 2,
+                    "expected a dose of zero or more in mmol/kgw (the unit of the step's amount), found -1");
+    }
+    SUBCASE("a factor below 1") {
+        check_error(sweep_with("step = \"cycles\"\nvariable = \"factor\"\nfrom = 0.5\nto = 2\n"), "sweep[1].from",
+                    sw + 2, "expected a concentration factor of 1 or more, found 0.5");
+    }
+    SUBCASE("a fraction above 1") {
+        check_error(sweep_with("step = \"mix\"\nvariable = \"fraction\"\nfrom = 0\nto = 1.5\n"), "sweep[1].to", sw + 3,
+                    "expected a fraction from 0 to 1, found 1.5");
+    }
+    SUBCASE("from equal to to") {
+        check_error(sweep_with("step = \"cycles\"\nvariable = \"factor\"\nfrom = 2\nto = 2\n"), "sweep[1].to", sw + 3,
+                    "expected a value other than from = 2; a sweep needs a range");
+    }
+    SUBCASE("points not a whole number") {
+        check_error(sweep_with(factor_sweep + "points = 2.5\n"), "sweep[1].points", sw + 4,
+                    "expected a whole number of points from 2 to 1000, found a number");
+    }
+    SUBCASE("too few points") {
+        check_error(sweep_with(factor_sweep + "points = 1\n"), "sweep[1].points", sw + 4,
+                    "expected a whole number of points from 2 to 1000, found 1");
+    }
+    SUBCASE("a fraction sweep without fraction_of") {
+        check_error(sweep_with("step = \"mix\"\nvariable = \"fraction\"\nfrom = 0\nto = 1\n"), "sweep[1].fraction_of",
+                    sw - 1, "missing: expected the water of the blend whose fraction is varied");
+    }
+    SUBCASE("fraction_of not a part of the blend, nearest suggested") {
+        check_error(sweep_with("step = \"mix\"\nvariable = \"fraction\"\nfrom = 0\nto = 1\nfraction_of = \"wel\"\n"),
+                    "sweep[1].fraction_of", sw + 4, "'wel' is not among the waters of the blend 'mix' (well, cycles)",
+                    "well");
+    }
+    SUBCASE("fraction_of with another variable") {
+        check_error(sweep_with(factor_sweep + "fraction_of = \"well\"\n"), "sweep[1].fraction_of", sw + 4,
+                    "fraction_of only goes with variable = \"fraction\"");
+    }
+    SUBCASE("no outputs") {
+        check_error(sweep_with(factor_sweep), "sweep[1].outputs", sw - 1,
+                    "missing: expected outputs = [ ... ], the results to record at each point, e.g. [\"pH\", "
+                    "\"si:Calcite\"]");
+    }
+    SUBCASE("empty outputs") {
+        check_error(sweep_with(factor_sweep + "outputs = []\n"), "sweep[1].outputs", sw + 4,
+                    "expected at least one output, found an empty list");
+    }
+    SUBCASE("an output that is not a string, at its own line") {
+        check_error(sweep_with(factor_sweep + "outputs = [\n  \"pH\",\n  1,\n]\n"), "sweep[1].outputs", sw + 6,
+                    "expected outputs as strings, found an integer in the list");
+    }
+    SUBCASE("an unknown output, nearest suggested") {
+        check_error(sweep_with(factor_sweep + "outputs = [\"ph\"]\n"), "sweep[1].outputs", sw + 4,
+                    "unknown output 'ph'; expected pH, ionic_strength, alkalinity, langelier, ryznar, ccpp, si:NAME, "
+                    "transfer:NAME or total:ELEMENT",
+                    "pH");
+    }
+    SUBCASE("an unknown prefix, the nearest prefix suggested with the name") {
+        check_error(sweep_with(factor_sweep + "outputs = [\"pH\", \"SI:Calcite\"]\n"), "sweep[1].outputs", sw + 4,
+                    "unknown output 'SI:Calcite'", "si:Calcite");
+    }
+    SUBCASE("no name after the colon") {
+        check_error(sweep_with(factor_sweep + "outputs = [\"transfer:\"]\n"), "sweep[1].outputs", sw + 4,
+                    "the output 'transfer:' needs a name after the colon, e.g. transfer:Calcite");
+    }
+    SUBCASE("total: of something that is not an element symbol") {
+        check_error(sweep_with(factor_sweep + "outputs = [\"total:SO4\"]\n"), "sweep[1].outputs", sw + 4,
+                    "the output 'total:SO4' needs an element symbol after total:, such as total:Ca or total:C; found "
+                    "'SO4'");
+    }
+    SUBCASE("an output listed twice") {
+        check_error(sweep_with(factor_sweep + "outputs = [\"pH\", \"si:Calcite\", \"pH\"]\n"), "sweep[1].outputs", sw + 4,
+                    "the output 'pH' is listed twice");
+    }
+    SUBCASE("an empty csv path") {
+        check_error(sweep_with(factor_sweep + outputs + "csv = \"\"\n"), "sweep[1].csv", sw + 5,
+                    "expected the path of the file to write, found an empty string");
+    }
+    SUBCASE("svg of the wrong type") {
+        check_error(sweep_with(factor_sweep + outputs + "svg = true\n"), "sweep[1].svg", sw + 5,
+                    "expected a string, found a boolean");
+    }
+    SUBCASE("an unknown key, nearest suggested") {
+        check_error(sweep_with(factor_sweep + "output = [\"pH\"]\n" + outputs), "sweep[1].output", sw + 4,
+                    "unknown key; expected one of: label, step, at, variable, from, to, points, fraction_of, "
+                    "outputs, csv, svg",
+                    "outputs");
+    }
+    SUBCASE("a misspelt required key is named as misspelt, not as missing") {
+        check_error(sweep_with("step = \"cycles\"\nvarible = \"factor\"\nfrom = 1\nto = 2\n" + outputs),
+                    "sweep[1].varible", sw + 1, "unknown key; expected one of: label, step, at, variable", "variable");
     }
 }

@@ -111,9 +111,9 @@ TEST_CASE("CSV report: a header and one row per result") {
     std::size_t lines = 0;
     for (char c : csv) lines += c == '\n';
     CHECK(lines == 3);
-    CHECK(csv.rfind("label,temperature_c,pH,pe,ionic_strength", 0) == 0);
+    CHECK(csv.rfind("label,kind,temperature_c,pH,pe,ionic_strength", 0) == 0);
     CHECK(csv.find("si_Calcite") != std::string::npos);
-    CHECK(csv.find("well-7,14,7.2,") != std::string::npos);
+    CHECK(csv.find("well-7,water,14,7.2,") != std::string::npos);
 }
 
 TEST_CASE("writers refuse to print a number that is not finite") {

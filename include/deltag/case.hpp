@@ -1,5 +1,5 @@
-// A case file: title, database choice, activity model and the waters (steps come with the
-// process layer).
+// A case file: title, database choice, activity model, the waters, and the process steps
+// and sweeps to run on them.
 #pragma once
 
 #include <string>
@@ -7,6 +7,7 @@
 #include <vector>
 
 #include "deltag/activity.hpp"
+#include "deltag/process.hpp"
 #include "deltag/water.hpp"
 
 namespace deltag::io {
@@ -18,6 +19,8 @@ struct Case {
     SourceLocation database_where;
     activity::ModelKind activity_model = activity::ModelKind::davies;
     std::vector<WaterAnalysis> waters;  // in file order
+    std::vector<process::Step> steps;   // [[step]] in file order; every label filled in
+    std::vector<process::Sweep> sweeps; // [[sweep]] in file order; every label filled in
 };
 
 // Reads and validates a case file. Throws InputError (file, line, column, key, what was

@@ -10,6 +10,7 @@
 #include <variant>
 #include <vector>
 
+#include "deltag/database.hpp"
 #include "deltag/error.hpp"
 #include "deltag/speciation.hpp"
 
@@ -78,7 +79,7 @@ struct TemperatureStep {
 };
 
 struct Step {
-    std::string label;               // default: "step N: KIND"
+    std::string label;               // default: "step N (KIND)"
     std::string water;               // start from this water or step label; empty: the previous result
     SourceLocation where;
     SourceLocation water_where;
@@ -93,12 +94,87 @@ struct Sweep {
     std::string label;
     std::string step;                // label of the step whose input is varied
     Variable variable = Variable::temperature_c;
-    double from = 0.0, to = 0.0;
+    double from = 0.0, to = 0.0;     // for dose: in the unit of the dose step's amount
     int points = 11;
     std::string fraction_of;         // for fraction: the water whose fraction is varied (blend)
+    std::string at;                  // label of the step whose result is recorded; empty: `step`
+    SourceLocation at_where;
     std::vector<std::string> outputs;  // "pH", "si:Calcite", "transfer:Calcite", "langelier", ...
     std::string csv_path, svg_path;    // where to write (relative to the case file)
     SourceLocation where;
+    SourceLocation step_where, variable_where;
+    std::vector<SourceLocation> output_where;  // one per output
 };
+
+// --- execution ------------------------------------------------------------------------
+
+// Water-treatment indices of one water (Standard Methods 2330; Ryznar 1944).
+struct Indices {
+    bool available = false;        // needs calcium and carbonate
+    std::string why_not;           // when not available
+    double ph_s = 0.0;             // pH of calcite saturation at the water's Ca and alkalinity
+    double langelier = 0.0;        // LSI = pH - pHs
+    double ryznar = 0.0;           // RSI = 2 pHs - pH
+    double ccpp_mg_per_l = 0.0;    // mg/L as CaCO3 that would precipitate (+) or dissolve (-)
+};
+
+// A water as it stands between steps.
+struct WaterState {
+    std::string label;
+    equilibrium::SpeciationInput basis;   // totals (mol/kgw), charge imbalance, T, model, pe
+    equilibrium::SpeciationResult result;
+    std::vector<equilibrium::MineralTarget> minerals;  // solids in contact, with what is left
+    std::vector<equilibrium::GasTarget> gases;         // gases held
+    Indices indices;
+};
+
+struct DoseOutcome {
+    std::string reagent;
+    double mol_per_kgw = 0.0;
+    double mg_per_l = 0.0;
+    bool found_by_target = false;
+    double target_reached = 0.0;   // the target quantity at the dose found
+};
+
+struct StepOutcome {
+    std::string label;
+    std::string kind;
+    WaterState state;
+    std::optional<DoseOutcome> dose;
+};
+
+// The basis of a speciated water: its totals and its charge imbalance, with pH free.
+WaterState state_from_result(const equilibrium::SpeciationResult& r, const equilibrium::SpeciationInput& input,
+                             const thermo::Database& db);
+
+// Langelier (pHs from the speciation: the pH at which the water, with its calcium and total
+// alkalinity, is saturated with calcite), Ryznar and the CCPP (closed-system equilibrium
+// with calcite).
+Indices water_treatment_indices(const thermo::Database& db, const WaterState& w);
+
+// How a reagent formula splits into database components (per mole of reagent), plus the
+// protons and water it brings. Throws InputError when it cannot (unknown element, charged,
+// a redox state the database does not have).
+struct ReagentSplit {
+    std::vector<std::pair<std::size_t, double>> components;
+    double protons = 0.0;
+    double water = 0.0;
+    double molar_mass_g = 0.0;
+};
+ReagentSplit split_reagent(const thermo::Database& db, const std::string& formula, const SourceLocation& where);
+
+// Runs the steps in order. `waters` are the speciated lab waters by name.
+std::vector<StepOutcome> run_steps(const thermo::Database& db, const std::vector<WaterState>& waters,
+                                   const std::vector<Step>& steps);
+
+struct SweepOutcome {
+    std::string label;
+    std::string x_label;
+    std::vector<double> x;
+    std::vector<std::pair<std::string, std::vector<double>>> series;  // output -> values
+};
+
+SweepOutcome run_sweep(const thermo::Database& db, const std::vector<WaterState>& waters,
+                       const std::vector<Step>& steps, const Sweep& sweep);
 
 }  // namespace deltag::process

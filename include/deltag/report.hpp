@@ -6,6 +6,7 @@
 #include <vector>
 
 #include "deltag/database.hpp"
+#include "deltag/process.hpp"
 #include "deltag/speciation.hpp"
 
 namespace deltag::io {
@@ -20,6 +21,32 @@ struct ReportContext {
 
 // The caution every report carries.
 std::string_view caution_text();
+
+// One block of a report: a water as analysed or the result of a step.
+struct ReportItem {
+    std::string kind = "water";                  // "water" or the step's kind
+    equilibrium::SpeciationResult result;
+    std::optional<process::Indices> indices;     // absent: not computed
+    std::optional<process::DoseOutcome> dose;
+};
+
+struct SweepReport {
+    process::SweepOutcome sweep;
+    std::string csv_path, svg_path;              // where the CLI wrote them ("" if not written)
+};
+
+std::string text_report(const thermo::Database& db, const ReportContext& ctx, const std::vector<ReportItem>& items,
+                        const std::vector<SweepReport>& sweeps = {});
+std::string json_report(const thermo::Database& db, const ReportContext& ctx, const std::vector<ReportItem>& items,
+                        const std::vector<SweepReport>& sweeps = {});
+std::string csv_report(const thermo::Database& db, const ReportContext& ctx, const std::vector<ReportItem>& items);
+
+// Converts plain results (waters) to report items.
+std::vector<ReportItem> items_of(const std::vector<equilibrium::SpeciationResult>& results);
+
+// The sweep as a plot and as a CSV table (through plot.hpp).
+std::string sweep_svg(const process::SweepOutcome& sweep, const std::string& title);
+std::string sweep_csv(const process::SweepOutcome& sweep);
 
 std::string text_report(const thermo::Database& db, const ReportContext& ctx,
                         const std::vector<equilibrium::SpeciationResult>& results);

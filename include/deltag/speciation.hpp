@@ -76,6 +76,9 @@ struct SpeciationInput {
     double charge_imbalance_eq = 0.0;
     std::vector<MineralTarget> minerals;     // phases in equilibrium (equilibrate)
     std::vector<GasTarget> gases;
+    // Not used by the solver: kg of water per litre of solution, carried into the result so
+    // reports can give mg/L.
+    double kg_water_per_litre = 1.0;
 };
 
 // What moved between the water and a phase during a solve.
@@ -120,6 +123,7 @@ struct SpeciationResult {
     std::optional<double> pe;
     double ionic_strength = 0.0;
     double water_activity = 1.0;
+    double kg_water_per_litre = 1.0;          // from the input; converts mol/kgw to mol/L
     activity::ModelKind activity_model = activity::ModelKind::davies;
     std::vector<SpeciesResult> species;       // every species in the system, database order
     std::vector<double> component_totals;     // indexed like Database::species(); 0 if absent

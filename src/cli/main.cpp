@@ -12,6 +12,7 @@
 #include "deltag/case.hpp"
 #include "deltag/constants.hpp"
 #include "deltag/database.hpp"
+#include "deltag/process.hpp"
 #include "deltag/report.hpp"
 #include "deltag/speciation.hpp"
 #include "deltag/water.hpp"
@@ -48,16 +49,17 @@ Loaded load_database(const std::string& path_or_core, const SourceLocation& wher
     return l;
 }
 
-void write_output(const std::string& text, const std::string& path) {
+void write_output(const std::string& text, const std::string& path, const std::string& key = "--output") {
     if (path.empty()) {
         std::cout << text;
         std::cout.flush();
         return;
     }
     std::ofstream out(path, std::ios::binary);
-    if (!out) throw InputError(SourceLocation{path, 0, 0}, "--output", "cannot write to this file");
+    if (!out) throw InputError(SourceLocation{path, 0, 0}, key, "cannot write to this file");
     out << text;
-    if (!out) throw InputError(SourceLocation{path, 0, 0}, "--output", "writing failed");
+    out.flush();
+    if (!out) throw InputError(SourceLocation{path, 0, 0}, key, "writing failed");
 }
 
 int cmd_run(const std::string& case_path, const std::string& format, const std::string& output,
@@ -72,16 +74,43 @@ int cmd_run(const std::string& case_path, const std::string& format, const std::
         db_choice = (fs::path(case_path).parent_path() / db_choice).string();
     }
     Loaded l = load_database(db_choice, db_where);
-    std::vector<equilibrium::SpeciationResult> results;
+    // The waters, then the steps, then the sweeps; every file is written only after all of
+    // them succeeded, so a failure leaves no partial output.
+    std::vector<process::WaterState> waters;
+    std::vector<io::ReportItem> items;
     for (const auto& w : c.waters) {
         const equilibrium::SpeciationInput in = to_speciation_input(w, *l.db, c.activity_model);
-        results.push_back(equilibrium::speciate(*l.db, in));
+        const equilibrium::SpeciationResult r = equilibrium::speciate(*l.db, in);
+        waters.push_back(process::state_from_result(r, in, *l.db));
+        items.push_back(io::ReportItem{"water", waters.back().result, waters.back().indices, std::nullopt});
+    }
+    for (const auto& o : process::run_steps(*l.db, waters, c.steps))
+        items.push_back(io::ReportItem{o.kind, o.state.result, o.state.indices, o.dose});
+    std::vector<io::SweepReport> sweeps;
+    std::vector<std::pair<std::string, std::string>> files;  // path, content
+    const fs::path case_dir = fs::path(case_path).parent_path();
+    const std::string stem = fs::path(case_path).stem().string();
+    for (const auto& sw : c.sweeps) {
+        io::SweepReport rep{process::run_sweep(*l.db, waters, c.steps, sw), "", ""};
+        // A path given in the case is relative to the case file; without one, the files go
+        // to the current directory as CASE.SWEEP.csv and .svg.
+        auto place = [&](const std::string& given, const char* ext) {
+            if (given.empty()) return stem + "." + sw.label + ext;
+            const fs::path p(given);
+            return (p.is_relative() ? case_dir / p : p).string();
+        };
+        rep.csv_path = place(sw.csv_path, ".csv");
+        rep.svg_path = place(sw.svg_path, ".svg");
+        files.emplace_back(rep.csv_path, io::sweep_csv(rep.sweep));
+        files.emplace_back(rep.svg_path, io::sweep_svg(rep.sweep, (c.title.empty() ? stem : c.title) + ": " + sw.label));
+        sweeps.push_back(std::move(rep));
     }
     io::ReportContext ctx{c.title, case_path, l.name, DELTAG_VERSION, verbose};
     std::string text;
-    if (format == "text") text = io::text_report(*l.db, ctx, results);
-    else if (format == "json") text = io::json_report(*l.db, ctx, results);
-    else if (format == "csv") text = io::csv_report(*l.db, ctx, results);
+    if (format == "text") text = io::text_report(*l.db, ctx, items, sweeps);
+    else if (format == "json") text = io::json_report(*l.db, ctx, items, sweeps);
+    else if (format == "csv") text = io::csv_report(*l.db, ctx, items);
+    for (const auto& [path, content] : files) write_output(content, path, "sweep output");
     write_output(text, output);
     return exit_ok;
 }

@@ -240,11 +240,22 @@ struct AttemptOutcome {
     std::string reason;
 };
 
+// The convergence measure: each balance relative to the size of its own terms (so a total
+// that only a mineral brings in is judged against what dissolved, not against the fixed
+// scale the Newton iteration uses), the other equations as they are.
 double max_abs_residual(const Problem& p, const std::vector<double>& u) {
     std::vector<double> f(p.n);
     p.evaluate(u.data(), f.data(), nullptr);
+    const VectorXd size = p.weights.cwiseAbs().transpose() * p.m;
     double r = 0.0;
-    for (double v : f) r = std::max(r, std::isfinite(v) ? std::abs(v) : std::numeric_limits<double>::infinity());
+    for (std::size_t e = 0; e < p.n; ++e) {
+        double v = f[e];
+        if (p.equation[e] == Equation::mass || p.equation[e] == Equation::alkalinity || p.equation[e] == Equation::charge) {
+            const double denom = std::max({size(static_cast<Index>(e)), std::abs(p.target[e]), 1e-300});
+            v = f[e] * p.scale[e] / denom;
+        }
+        r = std::max(r, std::isfinite(v) ? std::abs(v) : std::numeric_limits<double>::infinity());
+    }
     return r;
 }
 
@@ -693,7 +704,7 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
                 const int z = db.species()[comp].formula.charge;
                 double guess = 1e-7;
                 if (static_cast<int>(e) == p.h_unknown) guess = std::pow(10.0, -ph_guess);
-                else if (p.equation[e] == Equation::mass) guess = std::max(p.target[e], 1e-7);
+                else if (p.equation[e] == Equation::mass) guess = p.target[e] > 0 ? p.target[e] : 1e-5;  // 1e-5: brought in by a phase
                 else if (p.equation[e] == Equation::alkalinity) guess = std::max(std::abs(p.target[e]), 1e-6);
                 else {
                     for (const auto& x : input.components)
@@ -804,6 +815,7 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
     res.temperature_c = input.temperature_c;
     res.pe = input.pe;
     res.activity_model = input.activity_model;
+    res.kg_water_per_litre = input.kg_water_per_litre;
     res.ionic_strength = std::pow(10.0, u[static_cast<std::size_t>(p.i_unknown)]);
     res.water_activity = std::pow(10.0, u[static_cast<std::size_t>(p.w_unknown)]);
     res.component_totals.assign(db.component_count(), 0.0);

@@ -267,6 +267,7 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
     in.activity_model = model;
     in.ph = water.ph;
     in.pe = water.pe;
+    in.kg_water_per_litre = water_per_litre;
     for (const auto& c : converted) {
         double molality = c.amount;
         if (c.basis == Basis::per_litre) molality = c.amount / water_per_litre;

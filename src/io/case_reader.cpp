@@ -5,18 +5,34 @@
 // What is checked here needs no database: types, ranges, units, and the consistency of
 // pH and charge_balance. Analyte names and "as" are checked against the database when the
 // water is turned into solver input (to_speciation_input, src/equilibrium/water_input.cpp).
+//
+// Steps and sweeps ([[step]], [[sweep]]) are read in file order. Messages name one by its
+// position in the file, counted from 1 as in the default labels ("step 2 (dose)"):
+//   step[2].reagent                  the key reagent of the second [[step]]
+//   step[1].minerals.Gypsum.only     a key inside an inline table of the first step
+//   step[1].gases."CO2(g)"           a key that is not a bare word is quoted
+//   sweep[1].outputs                 an entry of an array: the key of the array, at the
+//                                    entry's own line and column
+// Checked here: the keys of each kind, required keys, types and ranges, references to
+// waters and earlier steps, unique labels, and the form of sweep outputs. Mineral, gas and
+// reagent names and elements are checked against the database when the steps are run; the
+// SourceLocation fields filled here (at the key) let those messages point at the line.
 
 #include "deltag/case.hpp"
 
 #include <algorithm>
+#include <cctype>
 #include <cerrno>
 #include <cmath>
 #include <cstring>
 #include <fstream>
+#include <map>
 #include <sstream>
 #include <tuple>
 #include <utility>
+#include <variant>
 
+#include "deltag/process.hpp"
 #include "thermo/toml_util.hpp"
 
 namespace deltag::io {
@@ -43,13 +59,12 @@ struct LaterKey {
     const char* what;
 };
 constexpr LaterKey later_keys[] = {
-    {"step", "process steps ([[step]])"},
-    {"sweep", "sweeps"},
     {"cell", "cells in a case file"},
     {"diagram", "diagrams"},
 };
 
-const std::vector<std::string> top_level_keys = {"title", "database", "activity_model", "water"};
+const std::vector<std::string> top_level_keys = {"title", "database", "activity_model", "water", "step",
+                                                 "sweep"};
 const std::vector<std::string> water_keys = {"temperature_c", "pH",    "pe",
                                              "charge_balance", "units", "density_kg_per_l",
                                              "analytes"};
@@ -76,18 +91,33 @@ std::string checked_unit(tomlu::TableReader& r, std::string_view key) {
     return u;
 }
 
+// One entry of a table: its key, its value and where the key is written.
+struct Entry {
+    std::string name;
+    const toml::node* node;
+    SourceLocation key_where;
+};
+
 // Entries of a TOML table in the order they appear in the file (toml::table iterates in
-// key order, and the order of the waters is part of the contract).
-std::vector<std::pair<std::string, const toml::node*>> in_file_order(const toml::table& t) {
-    std::vector<std::tuple<std::size_t, std::size_t, std::string, const toml::node*>> items;
+// key order, and the order of the waters, of a step's minerals and of a blend's parts is
+// kept as written).
+std::vector<Entry> in_file_order(const toml::table& t, const std::string& file) {
+    std::vector<std::tuple<std::size_t, std::size_t, Entry>> items;
     for (const auto& [k, v] : t)
-        items.emplace_back(k.source().begin.line, k.source().begin.column, std::string(k.str()), &v);
+        items.emplace_back(k.source().begin.line, k.source().begin.column,
+                           Entry{std::string(k.str()), &v, tomlu::where(k.source(), file)});
     std::sort(items.begin(), items.end(), [](const auto& a, const auto& b) {
         return std::tie(std::get<0>(a), std::get<1>(a)) < std::tie(std::get<0>(b), std::get<1>(b));
     });
-    std::vector<std::pair<std::string, const toml::node*>> out;
-    for (auto& [line, col, k, v] : items) out.emplace_back(std::move(k), v);
+    std::vector<Entry> out;
+    for (auto& item : items) out.push_back(std::move(std::get<2>(item)));
     return out;
+}
+
+// Where a key is written (the key itself, not its value); the table when it is absent.
+SourceLocation key_where(const toml::table& t, std::string_view key, const std::string& file) {
+    if (auto it = t.find(key); it != t.end()) return tomlu::where(it->first.source(), file);
+    return tomlu::where(t.source(), file);
 }
 
 AnalyteValue read_analyte(const std::string& name, const toml::node& node, const std::string& file,
@@ -152,8 +182,8 @@ WaterAnalysis read_water(const std::string& name, const toml::node& node, const 
     w.density_kg_per_l = ranged(r, "density_kg_per_l", 0.9, 1.5, "a solution density", " kg/L");
 
     if (const toml::table* analytes = r.table("analytes")) {
-        for (const auto& [aname, anode] : in_file_order(*analytes))
-            w.analytes.push_back(read_analyte(aname, *anode, file, prefix));
+        for (const auto& e : in_file_order(*analytes, file))
+            w.analytes.push_back(read_analyte(e.name, *e.node, file, prefix));
     }
     r.finish(water_keys);
 
@@ -186,6 +216,657 @@ WaterAnalysis read_water(const std::string& name, const toml::node& node, const 
         }
     }
     return w;
+}
+
+// --- steps and sweeps ---------------------------------------------------------------------
+
+const std::vector<std::string> step_kinds = {"equilibrate", "dose", "blend", "concentrate", "temperature"};
+
+// The keys each kind of step takes. A blend has no `water`: it names its waters in `waters`.
+const std::vector<std::string>& keys_of_kind(std::string_view kind) {
+    static const std::map<std::string, std::vector<std::string>, std::less<>> keys = {
+        {"equilibrate", {"kind", "label", "water", "minerals", "gases"}},
+        {"dose", {"kind", "label", "water", "reagent", "amount", "until", "max_amount"}},
+        {"blend", {"kind", "label", "waters", "by"}},
+        {"concentrate", {"kind", "label", "water", "factor", "recovery", "precipitate"}},
+        {"temperature", {"kind", "label", "water", "temperature_c", "equilibrate"}},
+    };
+    return keys.find(kind)->second;
+}
+
+const std::vector<std::string> mineral_keys = {"si", "amount_mol_per_kgw", "amount_mmol_per_kgw", "only"};
+const std::vector<std::string> mineral_directions = {"dissolve", "precipitate"};
+const std::vector<std::string> dose_units = {"mol/kgw", "mmol/kgw", "umol/kgw", "mg/kgw", "g/kgw",
+                                             "mol/L",   "mmol/L",   "umol/L",   "mg/L",   "g/L"};
+const std::vector<std::string> amount_keys = {"value", "unit"};
+const std::vector<std::string> until_keys = {"pH", "si", "alkalinity_meq_per_l", "langelier"};
+const std::vector<std::string> blend_bases = {"volume", "mass"};
+const std::vector<std::string> sweep_keys = {"label",  "step",        "at",      "variable", "from", "to",
+                                             "points", "fraction_of", "outputs", "csv",      "svg"};
+const std::vector<std::string> sweep_variables = {"temperature_c", "dose", "factor", "fraction"};
+const std::vector<std::string> plain_outputs = {"pH", "ionic_strength", "alkalinity", "langelier", "ryznar", "ccpp"};
+const std::vector<std::string> output_prefixes = {"si", "transfer", "total"};
+
+bool is_one_of(std::string_view name, const std::vector<std::string>& names) {
+    return std::find(names.begin(), names.end(), name) != names.end();
+}
+
+std::string default_step_label(std::size_t n, std::string_view kind) {
+    return "step " + std::to_string(n) + " (" + std::string(kind) + ")";
+}
+
+// The kind's name; the order is that of the alternatives of process::Step::action.
+std::string kind_of(const process::Step& s) {
+    static_assert(std::variant_size_v<decltype(process::Step::action)> == 5);
+    static const char* names[] = {"equilibrate", "dose", "blend", "concentrate", "temperature"};
+    return names[s.action.index()];
+}
+
+// The range check of `ranged`, for a value already read.
+void check_range(tomlu::TableReader& r, std::string_view key, double v, double lo, double hi,
+                 const std::string& what, const std::string& unit = {}) {
+    if (v < lo || v > hi)
+        r.fail(key, "expected " + what + " from " + show(lo) + " to " + show(hi) + unit + ", found " + show(v));
+}
+
+// An array of tables ([[step]] or [[sweep]]), in file order.
+std::vector<const toml::table*> array_of_tables(tomlu::TableReader& r, const std::string& key,
+                                                const std::string& what, const std::string& file) {
+    const toml::node* n = r.node(key);
+    if (!n) return {};
+    const toml::array* a = n->as_array();
+    if (!a)
+        throw InputError(tomlu::where(n->source(), file), key,
+                         "expected [[" + key + "]] tables, one per " + what + ", found " + tomlu::type_name(*n) +
+                             (n->is_table() ? " ([" + key + "]); write [[" + key + "]]" : std::string()));
+    std::vector<const toml::table*> out;
+    for (std::size_t i = 0; i < a->size(); ++i) {
+        const toml::node& el = *a->get(i);
+        if (!el.is_table())
+            throw InputError(tomlu::where(el.source(), file), key + "[" + std::to_string(i + 1) + "]",
+                             "expected a table describing a " + what + " ([[" + key + "]]), found " +
+                                 tomlu::type_name(el));
+        out.push_back(el.as_table());
+    }
+    return out;
+}
+
+// The label each step will have, known before the steps are read, so that a reference to a
+// later step can be named as such. "" where the step's label or kind is unreadable (the
+// step's own reading reports that).
+struct PlannedLabel {
+    std::string label;
+    int line = 0;
+};
+
+std::vector<PlannedLabel> planned_labels(const std::vector<const toml::table*>& steps) {
+    std::vector<PlannedLabel> out;
+    for (std::size_t i = 0; i < steps.size(); ++i) {
+        const toml::table& t = *steps[i];
+        PlannedLabel p;
+        p.line = static_cast<int>(t.source().begin.line);
+        if (const toml::node* l = t.get("label"); l && l->is_string()) {
+            p.label = l->as_string()->get();
+        } else if (const toml::node* k = t.get("kind"); !l && k && k->is_string() &&
+                                                        is_one_of(k->as_string()->get(), step_kinds)) {
+            p.label = default_step_label(i + 1, k->as_string()->get());
+        }
+        out.push_back(std::move(p));
+    }
+    return out;
+}
+
+struct StepContext {
+    const std::string& file;
+    const std::vector<WaterAnalysis>& waters;
+    std::vector<PlannedLabel> planned;  // one per step in the file
+    std::vector<process::Step> done;    // the steps read so far
+};
+
+// `name` (a step's water, or a part of a blend) must be a water or an earlier step.
+void check_source(const StepContext& c, std::size_t n, const std::string& name, const SourceLocation& at,
+                  const std::string& key) {
+    for (const auto& w : c.waters)
+        if (w.name == name) return;
+    for (const auto& s : c.done)
+        if (s.label == name) return;
+    if (c.planned[n - 1].label == name)
+        throw InputError(at, key,
+                         "'" + name + "' is the label of this step itself; a step starts from a water or "
+                         "the result of an earlier step");
+    for (std::size_t i = n; i < c.planned.size(); ++i)
+        if (c.planned[i].label == name)
+            throw InputError(at, key,
+                             "'" + name + "' is the label of a later step (step " + std::to_string(i + 1) +
+                                 ", line " + std::to_string(c.planned[i].line) +
+                                 "); a step starts from a water or the result of an earlier step");
+    std::vector<std::string> names;
+    for (const auto& w : c.waters) names.push_back(w.name);
+    for (const auto& s : c.done) names.push_back(s.label);
+    throw InputError(at, key,
+                     "no water or earlier step is called '" + name + "'; expected one of: " + list_of(names),
+                     nearest_name(name, names));
+}
+
+// Labels name results (and the waters' names do too), so they are unique across both.
+void check_label_unique(const StepContext& c, const tomlu::TableReader& r, const std::string& label,
+                        bool given) {
+    const std::string what = given ? "the label '" + label + "'" : "the default label '" + label + "'";
+    const std::string fix = given ? "; results are reported by label, so each must be unique"
+                                  : "; give this step a label = \"...\" of its own";
+    for (const auto& w : c.waters)
+        if (w.name == label)
+            r.fail("label", what + " is already the name of a water (line " + std::to_string(w.where.line) + ")" + fix);
+    for (std::size_t i = 0; i < c.done.size(); ++i)
+        if (c.done[i].label == label)
+            r.fail("label", what + " is already the label of step " + std::to_string(i + 1) + " (line " +
+                                std::to_string(c.done[i].where.line) + ")" + fix);
+}
+
+// Unknown keys, checked before the known ones are read, so that a misspelt required key is
+// reported as misspelt rather than as missing. The first one in the file is named.
+void reject_unknown_keys(const toml::table& t, const std::vector<std::string>& allowed, const std::string& file,
+                         const std::string& prefix) {
+    for (const auto& e : in_file_order(t, file))
+        if (!is_one_of(e.name, allowed))
+            throw InputError(e.key_where, tomlu::join_key(prefix, e.name),
+                             "unknown key; expected one of: " + list_of(allowed), nearest_name(e.name, allowed));
+}
+
+// Every key of the step must belong to its kind; the first stray key in the file is named.
+void check_step_keys(const toml::table& t, const std::string& kind, const std::string& file,
+                     const std::string& prefix) {
+    const auto& allowed = keys_of_kind(kind);
+    for (const auto& e : in_file_order(t, file)) {
+        if (is_one_of(e.name, allowed)) continue;
+        std::vector<std::string> owners;
+        for (const auto& k : step_kinds)
+            if (is_one_of(e.name, keys_of_kind(k))) owners.push_back("'" + k + "'");
+        const std::string takes = "; a step of kind '" + kind + "' takes: " + list_of(allowed);
+        const std::string message =
+            owners.empty() ? "unknown key for a step of kind '" + kind + "'" + takes
+                           : "'" + e.name + "' does not belong to a step of kind '" + kind + "' (it is a key of " +
+                                 list_of(owners) + " steps)" + takes;
+        throw InputError(e.key_where, tomlu::join_key(prefix, e.name), message, nearest_name(e.name, allowed));
+    }
+}
+
+// minerals = { Calcite = 0.0, Gypsum = { si = 0.0, amount_mmol_per_kgw = 2.0, only = "dissolve" } }
+process::MineralSpec read_mineral(const Entry& e, const std::string& file, const std::string& prefix) {
+    using Direction = equilibrium::MineralTarget::Direction;
+    process::MineralSpec m;
+    m.name = e.name;
+    m.where = e.key_where;
+    const std::string key = tomlu::join_key(prefix, e.name);
+    if (e.node->is_integer() || e.node->is_floating_point()) {
+        const double v = e.node->is_integer() ? static_cast<double>(e.node->as_integer()->get())
+                                              : e.node->as_floating_point()->get();
+        const SourceLocation at = tomlu::where(e.node->source(), file);
+        if (!std::isfinite(v)) throw InputError(at, key, "expected a finite number");
+        if (v < -20.0 || v > 20.0)
+            throw InputError(at, key, "expected a target saturation index from -20 to 20, found " + show(v));
+        m.target_si = v;
+        return m;
+    }
+    const toml::table* t = e.node->as_table();
+    if (!t)
+        throw InputError(tomlu::where(e.node->source(), file), key,
+                         "expected a target saturation index (a number) or a table { si = ..., "
+                         "amount_mmol_per_kgw = ..., only = \"dissolve\" or \"precipitate\" }, found " +
+                             tomlu::type_name(*e.node));
+    tomlu::TableReader r(*t, file, key);
+    if (auto si = ranged(r, "si", -20.0, 20.0, "a target saturation index")) m.target_si = *si;
+    const auto mol = r.number("amount_mol_per_kgw");
+    const auto mmol = r.number("amount_mmol_per_kgw");
+    if (mol && mmol)
+        r.fail("amount_mmol_per_kgw",
+               "give the amount of solid once, as amount_mol_per_kgw or amount_mmol_per_kgw, not both");
+    if (mol || mmol) {
+        const std::string k = mol ? "amount_mol_per_kgw" : "amount_mmol_per_kgw";
+        const double v = mol ? *mol : *mmol;
+        if (v < 0.0) r.fail(k, "expected an amount of solid of zero or more, found " + show(v));
+        m.amount_mol_per_kgw = mol ? v : v * 1e-3;
+    }
+    if (auto only = r.string("only")) {
+        if (*only == "dissolve") m.direction = Direction::dissolve_only;
+        else if (*only == "precipitate") m.direction = Direction::precipitate_only;
+        else
+            r.fail("only",
+                   "expected \"dissolve\" or \"precipitate\" (leave 'only' out to allow both), found \"" + *only + "\"",
+                   nearest_name(*only, mineral_directions));
+        if (m.amount_mol_per_kgw && m.direction == Direction::precipitate_only)
+            r.fail("only", "an amount of solid limits how much can dissolve; a mineral that may only "
+                           "precipitate takes none: remove " + std::string(mol ? "amount_mol_per_kgw" : "amount_mmol_per_kgw") +
+                           " or 'only'");
+    }
+    r.finish(mineral_keys);
+    return m;
+}
+
+process::EquilibrateStep read_equilibrate(tomlu::TableReader& r) {
+    process::EquilibrateStep e;
+    if (const toml::table* minerals = r.table("minerals")) {
+        for (const auto& entry : in_file_order(*minerals, r.file()))
+            e.minerals.push_back(read_mineral(entry, r.file(), r.dotted("minerals")));
+    }
+    if (const toml::table* gases = r.table("gases")) {
+        tomlu::TableReader g(*gases, r.file(), r.dotted("gases"));
+        for (const auto& entry : in_file_order(*gases, r.file())) {
+            process::GasSpec gas;
+            gas.name = entry.name;
+            gas.where = entry.key_where;
+            if (!entry.node->is_integer() && !entry.node->is_floating_point())
+                g.fail(entry.name, "expected the log10 partial pressure of the gas in atm (a number), found " +
+                                       tomlu::type_name(*entry.node));
+            gas.log_partial_pressure_atm = *ranged(g, entry.name, -20.0, 2.0, "a log10 partial pressure in atm");
+            e.gases.push_back(std::move(gas));
+        }
+    }
+    if (e.minerals.empty() && e.gases.empty())
+        throw InputError(r.table_location(), r.prefix(),
+                         "a step of kind 'equilibrate' needs minerals = { NAME = target SI, ... } or gases = "
+                         "{ \"NAME(g)\" = log10 partial pressure in atm, ... }, with at least one entry");
+    return e;
+}
+
+// amount = { value = 0.5, unit = "mmol/kgw" }
+process::Amount read_amount(tomlu::TableReader& r, std::string_view key, bool above_zero) {
+    const toml::node* n = r.node(key);
+    const toml::table* t = n->as_table();
+    if (!t)
+        r.fail(key, "expected an amount { value = ..., unit = \"mmol/kgw\" }, found " + tomlu::type_name(*n));
+    process::Amount a;
+    a.where = key_where(r.table(), key, r.file());
+    reject_unknown_keys(*t, amount_keys, r.file(), r.dotted(key));
+    tomlu::TableReader ar(*t, r.file(), r.dotted(key));
+    a.value = ar.require_number("value", "the amount, a number (value = ...)");
+    if (above_zero && a.value <= 0.0)
+        ar.fail("value", "expected a largest dose above zero, found " + show(a.value));
+    if (a.value < 0.0) ar.fail("value", "expected an amount of zero or more, found " + show(a.value));
+    a.unit = ar.require_string("unit", "the unit of the amount, one of: " + list_of(dose_units));
+    if (!is_one_of(a.unit, dose_units))
+        ar.fail("unit", "unknown unit of amount '" + a.unit + "'; expected one of: " + list_of(dose_units),
+                nearest_name(a.unit, dose_units));
+    return a;
+}
+
+// until = { pH = 7.2 } | { si = { Calcite = 0.0 } } | { alkalinity_meq_per_l = 2.0 } | { langelier = 0.0 }
+process::DoseTarget read_until(tomlu::TableReader& r) {
+    using Kind = process::DoseTarget::Kind;
+    const std::string targets = "pH = ..., si = { MINERAL = ... }, alkalinity_meq_per_l = ... or langelier = ...";
+    const toml::node* n = r.node("until");
+    const toml::table* t = n->as_table();
+    if (!t) r.fail("until", "expected a target { " + targets + " }, found " + tomlu::type_name(*n));
+    tomlu::TableReader ur(*t, r.file(), r.dotted("until"));
+    const auto entries = in_file_order(*t, r.file());
+    reject_unknown_keys(*t, until_keys, r.file(), ur.prefix());
+    if (entries.empty()) r.fail("until", "expected one target in until: " + targets + "; found none");
+    if (entries.size() > 1)
+        throw InputError(entries[1].key_where, ur.dotted(entries[1].name),
+                         "until takes one target, found both '" + entries[0].name + "' and '" + entries[1].name + "'");
+
+    process::DoseTarget d;
+    d.where = entries[0].key_where;
+    const std::string& name = entries[0].name;
+    if (name == "pH") {
+        d.kind = Kind::ph;
+        d.value = *ranged(ur, "pH", 0.0, 14.0, "a pH");
+    } else if (name == "alkalinity_meq_per_l") {
+        // Negative values are meaningful (mineral acidity); the bound only catches slips.
+        d.kind = Kind::alkalinity;
+        d.value = *ranged(ur, name, -1000.0, 1000.0, "an alkalinity", " meq/L");
+    } else if (name == "langelier") {
+        // pH minus the pH of calcite saturation, both within 0..14.
+        d.kind = Kind::langelier;
+        d.value = *ranged(ur, name, -14.0, 14.0, "a Langelier index");
+    } else {
+        d.kind = Kind::saturation_index;
+        const toml::node* sn = ur.node("si");
+        const toml::table* st = sn->as_table();
+        if (!st) ur.fail("si", "expected si = { MINERAL = target saturation index }, found " + tomlu::type_name(*sn));
+        const auto minerals = in_file_order(*st, r.file());
+        if (minerals.empty())
+            ur.fail("si", "expected one mineral and its target saturation index, e.g. si = { Calcite = 0.0 }; found none");
+        tomlu::TableReader sr(*st, r.file(), ur.dotted("si"));
+        if (minerals.size() > 1)
+            throw InputError(minerals[1].key_where, sr.dotted(minerals[1].name),
+                             "si takes one mineral, found both '" + minerals[0].name + "' and '" +
+                                 minerals[1].name + "'");
+        d.mineral = minerals[0].name;
+        d.where = minerals[0].key_where;
+        d.value = *ranged(sr, d.mineral, -20.0, 20.0, "a target saturation index");
+    }
+    return d;
+}
+
+process::DoseStep read_dose(tomlu::TableReader& r) {
+    process::DoseStep d;
+    d.reagent = r.require_string("reagent", "the reagent, a formula such as \"H2SO4\" or \"Ca(OH)2\"");
+    if (d.reagent.empty()) r.fail("reagent", "expected the reagent's formula, such as \"H2SO4\", found an empty string");
+    d.reagent_where = key_where(r.table(), "reagent", r.file());
+    const bool amount = r.has("amount"), until = r.has("until");
+    if (amount && until)
+        r.fail("until", "give either amount (a fixed dose) or until (dose until a target is reached), not both");
+    if (!amount && !until)
+        throw InputError(r.table_location(), r.dotted("amount"),
+                         "missing: a step of kind 'dose' needs amount = { value = ..., unit = \"mmol/kgw\" } "
+                         "or until = { pH = ... }");
+    if (amount) d.amount = read_amount(r, "amount", false);
+    if (until) d.until = read_until(r);
+    if (r.has("max_amount")) {
+        if (!until)
+            r.fail("max_amount", "max_amount limits a dose with until; a fixed amount needs none");
+        d.max_amount = read_amount(r, "max_amount", true);
+    }
+    return d;
+}
+
+process::BlendStep read_blend(const StepContext& c, std::size_t n, tomlu::TableReader& r) {
+    process::BlendStep b;
+    const toml::node* wn = r.node("waters");
+    if (!wn)
+        throw InputError(r.table_location(), r.dotted("waters"),
+                         "missing: a step of kind 'blend' needs waters = { NAME = fraction, NAME = fraction, ... } "
+                         "naming at least two waters or earlier steps");
+    const toml::table* wt = wn->as_table();
+    if (!wt) r.fail("waters", "expected a table { NAME = fraction, ... }, found " + tomlu::type_name(*wn));
+    const auto parts = in_file_order(*wt, r.file());
+    if (parts.size() < 2)
+        r.fail("waters", "a blend needs at least two waters, found " + std::to_string(parts.size()));
+    tomlu::TableReader wr(*wt, r.file(), r.dotted("waters"));
+    double sum = 0.0;
+    for (const auto& p : parts) {
+        const double f = *wr.number(p.name);
+        if (f <= 0.0) wr.fail(p.name, "expected a fraction above zero, found " + show(f));
+        check_source(c, n, p.name, p.key_where, wr.dotted(p.name));
+        b.parts.emplace_back(p.name, f);
+        b.part_where.push_back(p.key_where);
+        sum += f;
+    }
+    // The fractions need not add up to 1 (7 and 3 mean 70 % and 30 %): they are normalised
+    // here, so the parts always add up to 1.
+    for (auto& part : b.parts) part.second /= sum;
+    if (auto by = r.string("by")) {
+        if (*by == "volume") b.basis = process::BlendStep::Basis::volume;
+        else if (*by == "mass") b.basis = process::BlendStep::Basis::mass;
+        else
+            r.fail("by", "expected \"volume\" or \"mass\", found \"" + *by + "\"", nearest_name(*by, blend_bases));
+    }
+    return b;
+}
+
+process::ConcentrateStep read_concentrate(tomlu::TableReader& r) {
+    process::ConcentrateStep k;
+    const bool factor = r.has("factor"), recovery = r.has("recovery");
+    if (factor && recovery)
+        r.fail("recovery", "give factor or recovery, not both (factor = 1/(1 - recovery))");
+    if (!factor && !recovery)
+        throw InputError(r.table_location(), r.dotted("factor"),
+                         "missing: a step of kind 'concentrate' needs factor = ... (cycles of concentration, 1 "
+                         "or more) or recovery = ... (the fraction of the water removed, from 0 to below 1)");
+    if (factor) {
+        k.factor = *r.number("factor");
+        if (k.factor < 1.0) r.fail("factor", "expected a concentration factor of 1 or more, found " + show(k.factor));
+    } else {
+        const double v = *r.number("recovery");
+        if (v < 0.0 || v >= 1.0)
+            r.fail("recovery", "expected a recovery (the fraction of the water removed) from 0 to below 1, found " +
+                                   show(v));
+        k.factor = 1.0 / (1.0 - v);
+    }
+    if (const toml::array* minerals = r.array("precipitate")) {
+        for (const auto& el : *minerals) {
+            const SourceLocation at = tomlu::where(el.source(), r.file());
+            if (!el.is_string())
+                throw InputError(at, r.dotted("precipitate"),
+                                 "expected mineral names (strings), found " + tomlu::type_name(el) + " in the list");
+            const std::string name = el.as_string()->get();
+            if (name.empty())
+                throw InputError(at, r.dotted("precipitate"), "expected a mineral name, found an empty string");
+            if (is_one_of(name, k.precipitate))
+                throw InputError(at, r.dotted("precipitate"), "the mineral '" + name + "' is listed twice");
+            k.precipitate.push_back(name);
+            k.precipitate_where.push_back(at);
+        }
+    }
+    return k;
+}
+
+process::TemperatureStep read_temperature(tomlu::TableReader& r) {
+    process::TemperatureStep t;
+    const auto tc = ranged(r, "temperature_c", 0.0, 100.0, "a temperature", " °C",
+                           " (the range of the water-property correlations)");
+    if (!tc)
+        throw InputError(r.table_location(), r.dotted("temperature_c"),
+                         "missing: a step of kind 'temperature' needs temperature_c = ... (°C)");
+    t.temperature_c = *tc;
+    t.equilibrate = r.boolean("equilibrate").value_or(false);
+    return t;
+}
+
+process::Step read_step(const StepContext& c, std::size_t n, const toml::table& t) {
+    const std::string prefix = "step[" + std::to_string(n) + "]";
+    tomlu::TableReader r(t, c.file, prefix);
+    process::Step s;
+    s.where = r.table_location();
+
+    const auto kind = r.string("kind");
+    if (!kind)
+        throw InputError(s.where, r.dotted("kind"),
+                         "missing: expected the kind of step, one of: " + list_of(step_kinds));
+    if (!is_one_of(*kind, step_kinds))
+        r.fail("kind", "unknown kind of step '" + *kind + "'; expected one of: " + list_of(step_kinds),
+               nearest_name(*kind, step_kinds));
+    check_step_keys(t, *kind, c.file, prefix);
+
+    if (auto label = r.string("label")) {
+        if (label->empty()) r.fail("label", "expected a label for the step, found an empty string");
+        s.label = *label;
+        check_label_unique(c, r, s.label, true);
+    } else {
+        s.label = default_step_label(n, *kind);
+        check_label_unique(c, r, s.label, false);
+    }
+
+    if (auto water = r.string("water")) {
+        s.water = *water;
+        s.water_where = key_where(t, "water", c.file);
+        check_source(c, n, s.water, s.water_where, r.dotted("water"));
+    } else if (*kind != "blend" && c.done.empty() && c.waters.size() > 1) {
+        // Without `water` a step starts from the previous result; the first step has none of
+        // its own, and with several waters it would be a guess which one was meant.
+        std::vector<std::string> names;
+        for (const auto& w : c.waters) names.push_back(w.name);
+        throw InputError(s.where, r.dotted("water"),
+                         "missing: the first step has no earlier step to start from and the case has " +
+                             std::to_string(names.size()) + " waters (" + list_of(names) +
+                             "); name the one it starts from: water = \"" + names.front() + "\"");
+    }
+
+    if (*kind == "equilibrate") s.action = read_equilibrate(r);
+    else if (*kind == "dose") s.action = read_dose(r);
+    else if (*kind == "blend") s.action = read_blend(c, n, r);
+    else if (*kind == "concentrate") s.action = read_concentrate(r);
+    else s.action = read_temperature(r);
+    return s;
+}
+
+// An output of a sweep: "pH", ..., "si:NAME", "transfer:NAME", "total:ELEMENT". Only the form
+// is checked here; the names are the database's.
+void check_output(const std::string& out, const SourceLocation& at, const std::string& key) {
+    const std::string expected = "expected " + list_of(plain_outputs) +
+                                 ", si:NAME, transfer:NAME or total:ELEMENT";
+    const auto colon = out.find(':');
+    if (colon == std::string::npos) {
+        if (!is_one_of(out, plain_outputs))
+            throw InputError(at, key, "unknown output '" + out + "'; " + expected, nearest_name(out, plain_outputs));
+        return;
+    }
+    const std::string head = out.substr(0, colon), name = out.substr(colon + 1);
+    if (!is_one_of(head, output_prefixes)) {
+        const std::string near = nearest_name(head, output_prefixes);
+        throw InputError(at, key, "unknown output '" + out + "'; " + expected, near.empty() ? "" : near + ":" + name);
+    }
+    if (name.empty())
+        throw InputError(at, key, "the output '" + out + "' needs a name after the colon, e.g. " + head +
+                                      (head == "total" ? ":Ca" : ":Calcite"));
+    if (head == "total") {
+        const bool symbol = (name.size() == 1 || name.size() == 2) && std::isupper(static_cast<unsigned char>(name[0])) &&
+                            (name.size() == 1 || std::islower(static_cast<unsigned char>(name[1])));
+        if (!symbol)
+            throw InputError(at, key, "the output '" + out + "' needs an element symbol after total:, such as "
+                                      "total:Ca or total:C; found '" + name + "'");
+    }
+}
+
+process::Sweep read_sweep(const std::string& file, std::size_t n, const toml::table& t,
+                          const std::vector<process::Step>& steps, const std::vector<process::Sweep>& done) {
+    using Variable = process::Sweep::Variable;
+    tomlu::TableReader r(t, file, "sweep[" + std::to_string(n) + "]");
+    reject_unknown_keys(t, sweep_keys, file, r.prefix());
+    process::Sweep sw;
+    sw.where = r.table_location();
+
+    if (auto label = r.string("label")) {
+        if (label->empty()) r.fail("label", "expected a label for the sweep, found an empty string");
+        sw.label = *label;
+    } else {
+        sw.label = "sweep " + std::to_string(n);
+    }
+    for (std::size_t i = 0; i < done.size(); ++i)
+        if (done[i].label == sw.label)
+            r.fail("label", std::string(r.has("label") ? "the label '" : "the default label '") + sw.label +
+                                "' is already the label of sweep " + std::to_string(i + 1) + " (line " +
+                                std::to_string(done[i].where.line) + "); give each sweep its own label");
+
+    sw.step = r.require_string("step", "the label of the step whose input the sweep varies");
+    sw.step_where = r.location("step");
+    const process::Step* step = nullptr;
+    for (const auto& s : steps)
+        if (s.label == sw.step) step = &s;
+    if (!step) {
+        std::vector<std::string> labels;
+        for (const auto& s : steps) labels.push_back(s.label);
+        if (labels.empty())
+            r.fail("step", "no step is labelled '" + sw.step + "': the case has no [[step]]; a sweep varies an "
+                           "input of a step");
+        r.fail("step", "no step is labelled '" + sw.step + "'; expected one of: " + list_of(labels),
+               nearest_name(sw.step, labels));
+    }
+
+    // `at`: the step whose result is recorded, the varied step itself or a later one.
+    if (auto at = r.string("at")) {
+        sw.at = *at;
+        sw.at_where = r.location("at");
+        std::size_t varied = 0, recorded = steps.size();
+        std::vector<std::string> later;
+        for (std::size_t k = 0; k < steps.size(); ++k) {
+            if (&steps[k] == step) varied = k;
+            if (steps[k].label == sw.at) recorded = k;
+        }
+        for (std::size_t k = varied; k < steps.size(); ++k) later.push_back(steps[k].label);
+        if (recorded == steps.size() || recorded < varied)
+            r.fail("at", "'" + sw.at + "' is not the varied step or a step after it; expected one of: " + list_of(later),
+                   nearest_name(sw.at, later));
+    }
+    const std::string variable = r.require_string("variable", "what the sweep varies, one of: " + list_of(sweep_variables));
+    sw.variable_where = r.location("variable");
+    if (!is_one_of(variable, sweep_variables))
+        r.fail("variable", "unknown variable '" + variable + "'; expected one of: " + list_of(sweep_variables),
+               nearest_name(variable, sweep_variables));
+    // Each variable is an input of one kind of step.
+    const std::string needs = variable == "temperature_c" ? "temperature"
+                              : variable == "dose"        ? "dose"
+                              : variable == "factor"      ? "concentrate"
+                                                          : "blend";
+    if (kind_of(*step) != needs)
+        r.fail("variable", "the variable '" + variable + "' is an input of a step of kind '" + needs + "', but step '" +
+                               step->label + "' (line " + std::to_string(step->where.line) + ") is of kind '" +
+                               kind_of(*step) + "'");
+    std::string unit;
+    if (variable == "temperature_c") {
+        sw.variable = Variable::temperature_c;
+        unit = " °C";
+    } else if (variable == "dose") {
+        sw.variable = Variable::dose;
+        const auto& dose = std::get<process::DoseStep>(step->action);
+        if (!dose.amount)
+            r.fail("variable", "the variable 'dose' varies a fixed amount, but step '" + step->label +
+                                   "' doses until a target; give that step amount = { ... } instead of until");
+        unit = " " + dose.amount->unit + " (the unit of the step's amount)";
+    } else if (variable == "factor") {
+        sw.variable = Variable::factor;
+    } else {
+        sw.variable = Variable::fraction;
+    }
+
+    sw.from = r.require_number("from", "the first value of the variable");
+    sw.to = r.require_number("to", "the last value of the variable");
+    for (const char* key : {"from", "to"}) {
+        const double v = std::string_view(key) == "from" ? sw.from : sw.to;
+        switch (sw.variable) {
+            case Variable::temperature_c: check_range(r, key, v, 0.0, 100.0, "a temperature", " °C"); break;
+            case Variable::dose:
+                if (v < 0.0) r.fail(key, "expected a dose of zero or more in" + unit + ", found " + show(v));
+                break;
+            case Variable::factor:
+                if (v < 1.0) r.fail(key, "expected a concentration factor of 1 or more, found " + show(v));
+                break;
+            case Variable::fraction: check_range(r, key, v, 0.0, 1.0, "a fraction"); break;
+        }
+    }
+    if (sw.from == sw.to)
+        r.fail("to", "expected a value other than from = " + show(sw.from) + "; a sweep needs a range");
+
+    if (const toml::node* p = r.node("points")) {
+        if (!p->is_integer())
+            r.fail("points", "expected a whole number of points from 2 to 1000, found " + tomlu::type_name(*p));
+        const auto v = p->as_integer()->get();
+        if (v < 2 || v > 1000)
+            r.fail("points", "expected a whole number of points from 2 to 1000, found " + std::to_string(v));
+        sw.points = static_cast<int>(v);
+    }
+
+    if (sw.variable == Variable::fraction) {
+        sw.fraction_of = r.require_string("fraction_of", "the water of the blend whose fraction is varied");
+        const auto& blend = std::get<process::BlendStep>(step->action);
+        std::vector<std::string> parts;
+        for (const auto& part : blend.parts) parts.push_back(part.first);
+        if (!is_one_of(sw.fraction_of, parts))
+            r.fail("fraction_of",
+                   "'" + sw.fraction_of + "' is not among the waters of the blend '" + step->label + "' (" +
+                       list_of(parts) + ")",
+                   nearest_name(sw.fraction_of, parts));
+    } else if (r.has("fraction_of")) {
+        r.fail("fraction_of", "fraction_of only goes with variable = \"fraction\"");
+    }
+
+    const toml::array* outputs = r.array("outputs");
+    if (!outputs)
+        throw InputError(sw.where, r.dotted("outputs"),
+                         "missing: expected outputs = [ ... ], the results to record at each point, e.g. "
+                         "[\"pH\", \"si:Calcite\"]");
+    if (outputs->empty()) r.fail("outputs", "expected at least one output, found an empty list");
+    for (const auto& el : *outputs) {
+        const SourceLocation at = tomlu::where(el.source(), file);
+        if (!el.is_string())
+            throw InputError(at, r.dotted("outputs"), "expected outputs as strings, found " + tomlu::type_name(el) +
+                                                          " in the list");
+        const std::string out = el.as_string()->get();
+        check_output(out, at, r.dotted("outputs"));
+        if (is_one_of(out, sw.outputs))
+            throw InputError(at, r.dotted("outputs"), "the output '" + out + "' is listed twice");
+        sw.outputs.push_back(out);
+        sw.output_where.push_back(at);
+    }
+
+    for (const char* key : {"csv", "svg"}) {
+        if (auto path = r.string(key)) {
+            if (path->empty()) r.fail(key, "expected the path of the file to write, found an empty string");
+            (std::string_view(key) == "csv" ? sw.csv_path : sw.svg_path) = *path;
+        }
+    }
+    return sw;
 }
 
 }  // namespace
@@ -233,8 +914,18 @@ Case parse_case(std::string_view toml_text, const std::string& origin) {
                          "water",
                          "a case needs at least one water: add a table [water.NAME] (with no "
                          "analytes it is pure water)");
-    for (const auto& [name, node] : in_file_order(*waters_node->as_table()))
-        c.waters.push_back(read_water(name, *node, origin));
+    for (const auto& e : in_file_order(*waters_node->as_table(), origin))
+        c.waters.push_back(read_water(e.name, *e.node, origin));
+
+    // Steps, then the sweeps that refer to them by label.
+    const auto step_tables = array_of_tables(r, "step", "step", origin);
+    StepContext steps{origin, c.waters, planned_labels(step_tables), {}};
+    for (std::size_t i = 0; i < step_tables.size(); ++i)
+        steps.done.push_back(read_step(steps, i + 1, *step_tables[i]));
+    c.steps = std::move(steps.done);
+    const auto sweep_tables = array_of_tables(r, "sweep", "sweep", origin);
+    for (std::size_t i = 0; i < sweep_tables.size(); ++i)
+        c.sweeps.push_back(read_sweep(origin, i + 1, *sweep_tables[i], c.steps, c.sweeps));
 
     r.finish(top_level_keys);
     return c;

@@ -1,10 +1,12 @@
 // JSON (interface contract keys) and CSV reports.
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cmath>
 #include <nlohmann/json.hpp>
 #include <stdexcept>
 
+#include "deltag/plot.hpp"
 #include "deltag/report.hpp"
 
 namespace deltag::io {
@@ -18,9 +20,11 @@ double finite(double v, std::string_view what) {
     return v;
 }
 
-ordered_json result_json(const equilibrium::SpeciationResult& r) {
+ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
+    const equilibrium::SpeciationResult& r = item.result;
     ordered_json j;
     j["label"] = r.label;
+    j["kind"] = item.kind;
     j["temperature_c"] = finite(r.temperature_c, "temperature");
     j["pH"] = finite(r.ph, "pH");
     j["pe"] = r.pe ? ordered_json(finite(*r.pe, "pe")) : ordered_json(nullptr);
@@ -55,8 +59,39 @@ ordered_json result_json(const equilibrium::SpeciationResult& r) {
                        {"verdict", std::string(equilibrium::verdict_text(s.verdict))}});
     }
     j["saturation"] = sat;
-    j["transfers"] = ordered_json::array();
+    ordered_json transfers = ordered_json::array();
+    for (const auto& t : r.transfers) {
+        double molar_mass = 0.0;
+        if (t.is_gas) {
+            if (auto g = db.find_gas(t.phase)) molar_mass = db.gases()[*g].formula.molar_mass();
+        } else if (auto m = db.find_mineral(t.phase)) {
+            molar_mass = db.minerals()[*m].formula.molar_mass();
+        }
+        transfers.push_back({{"phase", t.phase},
+                             {"moles", finite(t.moles, t.phase)},
+                             {"mg_per_l", finite(t.moles * molar_mass * 1000.0 * r.kg_water_per_litre, t.phase)},
+                             {"at_target", t.at_target},
+                             {"exhausted", t.exhausted},
+                             {"blocked", t.blocked}});
+    }
+    j["transfers"] = transfers;
     j["gases"] = gases;
+    if (item.indices && item.indices->available) {
+        const auto& ix = *item.indices;
+        j["indices"] = {{"langelier", finite(ix.langelier, "Langelier index")},
+                        {"ph_s", finite(ix.ph_s, "pHs")},
+                        {"ryznar", finite(ix.ryznar, "Ryznar index")},
+                        {"ccpp_mg_per_l_as_caco3", finite(ix.ccpp_mg_per_l, "CCPP")}};
+    } else {
+        j["indices"] = nullptr;
+    }
+    if (item.dose) {
+        j["dose"] = {{"reagent", item.dose->reagent},
+                     {"mol_per_kgw", finite(item.dose->mol_per_kgw, "dose")},
+                     {"mg_per_l", finite(item.dose->mg_per_l, "dose")},
+                     {"found_by_target", item.dose->found_by_target}};
+        if (item.dose->found_by_target) j["dose"]["target_reached"] = finite(item.dose->target_reached, "dose target");
+    }
     j["warnings"] = r.warnings;
     j["solver"] = {{"converged", r.summary.converged},
                    {"iterations", r.summary.iterations},
@@ -69,28 +104,53 @@ ordered_json result_json(const equilibrium::SpeciationResult& r) {
 
 }  // namespace
 
-std::string json_report(const thermo::Database& /*db*/, const ReportContext& ctx,
-                        const std::vector<equilibrium::SpeciationResult>& results) {
+std::string json_report(const thermo::Database& db, const ReportContext& ctx, const std::vector<ReportItem>& items,
+                        const std::vector<SweepReport>& sweeps) {
     ordered_json root;
     root["deltag_version"] = ctx.version;
     root["title"] = ctx.title;
     root["database"] = ctx.database;
     ordered_json arr = ordered_json::array();
-    for (const auto& r : results) arr.push_back(result_json(r));
+    for (const auto& item : items) arr.push_back(result_json(db, item));
     root["results"] = arr;
     root["cells"] = ordered_json::array();
+    ordered_json sw = ordered_json::array();
+    for (const auto& s : sweeps) {
+        ordered_json one;
+        one["label"] = s.sweep.label;
+        one["x_label"] = s.sweep.x_label;
+        ordered_json xs = ordered_json::array();
+        for (double x : s.sweep.x) xs.push_back(finite(x, "sweep x"));
+        one["x"] = xs;
+        ordered_json series = ordered_json::object();
+        for (const auto& [name, v] : s.sweep.series) {
+            ordered_json ys = ordered_json::array();
+            for (double y : v) ys.push_back(std::isfinite(y) ? ordered_json(y) : ordered_json(nullptr));
+            series[name] = ys;
+        }
+        one["series"] = series;
+        one["csv"] = s.csv_path;
+        one["svg"] = s.svg_path;
+        sw.push_back(one);
+    }
+    root["sweeps"] = sw;
     root["caution"] = std::string(caution_text());
     return root.dump(2) + "\n";
 }
 
-std::string csv_report(const thermo::Database& db, const ReportContext& /*ctx*/,
-                       const std::vector<equilibrium::SpeciationResult>& results) {
-    // Columns: the summary, then every element total and every SI that any result has.
+std::string json_report(const thermo::Database& db, const ReportContext& ctx,
+                        const std::vector<equilibrium::SpeciationResult>& results) {
+    return json_report(db, ctx, items_of(results));
+}
+
+std::string csv_report(const thermo::Database& db, const ReportContext& /*ctx*/, const std::vector<ReportItem>& items) {
+    // Columns: the summary, the indices, then every element total and every SI that any
+    // result has.
     std::vector<std::string> elements, phases;
-    for (const auto& r : results) {
-        for (const auto& [el, m] : r.element_totals)
+    for (const auto& item : items) {
+        for (const auto& [el, m] : item.result.element_totals)
             if (std::find(elements.begin(), elements.end(), el) == elements.end()) elements.push_back(el);
-        for (const auto& s : r.saturation)
+        for (const auto& s : item.result.saturation)
             if (!s.is_gas && std::find(phases.begin(), phases.end(), s.phase) == phases.end()) phases.push_back(s.phase);
     }
     auto quote = [](const std::string& s) {
@@ -99,16 +159,24 @@ std::string csv_report(const thermo::Database& db, const ReportContext& /*ctx*/,
         for (char c : s) q += c == '"' ? std::string("\"\"") : std::string(1, c);
         return q + "\"";
     };
-    std::string out = "label,temperature_c,pH,pe,ionic_strength,alkalinity_eq_per_kgw,charge_balance_error_percent";
+    std::string out =
+        "label,kind,temperature_c,pH,pe,ionic_strength,alkalinity_eq_per_kgw,charge_balance_error_percent,"
+        "langelier,ryznar,ccpp_mg_per_l_as_caco3";
     for (const auto& el : elements) out += ",total_" + el + "_mol_per_kgw";
     for (const auto& p : phases) out += "," + quote("si_" + p);
     out += "\n";
-    for (const auto& r : results) {
-        out += quote(r.label);
+    for (const auto& item : items) {
+        const auto& r = item.result;
+        out += quote(r.label) + "," + quote(item.kind);
         out += fmt::format(",{:.6g},{:.6g},{},{:.6g},{:.6g},{:.6g}", finite(r.temperature_c, "temperature"),
                            finite(r.ph, "pH"), r.pe ? fmt::format("{:.6g}", *r.pe) : std::string(),
                            finite(r.ionic_strength, "ionic strength"), finite(r.alkalinity_eq, "alkalinity"),
                            finite(r.charge_balance_error_percent, "charge balance"));
+        if (item.indices && item.indices->available)
+            out += fmt::format(",{:.6g},{:.6g},{:.6g}", finite(item.indices->langelier, "Langelier"),
+                               finite(item.indices->ryznar, "Ryznar"), finite(item.indices->ccpp_mg_per_l, "CCPP"));
+        else
+            out += ",,,";
         for (const auto& el : elements) {
             auto it = r.element_totals.find(el);
             out += it == r.element_totals.end() ? "," : fmt::format(",{:.6g}", finite(it->second, el));
@@ -122,5 +190,39 @@ std::string csv_report(const thermo::Database& db, const ReportContext& /*ctx*/,
     (void)db;
     return out;
 }
+
+std::string csv_report(const thermo::Database& db, const ReportContext& ctx,
+                       const std::vector<equilibrium::SpeciationResult>& results) {
+    return csv_report(db, ctx, items_of(results));
+}
+
+namespace {
+LinePlot plot_of(const process::SweepOutcome& sweep, const std::string& title) {
+    LinePlot p;
+    p.title = title;
+    p.x_label = sweep.x_label;
+    // Saturation indices and the Langelier index share an axis: both are log units, zero at
+    // calcite (or mineral) equilibrium.
+    bool all_si = !sweep.series.empty(), any_langelier = false;
+    for (const auto& [name, v] : sweep.series) {
+        const bool lsi = name == "Langelier index";
+        any_langelier = any_langelier || lsi;
+        all_si = all_si && (name.rfind("SI ", 0) == 0 || lsi);
+    }
+    p.y_label = !all_si ? "value (units in the legend)"
+                : any_langelier ? "saturation index, Langelier index (log units)"
+                                : "saturation index (log units)";
+    for (const auto& [name, v] : sweep.series) p.series.push_back(Series{name, sweep.x, v});
+    if (all_si) p.y_reference_lines.emplace_back(0.0, "saturation");
+    p.note = "deltag " + std::string("sweep '") + sweep.label + "'. Equilibrium calculation; decisions rest with licensed engineers.";
+    return p;
+}
+}  // namespace
+
+std::string sweep_svg(const process::SweepOutcome& sweep, const std::string& title) {
+    return line_plot_svg(plot_of(sweep, title));
+}
+
+std::string sweep_csv(const process::SweepOutcome& sweep) { return series_csv(plot_of(sweep, sweep.label)); }
 
 }  // namespace deltag::io

@@ -141,18 +141,68 @@ std::string saturation_block(const equilibrium::SpeciationResult& r) {
     return out;
 }
 
+std::string indices_block(const process::Indices& ix) {
+    if (!ix.available) return "  " + pad("water-treatment indices", 22) + "not available: " + ix.why_not + "\n";
+    std::string out;
+    out += "  " + pad("Langelier index", 22) +
+           fmt::format("{:+.2f} (pHs {:.2f}; Standard Methods 2330, pHs from the speciation)\n", ix.langelier, ix.ph_s);
+    out += "  " + pad("Ryznar index", 22) + fmt::format("{:.2f}\n", ix.ryznar);
+    out += "  " + pad("CCPP", 22) +
+           fmt::format("{:+.2f} mg/L as CaCO3 ({})\n", ix.ccpp_mg_per_l,
+                       ix.ccpp_mg_per_l > 0 ? "would precipitate" : ix.ccpp_mg_per_l < 0 ? "would dissolve" : "at equilibrium");
+    return out;
+}
+
+std::string transfers_block(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
+    if (r.transfers.empty()) return "";
+    std::string out = "Transfers (positive: into the water)\n";
+    out += "  " + pad("phase", 20) + fmt::format("{:>14}{:>12}  {}\n", "mmol/kgw", "mg/L", "state");
+    for (const auto& t : r.transfers) {
+        double molar_mass = 0.0;
+        if (t.is_gas) {
+            if (auto g = db.find_gas(t.phase)) molar_mass = db.gases()[*g].formula.molar_mass();
+        } else if (auto m = db.find_mineral(t.phase)) {
+            molar_mass = db.minerals()[*m].formula.molar_mass();
+        }
+        const double mg_per_l = t.moles * molar_mass * 1000.0 * r.kg_water_per_litre;
+        const char* state = t.exhausted ? "exhausted" : t.blocked ? "held back by its allowed direction"
+                                                                  : t.at_target ? "at its target" : "";
+        out += "  " + pad(t.is_gas ? chem::pretty(t.phase) : t.phase, 20) +
+               fmt::format("{:>+14.4f}{:>+12.2f}  {}\n", t.moles * 1000.0, mg_per_l, state);
+    }
+    return out;
+}
+
 }  // namespace
 
-std::string text_report(const thermo::Database& db, const ReportContext& ctx,
-                        const std::vector<equilibrium::SpeciationResult>& results) {
+std::vector<ReportItem> items_of(const std::vector<equilibrium::SpeciationResult>& results) {
+    std::vector<ReportItem> items;
+    for (const auto& r : results) items.push_back(ReportItem{"water", r, std::nullopt, std::nullopt});
+    return items;
+}
+
+std::string text_report(const thermo::Database& db, const ReportContext& ctx, const std::vector<ReportItem>& items,
+                        const std::vector<SweepReport>& sweeps) {
     std::string out;
     out += fmt::format("deltag {}: {}\n", ctx.version, ctx.title.empty() ? ctx.case_path : ctx.title);
     out += fmt::format("case {}; database {}\n", ctx.case_path, ctx.database);
-    for (const auto& r : results) {
+    for (const auto& item : items) {
+        const auto& r = item.result;
         out += "\n" + rule('=');
-        out += fmt::format("Water '{}'\n", r.label);
+        if (item.kind == "water") out += fmt::format("Water '{}'\n", r.label);
+        else out += fmt::format("Step '{}' ({})\n", r.label, item.kind);
         out += rule('=');
-        out += summary_block(db, r) + "\n";
+        out += summary_block(db, r);
+        if (item.indices) out += indices_block(*item.indices);
+        if (item.dose) {
+            const auto& d = *item.dose;
+            out += "  " + pad("dose", 22) +
+                   fmt::format("{} {:.4g} mmol/kgw = {:.4g} mg/L{}\n", d.reagent, d.mol_per_kgw * 1000.0, d.mg_per_l,
+                               d.found_by_target ? fmt::format(" (found for the target; reached {:.6g})", d.target_reached) : "");
+        }
+        out += "\n";
+        const std::string transfers = transfers_block(db, r);
+        if (!transfers.empty()) out += transfers + "\n";
         out += totals_block(r) + "\n";
         out += species_block(db, r) + "\n";
         out += saturation_block(r);
@@ -162,8 +212,29 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx,
             for (const auto& w : r.warnings) out += "  - " + w + "\n";
         }
     }
+    for (const auto& sw : sweeps) {
+        out += "\n" + rule('=');
+        out += fmt::format("Sweep '{}': {} points of {}\n", sw.sweep.label, sw.sweep.x.size(), sw.sweep.x_label);
+        out += rule('=');
+        out += "  " + pad(sw.sweep.x_label, 30);
+        for (const auto& [name, v] : sw.sweep.series) out += fmt::format("{:>16}", name.substr(0, 15));
+        out += "\n";
+        for (std::size_t i = 0; i < sw.sweep.x.size(); ++i) {
+            out += "  " + pad(fmt::format("{:.4g}", sw.sweep.x[i]), 30);
+            for (const auto& [name, v] : sw.sweep.series)
+                out += std::isfinite(v[i]) ? fmt::format("{:>16.4f}", v[i]) : fmt::format("{:>16}", "n/a");
+            out += "\n";
+        }
+        if (!sw.csv_path.empty()) out += "  table written to " + sw.csv_path + "\n";
+        if (!sw.svg_path.empty()) out += "  plot written to " + sw.svg_path + "\n";
+    }
     out += "\n" + std::string(caution_text()) + "\n";
     return out;
+}
+
+std::string text_report(const thermo::Database& db, const ReportContext& ctx,
+                        const std::vector<equilibrium::SpeciationResult>& results) {
+    return text_report(db, ctx, items_of(results));
 }
 
 }  // namespace deltag::io
