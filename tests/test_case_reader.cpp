@@ -1,7 +1,8 @@
 // Case-file reader: the core of the case-file format (interface contract, "Case file (TOML)
-// - the core"), process steps and sweeps, and every error the reader raises, each checked for
-// its key, its line and what was expected. Keys of steps and sweeps are written
-// step[N].KEY / sweep[N].KEY, N counted from 1 in file order (see src/io/case_reader.cpp).
+// - the core"), process steps and sweeps, electrode readings, cells and diagrams, and every
+// error the reader raises, each checked for its key, its line and what was expected. Keys of
+// steps, sweeps, cells and diagrams are written step[N].KEY / sweep[N].KEY / cell[N].KEY /
+// diagram[N].KEY, N counted from 1 in file order (see src/io/case_reader.cpp).
 // All waters in these tests are invented scenarios.
 #include <doctest/doctest.h>
 
@@ -280,14 +281,22 @@ TEST_CASE("errors: the file as a whole") {
     }
 }
 
-TEST_CASE("errors: keys of later versions are refused, not ignored") {
-    SUBCASE("cell") {
+TEST_CASE("errors: cell and diagram must be arrays of tables") {
+    SUBCASE("[cell] as a table") {
         check_error("[water.a]\n\n[cell]\ncathode = \"x\"\n", "cell", 3,
-                    "cells in a case file are not run by this version of deltag yet");
+                    "expected [[cell]] tables, one per cell, found a table ([cell]); write [[cell]]");
     }
-    SUBCASE("diagram") {
+    SUBCASE("diagram as a string") {
         check_error("diagram = \"Fe\"\n[water.a]\n", "diagram", 1,
-                    "diagrams are not run by this version of deltag yet");
+                    "expected [[diagram]] tables, one per diagram, found a string");
+    }
+    SUBCASE("an element of cell that is not a table") {
+        check_error("cell = [1]\n[water.a]\n", "cell[1]", 1, "expected a table describing a cell ([[cell]]), found an integer");
+    }
+    SUBCASE("an unknown top-level key lists cell and diagram") {
+        check_error("[water.a]\n[[diagrams]]\nelement = \"Fe\"\n", "diagrams", 2,
+                    "unknown key; expected one of: title, database, activity_model, water, step, sweep, cell, diagram",
+                    "diagram");
     }
 }
 
@@ -1332,5 +1341,613 @@ TEST_CASE("errors: sweeps") {
     SUBCASE("a misspelt required key is named as misspelt, not as missing") {
         check_error(sweep_with("step = \"cycles\"\nvarible = \"factor\"\nfrom = 1\nto = 2\n" + outputs),
                     "sweep[1].varible", sw + 1, "unknown key; expected one of: label, step, at, variable", "variable");
+    }
+}
+
+// --- redox level of a water: pe, electrode reading, dissolved oxygen -----------------------
+
+TEST_CASE("an electrode reading and dissolved oxygen read into the water") {
+    // Invented waters.
+    const auto c = parse_case(R"toml([water.loop]
+temperature_c = 45
+pH = 8.1
+eh_mv = 180
+reference = "Ag/AgCl(3 M KCl)"
+[water.makeup]
+pH = 7.2
+dissolved_oxygen_mg_per_l = 7.8
+[water.well]
+eh_mv = -120.5
+[water.pure]
+)toml", "test.toml");
+    REQUIRE(c.waters.size() == 4);
+    const auto& loop = c.waters[0];
+    REQUIRE(loop.eh_mv.has_value());
+    CHECK(*loop.eh_mv == 180.0);
+    CHECK(loop.eh_reference == "Ag/AgCl(3 M KCl)");
+    CHECK(loop.eh_where.file == "test.toml");
+    CHECK(loop.eh_where.line == 4);
+    CHECK(loop.eh_where.column == 1);
+    CHECK_FALSE(loop.pe.has_value());
+    CHECK_FALSE(loop.dissolved_oxygen_mg_per_l.has_value());
+    CHECK(loop.dissolved_oxygen_where.line == 1);  // absent: the water's table
+
+    const auto& makeup = c.waters[1];
+    REQUIRE(makeup.dissolved_oxygen_mg_per_l.has_value());
+    CHECK(*makeup.dissolved_oxygen_mg_per_l == 7.8);
+    CHECK(makeup.dissolved_oxygen_where.line == 8);
+    CHECK(makeup.dissolved_oxygen_where.column == 1);
+    CHECK_FALSE(makeup.eh_mv.has_value());
+    CHECK(makeup.eh_reference == "SHE");
+    CHECK(makeup.eh_where.line == 6);  // absent: the water's table
+
+    const auto& well = c.waters[2];
+    REQUIRE(well.eh_mv.has_value());
+    CHECK(*well.eh_mv == -120.5);
+    CHECK(well.eh_reference == "SHE");  // the default reference
+    CHECK(well.eh_where.line == 10);
+
+    const auto& pure = c.waters[3];
+    CHECK_FALSE(pure.pe.has_value());
+    CHECK_FALSE(pure.eh_mv.has_value());
+    CHECK_FALSE(pure.dissolved_oxygen_mg_per_l.has_value());
+}
+
+TEST_CASE("every reference electrode of the interface contract is accepted") {
+    // The names listed for `deltag potential` in the interface contract.
+    const char* names[] = {"SHE",          "SCE",           "Ag/AgCl(sat KCl)", "Ag/AgCl(3.5 M KCl)", "Ag/AgCl(3 M KCl)",
+                           "Ag/AgCl(1 M KCl)", "Ag/AgCl(seawater)", "Cu/CuSO4(sat)"};
+    for (const char* name : names) {
+        const auto c = parse_case(std::string("[water.a]\neh_mv = 0\nreference = \"") + name + "\"\n", "test.toml");
+        CHECK(c.waters[0].eh_reference == name);
+    }
+}
+
+TEST_CASE("the limits of eh_mv and dissolved_oxygen_mg_per_l are accepted") {
+    const auto c = parse_case(R"toml([water.a]
+eh_mv = -2000
+[water.b]
+eh_mv = 2000
+[water.c]
+dissolved_oxygen_mg_per_l = 0
+[water.d]
+dissolved_oxygen_mg_per_l = 60
+)toml", "test.toml");
+    CHECK(*c.waters[0].eh_mv == -2000.0);
+    CHECK(*c.waters[1].eh_mv == 2000.0);
+    CHECK(*c.waters[2].dissolved_oxygen_mg_per_l == 0.0);
+    CHECK(*c.waters[3].dissolved_oxygen_mg_per_l == 60.0);
+}
+
+TEST_CASE("errors: the redox level of a water") {
+    SUBCASE("pe and eh_mv: the second is named, with the first and its line") {
+        check_error("[water.a]\npH = 7\npe = 4\neh_mv = 200\n", "water.a.eh_mv", 4,
+                    "give one redox level, as pe, eh_mv or dissolved_oxygen_mg_per_l; found both pe (line 3) and eh_mv");
+    }
+    SUBCASE("dissolved oxygen written before eh_mv") {
+        check_error("[water.a]\ndissolved_oxygen_mg_per_l = 8\npH = 7\neh_mv = 200\n", "water.a.eh_mv", 4,
+                    "found both dissolved_oxygen_mg_per_l (line 2) and eh_mv");
+    }
+    SUBCASE("all three: the first two are named") {
+        check_error("[water.a]\neh_mv = 200\npe = 3\ndissolved_oxygen_mg_per_l = 8\n", "water.a.pe", 3,
+                    "found both eh_mv (line 2) and pe");
+    }
+    SUBCASE("reference without eh_mv") {
+        check_error("[water.a]\npH = 7\npe = 4\nreference = \"SCE\"\n", "water.a.reference", 4,
+                    "reference names the electrode an Eh reading was measured against, but [water.a] has no eh_mv; "
+                    "add eh_mv = ... (mV) or remove reference");
+    }
+    SUBCASE("an unknown reference electrode, nearest suggested") {
+        check_error("[water.a]\neh_mv = 180\nreference = \"Ag/AgCl(3M KCl)\"\n", "water.a.reference", 3,
+                    "unknown reference electrode 'Ag/AgCl(3M KCl)'; expected one of: SHE, SCE, Ag/AgCl(sat KCl), "
+                    "Ag/AgCl(3.5 M KCl), Ag/AgCl(3 M KCl), Ag/AgCl(1 M KCl), Ag/AgCl(seawater), Cu/CuSO4(sat)",
+                    "Ag/AgCl(3 M KCl)");
+    }
+    SUBCASE("a reference electrode in the wrong case is refused, the right spelling suggested") {
+        check_error("[water.a]\neh_mv = 180\nreference = \"sce\"\n", "water.a.reference", 3,
+                    "unknown reference electrode 'sce'", "SCE");
+    }
+    SUBCASE("reference of the wrong type") {
+        check_error("[water.a]\neh_mv = 180\nreference = 1\n", "water.a.reference", 3, "expected a string, found an integer");
+    }
+    SUBCASE("eh_mv out of range") {
+        check_error("[water.a]\neh_mv = 180000\n", "water.a.eh_mv", 2,
+                    "expected an electrode reading from -2000 to 2000 mV, found 180000");
+    }
+    SUBCASE("eh_mv as a string") {
+        check_error("[water.a]\neh_mv = \"180 mV\"\n", "water.a.eh_mv", 2, "expected a number, found a string");
+    }
+    SUBCASE("negative dissolved oxygen") {
+        check_error("[water.a]\npH = 7\ndissolved_oxygen_mg_per_l = -0.1\n", "water.a.dissolved_oxygen_mg_per_l", 3,
+                    "expected a dissolved oxygen concentration from 0 to 60 mg/L, found -0.1");
+    }
+    SUBCASE("dissolved oxygen above 60 mg/L") {
+        check_error("[water.a]\npH = 7\ndissolved_oxygen_mg_per_l = 78\n", "water.a.dissolved_oxygen_mg_per_l", 3,
+                    "expected a dissolved oxygen concentration from 0 to 60 mg/L, found 78");
+    }
+    SUBCASE("an unknown key lists the redox keys") {
+        check_error("[water.a]\neh_v = 0.18\n", "water.a.eh_v", 2,
+                    "unknown key; expected one of: temperature_c, pH, pe, eh_mv, reference, dissolved_oxygen_mg_per_l, "
+                    "charge_balance",
+                    "eh_mv");
+    }
+}
+
+// --- cells ---------------------------------------------------------------------------------
+
+namespace {
+
+// Two invented waters and a step, on lines 1-9; cell_with() puts [[cell]] on line 10, so the
+// first of its `lines` is line 11.
+const std::string cell_base = R"toml([water.loop]
+pH = 8.1
+[water.stagnant]
+pH = 7.0
+[[step]]
+label = "warm"
+kind = "temperature"
+water = "loop"
+temperature_c = 60
+)toml";
+std::string cell_with(const std::string& lines) { return cell_base + "[[cell]]\n" + lines; }
+constexpr int cl = 11;  // line of the first of cell_with's `lines`
+const std::string copper = "cathode = \"Cu^2+ + 2 e- = Cu(s)\"\n";
+const std::string iron = "anode = \"Fe^2+ + 2 e- = Fe(s)\"\n";
+
+}  // namespace
+
+TEST_CASE("cells read into CellSpec: half-reactions, waters, temperatures, merged activities") {
+    const auto c = parse_case(cell_base + R"toml(
+[[cell]]
+label = "copper tube / steel header"
+cathode = "Cu^2+ + 2 e- = Cu(s)"
+anode = { half_reaction = "Fe^2+ + 2 e- = Fe(s)", water = "stagnant", temperature_c = 40, activities = { "Fe^2+" = 1e-6 } }
+water = "loop"
+activities = { "Cu^2+" = 1e-6, "Fe^2+" = 1e-3 }
+
+[[cell]]
+cathode = "O2(g) + 4 H+ + 4 e- = 2 H2O"
+anode = "Zn^2+ + 2 e- = Zn(s)"
+
+[[cell]]
+temperature_c = 30
+water = "warm"
+cathode = { half_reaction = "O2(g) + 4 H+ + 4 e- = 2 H2O", water = "loop", temperature_c = 35, activities = { "O2(g)" = 0.21 } }
+anode = { half_reaction = "Zn^2+ + 2 e- = Zn(s)" }
+activities = { "H+" = 1e-7, "O2(g)" = 1.0, "Zn^2+" = 1e-5 }
+)toml", "test.toml");
+    REQUIRE(c.cells.size() == 3);
+
+    // Cell 1 (lines 11-16): the cell's water for the cathode, the anode's own water, T and
+    // activity; the cell-wide Fe^2+ loses to the anode's own and is not given to the cathode,
+    // in whose half-reaction it does not take part.
+    const auto& a = c.cells[0];
+    CHECK(a.label == "copper tube / steel header");
+    CHECK(a.where.line == 11);
+    CHECK(a.cathode.half_reaction == "Cu^2+ + 2 e- = Cu(s)");
+    CHECK(a.cathode.half_reaction_where.line == 13);
+    CHECK(a.cathode.half_reaction_where.column == 1);
+    CHECK(a.cathode.water == "loop");
+    CHECK(a.cathode.water_where.line == 15);
+    CHECK_FALSE(a.cathode.temperature_c.has_value());
+    REQUIRE(a.cathode.activities.size() == 1);
+    CHECK(a.cathode.activities[0] == std::pair<std::string, double>{"Cu^2+", 1e-6});
+    REQUIRE(a.cathode.activity_where.size() == 1);
+    CHECK(a.cathode.activity_where[0].line == 16);
+    CHECK(a.cathode.activity_where[0].column == 16);
+    CHECK(a.anode.half_reaction == "Fe^2+ + 2 e- = Fe(s)");
+    CHECK(a.anode.half_reaction_where.line == 14);
+    CHECK(a.anode.half_reaction_where.column == 11);
+    CHECK(a.anode.water == "stagnant");
+    CHECK(a.anode.water_where.line == 14);
+    REQUIRE(a.anode.temperature_c.has_value());
+    CHECK(*a.anode.temperature_c == 40.0);
+    REQUIRE(a.anode.activities.size() == 1);
+    CHECK(a.anode.activities[0] == std::pair<std::string, double>{"Fe^2+", 1e-6});
+    CHECK(a.anode.activity_where[0].line == 14);
+
+    // Cell 2 (lines 18-20): the default label, no water (its location is the electrode's key),
+    // no temperature, no activities.
+    const auto& b = c.cells[1];
+    CHECK(b.label == "cell 2");
+    CHECK(b.where.line == 18);
+    CHECK(b.cathode.half_reaction == "O2(g) + 4 H+ + 4 e- = 2 H2O");
+    CHECK(b.cathode.water.empty());
+    CHECK(b.cathode.water_where.line == 19);
+    CHECK(b.anode.water.empty());
+    CHECK(b.anode.water_where.line == 20);
+    CHECK_FALSE(b.cathode.temperature_c.has_value());
+    CHECK_FALSE(b.anode.temperature_c.has_value());
+    CHECK(b.cathode.activities.empty());
+    CHECK(b.anode.activities.empty());
+
+    // Cell 3 (lines 22-27): the cell's water (a step's label) and temperature where the
+    // electrode gives none; the cathode's own O2(g) first, then the cell's H+.
+    const auto& k = c.cells[2];
+    CHECK(k.label == "cell 3");
+    CHECK(k.cathode.water == "loop");
+    CHECK(k.cathode.water_where.line == 25);
+    CHECK(*k.cathode.temperature_c == 35.0);
+    CHECK(k.anode.water == "warm");
+    CHECK(k.anode.water_where.line == 24);
+    CHECK(*k.anode.temperature_c == 30.0);
+    CHECK(k.anode.half_reaction_where.line == 26);
+    REQUIRE(k.cathode.activities.size() == 2);
+    CHECK(k.cathode.activities[0] == std::pair<std::string, double>{"O2(g)", 0.21});
+    CHECK(k.cathode.activities[1] == std::pair<std::string, double>{"H+", 1e-7});
+    REQUIRE(k.cathode.activity_where.size() == 2);
+    CHECK(k.cathode.activity_where[0].line == 25);
+    CHECK(k.cathode.activity_where[1].line == 27);
+    REQUIRE(k.anode.activities.size() == 1);
+    CHECK(k.anode.activities[0] == std::pair<std::string, double>{"Zn^2+", 1e-5});
+    CHECK(k.anode.activity_where[0].line == 27);
+}
+
+TEST_CASE("cells as inline tables; no cells at all") {
+    const auto c = parse_case("cell = [{ cathode = \"Ag+ + e- = Ag(s)\", anode = \"Cu^2+ + 2 e- = Cu(s)\" }]\n[water.a]\n",
+                              "test.toml");
+    REQUIRE(c.cells.size() == 1);
+    CHECK(c.cells[0].label == "cell 1");
+    CHECK(c.cells[0].cathode.half_reaction == "Ag+ + e- = Ag(s)");
+    CHECK(parse_case("[water.a]\n", "test.toml").cells.empty());
+}
+
+TEST_CASE("errors: cells") {
+    SUBCASE("the base case reads") {
+        CHECK(parse_case(cell_with(copper + iron), "test.toml").cells.size() == 1);
+    }
+    SUBCASE("an unknown key, nearest suggested") {
+        check_error(cell_with(iron + "cathod = \"Cu^2+ + 2 e- = Cu(s)\"\n"), "cell[1].cathod", cl + 1,
+                    "unknown key; expected one of: label, cathode, anode, water, temperature_c, activities", "cathode");
+    }
+    SUBCASE("no cathode") {
+        check_error(cell_with(iron), "cell[1].cathode", cl - 1,
+                    "missing: expected the cathode, a half-reaction such as \"Cu^2+ + 2 e- = Cu(s)\" or a table { "
+                    "half_reaction = \"...\", water = \"...\", temperature_c = ..., activities = { ... } }");
+    }
+    SUBCASE("no anode") {
+        check_error(cell_with(copper), "cell[1].anode", cl - 1, "missing: expected the anode, a half-reaction such as");
+    }
+    SUBCASE("an electrode of the wrong type") {
+        check_error(cell_with(copper + "anode = 2\n"), "cell[1].anode", cl + 1,
+                    "expected a half-reaction (a string such as \"Cu^2+ + 2 e- = Cu(s)\") or a table { half_reaction = "
+                    "\"...\", ... }, found an integer");
+    }
+    SUBCASE("an unknown key of an electrode table, nearest suggested") {
+        check_error(cell_with(copper + "anode = { halfreaction = \"Fe^2+ + 2 e- = Fe(s)\" }\n"), "cell[1].anode.halfreaction",
+                    cl + 1, "unknown key; expected one of: half_reaction, water, temperature_c, activities",
+                    "half_reaction");
+    }
+    SUBCASE("an electrode table without half_reaction") {
+        check_error(cell_with(copper + "anode = { water = \"loop\" }\n"), "cell[1].anode.half_reaction", cl + 1,
+                    "missing: expected the half-reaction, a string such as \"Cu^2+ + 2 e- = Cu(s)\"");
+    }
+    SUBCASE("half_reaction of the wrong type") {
+        check_error(cell_with(copper + "anode = { half_reaction = 1 }\n"), "cell[1].anode.half_reaction", cl + 1,
+                    "expected a string, found an integer");
+    }
+    SUBCASE("an empty half-reaction") {
+        check_error(cell_with("cathode = \" \"\n" + iron), "cell[1].cathode", cl,
+                    "expected a half-reaction such as \"Cu^2+ + 2 e- = Cu(s)\", found an empty string");
+    }
+    SUBCASE("a half-reaction without '='") {
+        check_error(cell_with(copper + "anode = { half_reaction = \"Fe(s)\" }\n"), "cell[1].anode.half_reaction", cl + 1,
+                    "expected a half-reaction with '=' between its two sides, such as \"Cu^2+ + 2 e- = Cu(s)\"; found "
+                    "\"Fe(s)\"");
+    }
+    SUBCASE("a malformed half-reaction: the character is counted in the text as written") {
+        check_error(cell_with("cathode = \"  Cu^2+ + 2 e- = Cu(s) = Cu\"\n" + iron), "cell[1].cathode", cl,
+                    "cannot read the half-reaction \"  Cu^2+ + 2 e- = Cu(s) = Cu\": more than one '=' (at character 24)");
+    }
+    SUBCASE("a half-reaction with an unknown element") {
+        check_error(cell_with(copper + "\nanode = \"Xq^2+ + 2 e- = Xq(s)\"\n"), "cell[1].anode", cl + 2,
+                    "cannot read the half-reaction \"Xq^2+ + 2 e- = Xq(s)\": species 'Xq^2+': unknown element 'Xq' "
+                    "(at character 1)");
+    }
+    SUBCASE("an empty label") {
+        check_error(cell_with("label = \"\"\n" + copper + iron), "cell[1].label", cl,
+                    "expected a label for the cell, found an empty string");
+    }
+    SUBCASE("a label used twice") {
+        check_error(cell_with("label = \"a\"\n" + copper + iron) + "[[cell]]\nlabel = \"a\"\n" + copper + iron,
+                    "cell[2].label", cl + 4, "the label 'a' is already the label of cell 1 (line 10); give each cell "
+                                            "its own label");
+    }
+    SUBCASE("a default label taken by an earlier cell") {
+        check_error(cell_with("label = \"cell 2\"\n" + copper + iron) + "[[cell]]\n" + copper + iron, "cell[2].label",
+                    cl + 3, "the default label 'cell 2' is already the label of cell 1 (line 10)");
+    }
+    SUBCASE("the cell's water: no such water or step, nearest suggested") {
+        check_error(cell_with(copper + iron + "water = \"lop\"\n"), "cell[1].water", cl + 2,
+                    "no water or step is called 'lop'; expected one of: loop, stagnant, warm", "loop");
+    }
+    SUBCASE("an electrode's water: no such water or step, nearest suggested") {
+        check_error(cell_with(copper + "anode = { half_reaction = \"Fe^2+ + 2 e- = Fe(s)\", water = \"wram\" }\n"),
+                    "cell[1].anode.water", cl + 1, "no water or step is called 'wram'; expected one of: loop, stagnant, warm",
+                    "warm");
+    }
+    SUBCASE("water of the wrong type") {
+        check_error(cell_with(copper + iron + "water = [\"loop\"]\n"), "cell[1].water", cl + 2,
+                    "expected a string, found an array");
+    }
+    SUBCASE("the cell's temperature out of range") {
+        check_error(cell_with(copper + iron + "temperature_c = 150\n"), "cell[1].temperature_c", cl + 2,
+                    "expected a temperature from 0 to 100 °C (the range of the water-property correlations), found 150");
+    }
+    SUBCASE("an electrode's temperature out of range") {
+        check_error(cell_with(copper + "anode = { half_reaction = \"Fe^2+ + 2 e- = Fe(s)\", temperature_c = -1 }\n"),
+                    "cell[1].anode.temperature_c", cl + 1, "expected a temperature from 0 to 100 °C");
+    }
+    SUBCASE("activities not a table") {
+        check_error(cell_with(copper + iron + "activities = [1e-6]\n"), "cell[1].activities", cl + 2,
+                    "expected a table, found an array");
+    }
+    SUBCASE("an activity that is not a number") {
+        check_error(cell_with(copper + iron + "activities = { \"Cu^2+\" = \"low\" }\n"), "cell[1].activities.\"Cu^2+\"",
+                    cl + 2, "expected the activity of the species (a number; for a gas its fugacity in atm), found a string");
+    }
+    SUBCASE("an activity of zero") {
+        check_error(cell_with(copper + iron + "activities = { \"Cu^2+\" = 0 }\n"), "cell[1].activities.\"Cu^2+\"", cl + 2,
+                    "expected an activity above zero, found 0");
+    }
+    SUBCASE("a negative activity of an electrode") {
+        check_error(cell_with(copper + "anode = { half_reaction = \"Fe^2+ + 2 e- = Fe(s)\", activities = { \"Fe^2+\" = -1e-6 } }\n"),
+                    "cell[1].anode.activities.\"Fe^2+\"", cl + 1, "expected an activity above zero, found -1e-06");
+    }
+    SUBCASE("an activity that is not finite") {
+        check_error(cell_with(copper + iron + "activities = { \"Cu^2+\" = inf }\n"), "cell[1].activities.\"Cu^2+\"",
+                    cl + 2, "expected a finite number");
+    }
+    SUBCASE("an empty species name") {
+        check_error(cell_with(copper + iron + "activities = { \"\" = 1 }\n"), "cell[1].activities.\"\"", cl + 2,
+                    "expected a species name as the key, such as \"Cu^2+\", found an empty one");
+    }
+    SUBCASE("an electrode's activity of a species not in its half-reaction, nearest suggested") {
+        check_error(cell_with(copper + "anode = { half_reaction = \"Fe^2+ + 2 e- = Fe(s)\", activities = { \"Fe2+\" = 1e-6 } }\n"),
+                    "cell[1].anode.activities.\"Fe2+\"", cl + 1,
+                    "'Fe2+' does not take part in the anode's half-reaction \"Fe^2+ + 2 e- = Fe(s)\" (Fe^2+, Fe(s))",
+                    "Fe^2+");
+    }
+    SUBCASE("a cell's activity of a species in neither half-reaction, nearest suggested") {
+        check_error(cell_with(copper + iron + "[cell.activities]\n\"Cu^2+\" = 1e-6\n\"Zn^2+\" = 1e-6\n"),
+                    "cell[1].activities.\"Zn^2+\"", cl + 4,
+                    "'Zn^2+' takes part in neither half-reaction of the cell (cathode: Cu^2+, Cu(s); anode: Fe^2+, Fe(s))",
+                    "Cu^2+");
+    }
+}
+
+// --- diagrams ------------------------------------------------------------------------------
+
+namespace {
+
+// The waters and step of cell_base on lines 1-9; diagram_with() puts [[diagram]] on line 10,
+// so the first of its `lines` is line 11.
+std::string diagram_with(const std::string& lines) { return cell_base + "[[diagram]]\n" + lines; }
+constexpr int dl = 11;  // line of the first of diagram_with's `lines`
+const std::string iron_element = "element = \"Fe\"\n";
+
+}  // namespace
+
+TEST_CASE("diagrams read into DiagramCase, with defaults and locations") {
+    const auto c = parse_case(cell_base + R"toml(
+[[diagram]]
+label = "iron in the loop"
+element = "Fe"
+temperature_c = 45
+log_activity = -6
+water = "loop"
+points = ["loop", "warm"]
+ph_range = [2, 12]
+eh_range_v = [-1.2, 1.2]
+shading = true
+svg = "fe-loop.svg"
+csv = "fe-loop.csv"
+
+[[diagram]]
+element = "Cu"
+
+[[diagram]]
+element = "Mn"
+activity = 1e-4
+shading = false
+points = [
+  "stagnant",
+]
+)toml", "test.toml");
+    REQUIRE(c.diagrams.size() == 3);
+
+    const auto& a = c.diagrams[0];  // lines 11-22
+    CHECK(a.label == "iron in the loop");
+    CHECK(a.where.line == 11);
+    CHECK(a.element == "Fe");
+    CHECK(a.element_where.line == 13);
+    CHECK(a.element_where.column == 1);
+    REQUIRE(a.temperature_c.has_value());
+    CHECK(*a.temperature_c == 45.0);
+    CHECK(a.log_activity == -6.0);
+    CHECK(a.water == "loop");
+    CHECK(a.water_where.line == 16);
+    REQUIRE(a.points.size() == 2);
+    CHECK(a.points[0] == "loop");
+    CHECK(a.points[1] == "warm");  // a step's label
+    REQUIRE(a.point_where.size() == 2);
+    CHECK(a.point_where[0].line == 17);
+    CHECK(a.point_where[0].column == 11);
+    CHECK(a.point_where[1].column == 19);
+    CHECK(a.ph_min == 2.0);
+    CHECK(a.ph_max == 12.0);
+    CHECK(a.eh_min_v == -1.2);
+    CHECK(a.eh_max_v == 1.2);
+    CHECK(a.shading);
+    CHECK(a.svg_path == "fe-loop.svg");
+    CHECK(a.csv_path == "fe-loop.csv");
+
+    const auto& b = c.diagrams[1];  // lines 24-25: every default
+    CHECK(b.label == "diagram 2");
+    CHECK(b.where.line == 24);
+    CHECK(b.element == "Cu");
+    CHECK(b.element_where.line == 25);
+    CHECK_FALSE(b.temperature_c.has_value());
+    CHECK(b.log_activity == -6.0);
+    CHECK(b.water.empty());
+    CHECK(b.water_where.line == 24);  // absent: the diagram's table
+    CHECK(b.points.empty());
+    CHECK(b.ph_min == 0.0);
+    CHECK(b.ph_max == 14.0);
+    CHECK(b.eh_min_v == -1.5);
+    CHECK(b.eh_max_v == 1.5);
+    CHECK(b.shading);
+    CHECK(b.svg_path.empty());
+    CHECK(b.csv_path.empty());
+
+    const auto& k = c.diagrams[2];  // lines 27-33
+    CHECK(k.label == "diagram 3");
+    CHECK(k.log_activity == doctest::Approx(-4.0));  // log10(1e-4)
+    CHECK_FALSE(k.shading);
+    REQUIRE(k.points.size() == 1);
+    CHECK(k.point_where[0].line == 32);  // the entry's own line
+}
+
+TEST_CASE("the limits of a diagram's ranges are accepted") {
+    const auto c = parse_case(diagram_with(iron_element + "ph_range = [0, 14]\neh_range_v = [-3, 3]\nlog_activity = -12\n") +
+                                  "[[diagram]]\nelement = \"Zn\"\nlog_activity = 0\ntemperature_c = 100\n" +
+                                  "[[diagram]]\nelement = \"Cr\"\nactivity = 1e-12\n[[diagram]]\nelement = \"Ni\"\nactivity = 1\n",
+                              "test.toml");
+    REQUIRE(c.diagrams.size() == 4);
+    CHECK(c.diagrams[0].ph_min == 0.0);
+    CHECK(c.diagrams[0].ph_max == 14.0);
+    CHECK(c.diagrams[0].eh_min_v == -3.0);
+    CHECK(c.diagrams[0].eh_max_v == 3.0);
+    CHECK(c.diagrams[0].log_activity == -12.0);
+    CHECK(c.diagrams[1].log_activity == 0.0);
+    CHECK(*c.diagrams[1].temperature_c == 100.0);
+    CHECK(c.diagrams[2].log_activity == doctest::Approx(-12.0));
+    CHECK(c.diagrams[3].log_activity == 0.0);
+}
+
+TEST_CASE("errors: diagrams") {
+    SUBCASE("the base case reads") {
+        CHECK(parse_case(diagram_with(iron_element), "test.toml").diagrams.size() == 1);
+    }
+    SUBCASE("an unknown key, nearest suggested") {
+        check_error(diagram_with(iron_element + "ph_rang = [2, 12]\n"), "diagram[1].ph_rang", dl + 1,
+                    "unknown key; expected one of: label, element, temperature_c, log_activity, activity, water, "
+                    "points, ph_range, eh_range_v, shading, svg, csv",
+                    "ph_range");
+    }
+    SUBCASE("no element") {
+        check_error(diagram_with("label = \"x\"\n"), "diagram[1].element", dl - 1,
+                    "missing: expected the element of the diagram, a symbol such as \"Fe\"");
+    }
+    SUBCASE("an empty element") {
+        check_error(diagram_with("element = \"\"\n"), "diagram[1].element", dl,
+                    "expected an element symbol such as \"Fe\", found an empty string");
+    }
+    SUBCASE("an unknown element, nearest symbol suggested") {
+        check_error(diagram_with("element = \"FE\"\n"), "diagram[1].element", dl,
+                    "unknown element 'FE'; expected an element symbol such as Fe, Cu or Mn", "Fe");
+    }
+    SUBCASE("an element's name instead of its symbol: no symbol suggested") {
+        check_error(diagram_with("element = \"Iron\"\n"), "diagram[1].element", dl, "unknown element 'Iron'");
+    }
+    SUBCASE("element of the wrong type") {
+        check_error(diagram_with("element = 26\n"), "diagram[1].element", dl, "expected a string, found an integer");
+    }
+    SUBCASE("an empty label") {
+        check_error(diagram_with("label = \"\"\n" + iron_element), "diagram[1].label", dl,
+                    "expected a label for the diagram, found an empty string");
+    }
+    SUBCASE("a label used twice") {
+        check_error(diagram_with("label = \"a\"\n" + iron_element) + "[[diagram]]\nlabel = \"a\"\n" + iron_element,
+                    "diagram[2].label", dl + 3,
+                    "the label 'a' is already the label of diagram 1 (line 10); give each diagram its own label");
+    }
+    SUBCASE("a default label taken by an earlier diagram") {
+        check_error(diagram_with("label = \"diagram 2\"\n" + iron_element) + "[[diagram]]\n" + iron_element,
+                    "diagram[2].label", dl + 2, "the default label 'diagram 2' is already the label of diagram 1 (line 10)");
+    }
+    SUBCASE("a temperature out of range") {
+        check_error(diagram_with(iron_element + "temperature_c = 101\n"), "diagram[1].temperature_c", dl + 1,
+                    "expected a temperature from 0 to 100 °C (the range of the water-property correlations), found 101");
+    }
+    SUBCASE("log_activity below -12") {
+        check_error(diagram_with(iron_element + "log_activity = -13\n"), "diagram[1].log_activity", dl + 1,
+                    "expected a log10 activity of the dissolved species from -12 to 0, found -13");
+    }
+    SUBCASE("log_activity above 0") {
+        check_error(diagram_with(iron_element + "log_activity = 0.5\n"), "diagram[1].log_activity", dl + 1,
+                    "expected a log10 activity of the dissolved species from -12 to 0, found 0.5");
+    }
+    SUBCASE("an activity of zero") {
+        check_error(diagram_with(iron_element + "activity = 0\n"), "diagram[1].activity", dl + 1,
+                    "expected an activity of the dissolved species from 1e-12 to 1 (log_activity from -12 to 0), found 0");
+    }
+    SUBCASE("an activity above 1") {
+        check_error(diagram_with(iron_element + "activity = 2\n"), "diagram[1].activity", dl + 1,
+                    "expected an activity of the dissolved species from 1e-12 to 1 (log_activity from -12 to 0), found 2");
+    }
+    SUBCASE("an activity below 1e-12") {
+        check_error(diagram_with(iron_element + "activity = 1e-13\n"), "diagram[1].activity", dl + 1,
+                    "from 1e-12 to 1 (log_activity from -12 to 0), found 1e-13");
+    }
+    SUBCASE("both log_activity and activity") {
+        check_error(diagram_with(iron_element + "activity = 1e-6\nlog_activity = -6\n"), "diagram[1].log_activity", dl + 2,
+                    "give the activity of the dissolved species once, as log_activity or activity; found both activity "
+                    "(line 12) and log_activity");
+    }
+    SUBCASE("water: no such water or step, nearest suggested") {
+        check_error(diagram_with(iron_element + "water = \"stagnat\"\n"), "diagram[1].water", dl + 1,
+                    "no water or step is called 'stagnat'; expected one of: loop, stagnant, warm", "stagnant");
+    }
+    SUBCASE("points not an array") {
+        check_error(diagram_with(iron_element + "points = \"loop\"\n"), "diagram[1].points", dl + 1,
+                    "expected an array, found a string");
+    }
+    SUBCASE("a point that is not a string, at its own line") {
+        check_error(diagram_with(iron_element + "points = [\n  \"loop\",\n  3,\n]\n"), "diagram[1].points", dl + 3,
+                    "expected names of waters or step labels (strings), found an integer in the list");
+    }
+    SUBCASE("a point that names no water or step, nearest suggested") {
+        check_error(diagram_with(iron_element + "points = [\"loop\", \"warmm\"]\n"), "diagram[1].points", dl + 1,
+                    "no water or step is called 'warmm'; expected one of: loop, stagnant, warm", "warm");
+    }
+    SUBCASE("a point listed twice") {
+        check_error(diagram_with(iron_element + "points = [\"loop\", \"warm\", \"loop\"]\n"), "diagram[1].points", dl + 1,
+                    "the point 'loop' is listed twice");
+    }
+    SUBCASE("ph_range with three numbers") {
+        check_error(diagram_with(iron_element + "ph_range = [2, 7, 12]\n"), "diagram[1].ph_range", dl + 1,
+                    "expected an array of 2 numbers, found 3 elements");
+    }
+    SUBCASE("ph_range with a string in it") {
+        check_error(diagram_with(iron_element + "ph_range = [2, \"12\"]\n"), "diagram[1].ph_range", dl + 1,
+                    "expected an array of 2 numbers, found a string in it");
+    }
+    SUBCASE("ph_range outside 0 to 14") {
+        check_error(diagram_with(iron_element + "ph_range = [-1, 12]\n"), "diagram[1].ph_range", dl + 1,
+                    "expected a pH range [min, max] within 0 to 14, found [-1, 12]");
+    }
+    SUBCASE("ph_range with min above max") {
+        check_error(diagram_with(iron_element + "ph_range = [12, 2]\n"), "diagram[1].ph_range", dl + 1,
+                    "expected a pH range [min, max] with min below max, found [12, 2]");
+    }
+    SUBCASE("eh_range_v outside -3 to 3") {
+        check_error(diagram_with(iron_element + "eh_range_v = [-1.2, 3.5]\n"), "diagram[1].eh_range_v", dl + 1,
+                    "expected an Eh range in V [min, max] within -3 to 3, found [-1.2, 3.5]");
+    }
+    SUBCASE("eh_range_v with min equal to max") {
+        check_error(diagram_with(iron_element + "eh_range_v = [0.5, 0.5]\n"), "diagram[1].eh_range_v", dl + 1,
+                    "expected an Eh range in V [min, max] with min below max, found [0.5, 0.5]");
+    }
+    SUBCASE("shading not a boolean") {
+        check_error(diagram_with(iron_element + "shading = \"yes\"\n"), "diagram[1].shading", dl + 1,
+                    "expected true or false, found a string");
+    }
+    SUBCASE("an empty svg path") {
+        check_error(diagram_with(iron_element + "svg = \"\"\n"), "diagram[1].svg", dl + 1,
+                    "expected the path of the file to write, found an empty string");
+    }
+    SUBCASE("csv of the wrong type") {
+        check_error(diagram_with(iron_element + "csv = 1\n"), "diagram[1].csv", dl + 1, "expected a string, found an integer");
     }
 }

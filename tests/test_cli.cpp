@@ -254,3 +254,77 @@ TEST_CASE("a write that fails (device full) exits 2 and says so") {
     CHECK(r.code == 2);
     CHECK(has(r.err, "/dev/full"));
 }
+
+TEST_CASE("steps: an over-constrained equilibrate exits 2 and names the conflict") {
+    const fs::path p = write("overc.toml", good_case + R"toml(
+[[step]]
+kind = "equilibrate"
+minerals = { Calcite = 0.0, Aragonite = 0.0 }
+)toml");
+    const Run r = deltag("run '" + p.string() + "'");
+    CHECK(r.code == 2);
+    CHECK(r.out.empty());
+    CHECK(has(r.err, "over-constrained"));
+    CHECK(has(r.err, "Aragonite"));
+    CHECK(has(r.err, "Calcite"));
+    CHECK(has(r.err, p.string() + ":"));
+}
+
+TEST_CASE("steps: a dose target the reagent cannot reach exits 2") {
+    const fs::path p = write("unreach.toml", good_case + R"toml(
+[[step]]
+kind = "dose"
+reagent = "NaOH"
+until = { pH = 5.0 }
+)toml");
+    const Run r = deltag("run '" + p.string() + "'");
+    CHECK(r.code == 2);
+    CHECK(r.out.empty());
+    CHECK(has(r.err, "cannot bring it to 5"));
+}
+
+TEST_CASE("steps and a sweep: report blocks, JSON keys, sweep files") {
+    const fs::path p = write("sweep.toml", good_case + R"toml(
+[[step]]
+label = "concentrated"
+kind = "concentrate"
+factor = 3
+
+[[step]]
+label = "acid"
+kind = "dose"
+reagent = "H2SO4"
+until = { langelier = 0.0 }
+
+[[sweep]]
+label = "scan"
+step = "concentrated"
+variable = "factor"
+from = 1
+to = 4
+points = 4
+outputs = ["si:Calcite", "langelier"]
+csv = "scan-out.csv"
+svg = "scan-out.svg"
+)toml");
+    fs::remove(scratch() / "scan-out.csv");
+    fs::remove(scratch() / "scan-out.svg");
+    const Run t = deltag("run '" + p.string() + "'");
+    REQUIRE(t.code == 0);
+    CHECK(has(t.out, "Step 'concentrated' (concentrate)"));
+    CHECK(has(t.out, "Step 'acid' (dose)"));
+    CHECK(has(t.out, "Langelier index"));
+    CHECK(has(t.out, "licensed practice"));
+    CHECK(has(t.out, "Sweep 'scan'"));
+    CHECK(fs::exists(scratch() / "scan-out.csv"));
+    CHECK(fs::exists(scratch() / "scan-out.svg"));
+    CHECK(slurp(scratch() / "scan-out.svg").rfind("<svg", 0) == 0);
+    const Run j = deltag("run '" + p.string() + "' --format json");
+    REQUIRE(j.code == 0);
+    const auto doc = nlohmann::json::parse(j.out);
+    REQUIRE(doc["results"].size() == 3);
+    CHECK(doc["results"][1]["kind"] == "concentrate");
+    CHECK(doc["results"][2]["dose"]["reagent"] == "H2SO4");
+    CHECK(std::abs(doc["results"][2]["indices"]["langelier"].get<double>()) < 1e-6);
+    CHECK(doc["sweeps"][0]["x"].size() == 4);
+}

@@ -198,3 +198,53 @@ TEST_CASE("a water open to air reaches pH 5.6") {
     const SpeciationResult r = speciate(core(), in);
     CHECK(std::abs(r.ph - 5.6) < 0.05);
 }
+
+TEST_CASE("closed headspace: calcite in a sealed vessel with a little CO2") {
+    // Pure water and calcite under 1 L of gas per kg of water that starts at pCO2 =
+    // 10^-3.5 atm: the gas gives up CO2 to the water, so the final pCO2 is lower than in the
+    // open system and less calcite dissolves. Carbon is conserved between gas and water.
+    SpeciationInput in;
+    in.label = "sealed";
+    in.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt, MineralTarget::Direction::both}};
+    Headspace h;
+    h.volume_l_per_kgw = 1.0;
+    h.gases = {GasTarget{gas("CO2(g)"), -3.5}};
+    in.headspace = h;
+    const SpeciationResult r = speciate(core(), in);
+    const PhaseTransfer& co2 = transfer(r, "CO2(g)");
+    CHECK(co2.headspace);
+    // Ideal gas: n0 = p V / (R T) = 10^-3.5 x 1 / (0.0820574 x 298.15) mol.
+    const double n0 = std::pow(10.0, -3.5) / (0.0820574 * 298.15);
+    CHECK(co2.moles + co2.gas_moles_per_kgw == doctest::Approx(n0).epsilon(1e-6));
+    CHECK(co2.moles > 0);
+    // Carbon: dissolved = calcite dissolved + CO2 taken from the gas.
+    const double xi = transfer(r, "Calcite").moles;
+    CHECK(r.element_totals.at("C") == doctest::Approx(xi + co2.moles).epsilon(1e-9));
+    CHECK(r.element_totals.at("Ca") == doctest::Approx(xi).epsilon(1e-9));
+    // The gas and the water agree: the final log p equals the gas's SI in the water.
+    for (const auto& s : r.saturation)
+        if (s.phase == "CO2(g)") CHECK(std::pow(10.0, s.si) / (0.0820574 * 298.15) == doctest::Approx(co2.gas_moles_per_kgw).epsilon(1e-6));
+    CHECK(r.element_totals.at("Ca") < calcite_open(25.0).element_totals.at("Ca"));
+
+    SpeciationInput bad = in;
+    bad.headspace->volume_l_per_kgw = 0.0;
+    CHECK_THROWS_WITH_AS((void)speciate(core(), bad), doctest::Contains("headspace volume > 0"), InputError);
+    bad = in;
+    bad.gases = {GasTarget{gas("CO2(g)"), -3.5}};
+    CHECK_THROWS_WITH_AS((void)speciate(core(), bad), doctest::Contains("both held at a fixed pressure"), InputError);
+    bad = in;
+    bad.headspace->gases.clear();
+    CHECK_THROWS_WITH_AS((void)speciate(core(), bad), doctest::Contains("at least one gas"), InputError);
+    bad = in;
+    bad.headspace->temperature_c = 150.0;
+    CHECK_THROWS_WITH_AS((void)speciate(core(), bad), doctest::Contains("headspace temperature within 0-100"), InputError);
+    bad = in;
+    bad.headspace->gases.push_back(bad.headspace->gases.front());
+    CHECK_THROWS_WITH_AS((void)speciate(core(), bad), doctest::Contains("listed twice in the headspace"), InputError);
+    bad = in;
+    bad.headspace->gases.front().gas = 9999;
+    CHECK_THROWS_WITH_AS((void)speciate(core(), bad), doctest::Contains("gas index out of range"), InputError);
+    bad = in;
+    bad.headspace->gases.front().log_partial_pressure_atm = std::nan("");
+    CHECK_THROWS_WITH_AS((void)speciate(core(), bad), doctest::Contains("finite log10 partial pressure"), InputError);
+}

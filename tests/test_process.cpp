@@ -273,7 +273,8 @@ TEST_CASE("reagents split onto the components") {
     auto refused = [&](const char* formula, const char* fragment) {
         CHECK_THROWS_WITH_AS(split_reagent(core(), formula, at), doctest::Contains(fragment), InputError);
     };
-    refused("KMnO4", "no component of the database 'core' carries Mn");
+    refused("LiOH", "no component of the database 'core' carries Li");
+    refused("KMnO4", "redox state");  // Mn(VII) onto Mn^2+
     refused("Na2SO3", "redox state");
     refused("H2O2", "brings nothing but water");
     refused("Na+", "neutral substance");
@@ -484,4 +485,46 @@ outputs = ["si:Calcit", "total:Qq"]
     c2.sweeps.front().outputs = {"total:Qq"};
     CHECK_THROWS_WITH_AS(run_sweep(core(), waters, c2.steps, c2.sweeps.front()), doctest::Contains("not an element symbol"),
                          InputError);
+}
+
+TEST_CASE("equilibrate with a closed headspace, read from the case file") {
+    const Run r = run(water + R"toml(
+[[step]]
+water = "soft"
+label = "sealed tank"
+kind = "equilibrate"
+headspace = { volume_l_per_kgw = 0.25, gases = { "CO2(g)" = -2.0 } }
+)toml");
+    const WaterState& before = step(r, "sealed tank").state;
+    REQUIRE(before.result.transfers.size() == 1);
+    const auto& t = before.result.transfers[0];
+    CHECK(t.headspace);
+    // CO2-rich gas over a soft water: CO2 dissolves; carbon in water rises by what left the gas.
+    CHECK(t.moles > 0);
+    check_relative(total(before, "C"), total(r.waters[1], "C") + t.moles, 1e-9);
+    CHECK(before.result.ph < r.waters[1].result.ph);
+    CHECK_THROWS_WITH_AS(run(water + R"toml(
+[[step]]
+water = "soft"
+kind = "equilibrate"
+headspace = { gases = { "CO2(g)" = -2.0 } }
+)toml"), doctest::Contains("volume_l_per_kgw"), InputError);
+    CHECK_THROWS_WITH_AS(run(water + R"toml(
+[[step]]
+water = "soft"
+kind = "equilibrate"
+headspace = { volume_l_per_kgw = 1 }
+)toml"), doctest::Contains("gases"), InputError);
+    CHECK_THROWS_WITH_AS(run(water + R"toml(
+[[step]]
+water = "soft"
+kind = "equilibrate"
+headspace = { volume_l_per_kgw = 1, gases = { "CO2(g)" = "high" } }
+)toml"), doctest::Contains("starting log10 partial pressure"), InputError);
+    CHECK_THROWS_WITH_AS(run(water + R"toml(
+[[step]]
+water = "soft"
+kind = "equilibrate"
+headspace = { volume_l_per_kgw = 1, gases = { "CO2(g)" = -2 }, volume = 3 }
+)toml"), doctest::Contains("unknown key"), InputError);
 }

@@ -2,6 +2,7 @@
 // and sweeps to run on them.
 #pragma once
 
+#include <optional>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -12,6 +13,42 @@
 
 namespace deltag::io {
 
+// A [[cell]]: two half-reactions, each in a water (its speciated activities) or at given
+// activities, at the water's temperature (or a given one).
+struct CellElectrode {
+    std::string half_reaction;                     // "Cu^2+ + 2 e- = Cu(s)"
+    SourceLocation half_reaction_where;
+    std::string water;                             // a water or step label; "" for none
+    SourceLocation water_where;
+    std::vector<std::pair<std::string, double>> activities;  // overrides: species -> activity (gas: atm)
+    std::vector<SourceLocation> activity_where;
+    std::optional<double> temperature_c;           // default: the water's, else 25
+};
+
+struct CellSpec {
+    std::string label;                             // default "cell N"
+    CellElectrode cathode, anode;
+    SourceLocation where;
+};
+
+// A [[diagram]]: an Eh-pH diagram of one element.
+struct DiagramCase {
+    std::string label;                             // default "diagram N"
+    std::string element;                           // "Fe"
+    SourceLocation element_where;
+    std::optional<double> temperature_c;           // default: the water's, else 25
+    double log_activity = -6.0;                    // of the dissolved species
+    std::string water;                             // activity coefficients, T and ligands from this water
+    SourceLocation water_where;
+    std::vector<std::string> points;               // waters (or steps) drawn as points
+    std::vector<SourceLocation> point_where;
+    double ph_min = 0.0, ph_max = 14.0;
+    double eh_min_v = -1.5, eh_max_v = 1.5;
+    bool shading = true;                           // immunity / passivation / corrosion
+    std::string svg_path, csv_path;                // relative to the case file; "" = default names
+    SourceLocation where;
+};
+
 struct Case {
     std::string path;                 // the file read ("" when parsed from text)
     std::string title;
@@ -21,6 +58,8 @@ struct Case {
     std::vector<WaterAnalysis> waters;  // in file order
     std::vector<process::Step> steps;   // [[step]] in file order; every label filled in
     std::vector<process::Sweep> sweeps; // [[sweep]] in file order; every label filled in
+    std::vector<CellSpec> cells;        // [[cell]] in file order
+    std::vector<DiagramCase> diagrams;  // [[diagram]] in file order
 };
 
 // Reads and validates a case file. Throws InputError (file, line, column, key, what was

@@ -83,6 +83,20 @@ struct PhaseEntry : Entry {
     LogKFunction log_k_as_written;  // of the dissolution as the database writes it (for reports)
 };
 
+// A standard electrode potential: the reduction "ox + n e- = red" with E° at 25 degC.
+struct Electrode {
+    std::string name;                 // "Cu^2+/Cu"
+    std::string reaction_text;
+    chem::Reaction reaction;
+    double e0_v = 0.0;
+    double de0_dt_v_per_k = 0.0;
+    std::optional<TemperatureRange> range;
+    std::string source;
+    bool from_memory = false;
+    std::string note;
+    SourceLocation where;
+};
+
 struct Analyte {
     enum class Kind { total, alkalinity };
     std::string name;
@@ -126,6 +140,7 @@ public:
     const std::vector<PhaseEntry>& gases() const { return gases_; }
     const std::vector<Analyte>& analytes() const { return analytes_; }
     const std::vector<Source>& sources() const { return sources_; }
+    const std::vector<Electrode>& electrodes() const { return electrodes_; }
 
     std::optional<std::size_t> find_species(std::string_view name) const;
     std::optional<std::size_t> find_mineral(std::string_view name) const;
@@ -155,6 +170,7 @@ private:
     std::vector<PhaseEntry> gases_;
     std::vector<Analyte> analytes_;
     std::vector<Source> sources_;
+    std::vector<Electrode> electrodes_;
     std::size_t water_ = 0;
     std::size_t proton_ = 0;
     std::optional<std::size_t> electron_;

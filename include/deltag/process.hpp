@@ -32,9 +32,18 @@ struct GasSpec {
     SourceLocation where;
 };
 
+// A closed gas space over the water: volume per kg of water and the gases' starting pressures.
+struct HeadspaceSpec {
+    double volume_l_per_kgw = 0.0;
+    std::optional<double> temperature_c;
+    std::vector<GasSpec> gases;
+    SourceLocation where;
+};
+
 struct EquilibrateStep {
     std::vector<MineralSpec> minerals;
     std::vector<GasSpec> gases;
+    std::optional<HeadspaceSpec> headspace;
 };
 
 // An amount of reagent: value with a unit (mol, mmol, umol, mg or g per kgw or per L).

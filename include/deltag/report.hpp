@@ -6,6 +6,7 @@
 #include <vector>
 
 #include "deltag/database.hpp"
+#include "deltag/electro.hpp"
 #include "deltag/process.hpp"
 #include "deltag/speciation.hpp"
 
@@ -19,8 +20,9 @@ struct ReportContext {
     bool verbose = false;      // text: add the full solver summary
 };
 
-// The caution every report carries.
+// The caution every report carries, and the one for cells and diagrams.
 std::string_view caution_text();
+std::string_view electro_caution_text();
 
 // One block of a report: a water as analysed or the result of a step.
 struct ReportItem {
@@ -35,10 +37,23 @@ struct SweepReport {
     std::string csv_path, svg_path;              // where the CLI wrote them ("" if not written)
 };
 
+// A diagram the CLI wrote (for the report's list of files).
+struct DiagramReport {
+    std::string label;
+    std::string svg_path, csv_path;
+    std::vector<std::string> warnings;
+};
+
 std::string text_report(const thermo::Database& db, const ReportContext& ctx, const std::vector<ReportItem>& items,
-                        const std::vector<SweepReport>& sweeps = {});
+                        const std::vector<SweepReport>& sweeps = {}, const std::vector<electro::CellResult>& cells = {},
+                        const std::vector<DiagramReport>& diagrams = {});
 std::string json_report(const thermo::Database& db, const ReportContext& ctx, const std::vector<ReportItem>& items,
-                        const std::vector<SweepReport>& sweeps = {});
+                        const std::vector<SweepReport>& sweeps = {}, const std::vector<electro::CellResult>& cells = {},
+                        const std::vector<DiagramReport>& diagrams = {});
+
+// `deltag cell`: one cell as text, or as {"cells": [ ... ]}.
+std::string cell_text(const electro::CellResult& c);
+std::string cells_json(const std::vector<electro::CellResult>& cells);
 std::string csv_report(const thermo::Database& db, const ReportContext& ctx, const std::vector<ReportItem>& items);
 
 // Converts plain results (waters) to report items.

@@ -61,6 +61,15 @@ struct GasTarget {
     double log_partial_pressure_atm = 0.0;
 };
 
+// A closed gas space over the water (a sealed vessel, a pipe's air pocket): its gases start
+// at the given partial pressures and exchange with the water until both are at
+// equilibrium; the moles in the gas are p V / (R T) (ideal gas).
+struct Headspace {
+    double volume_l_per_kgw = 0.0;           // litres of gas per kg of water
+    std::optional<double> temperature_c;     // default: the water's
+    std::vector<GasTarget> gases;            // initial log10 partial pressures (atm)
+};
+
 struct SpeciationInput {
     std::string label;                       // for messages: the water's or step's name
     double temperature_c = 25.0;
@@ -76,6 +85,7 @@ struct SpeciationInput {
     double charge_imbalance_eq = 0.0;
     std::vector<MineralTarget> minerals;     // phases in equilibrium (equilibrate)
     std::vector<GasTarget> gases;
+    std::optional<Headspace> headspace;      // closed gas space (with gases fixed: not both for one gas)
     // Not used by the solver: kg of water per litre of solution, carried into the result so
     // reports can give mg/L.
     double kg_water_per_litre = 1.0;
@@ -89,6 +99,8 @@ struct PhaseTransfer {
     bool at_target = false;    // the phase ended at its target SI / partial pressure
     bool exhausted = false;    // a finite mineral dissolved completely
     bool blocked = false;      // the allowed direction stopped it short of its target
+    double gas_moles_per_kgw = 0.0;  // closed headspace: moles left in the gas space at the end
+    bool headspace = false;
 };
 
 struct SpeciesResult {

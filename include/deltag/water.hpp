@@ -25,6 +25,14 @@ struct WaterAnalysis {
     double temperature_c = 25.0;
     std::optional<double> ph;
     std::optional<double> pe;
+    // Redox level from an electrode reading: Eh in mV against `eh_reference` (a reference
+    // electrode name, default "SHE"), converted to SHE at the water's temperature.
+    std::optional<double> eh_mv;
+    std::string eh_reference = "SHE";
+    SourceLocation eh_where;
+    // Redox level from dissolved oxygen (mg/L O2) through the O2/H2O couple at the pH.
+    std::optional<double> dissolved_oxygen_mg_per_l;
+    SourceLocation dissolved_oxygen_where;
     std::string charge_balance;                  // "", "pH" or an analyte name
     std::string units = "mg/L";                  // default unit of the analytes
     std::optional<double> density_kg_per_l;      // solution density; default from temperature

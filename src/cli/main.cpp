@@ -12,6 +12,7 @@
 #include "deltag/case.hpp"
 #include "deltag/constants.hpp"
 #include "deltag/database.hpp"
+#include "deltag/electro.hpp"
 #include "deltag/process.hpp"
 #include "deltag/report.hpp"
 #include "deltag/speciation.hpp"
@@ -62,56 +63,216 @@ void write_output(const std::string& text, const std::string& path, const std::s
     if (!out) throw InputError(SourceLocation{path, 0, 0}, key, "writing failed");
 }
 
-int cmd_run(const std::string& case_path, const std::string& format, const std::string& output,
-            const std::string& db_override, bool verbose) {
-    io::Case c = io::read_case(case_path);
-    std::string db_choice = c.database;
-    SourceLocation db_where = c.database_where;
+// A case computed: its database, the speciated waters and the steps.
+struct Computed {
+    io::Case c;
+    Loaded l;
+    std::vector<process::WaterState> waters;
+    std::vector<process::StepOutcome> steps;
+
+    // A water or step by label.
+    const process::WaterState* find(const std::string& label) const {
+        for (const auto& s : steps)
+            if (s.label == label) return &s.state;
+        for (const auto& w : waters)
+            if (w.label == label) return &w;
+        return nullptr;
+    }
+    std::vector<std::string> labels() const {
+        std::vector<std::string> v;
+        for (const auto& w : waters) v.push_back(w.label);
+        for (const auto& s : steps) v.push_back(s.label);
+        return v;
+    }
+};
+
+Computed compute_case(const std::string& case_path, const std::string& db_override) {
+    Computed k;
+    k.c = io::read_case(case_path);
+    std::string db_choice = k.c.database;
+    SourceLocation db_where = k.c.database_where;
     if (!db_override.empty()) {
         db_choice = db_override;
         db_where = SourceLocation{"command line", 0, 0};
     } else if (db_choice != "core" && fs::path(db_choice).is_relative()) {
         db_choice = (fs::path(case_path).parent_path() / db_choice).string();
     }
-    Loaded l = load_database(db_choice, db_where);
-    // The waters, then the steps, then the sweeps; every file is written only after all of
-    // them succeeded, so a failure leaves no partial output.
-    std::vector<process::WaterState> waters;
-    std::vector<io::ReportItem> items;
-    for (const auto& w : c.waters) {
-        const equilibrium::SpeciationInput in = to_speciation_input(w, *l.db, c.activity_model);
-        const equilibrium::SpeciationResult r = equilibrium::speciate(*l.db, in);
-        waters.push_back(process::state_from_result(r, in, *l.db));
-        items.push_back(io::ReportItem{"water", waters.back().result, waters.back().indices, std::nullopt});
+    k.l = load_database(db_choice, db_where);
+    for (const auto& w : k.c.waters) {
+        const equilibrium::SpeciationInput in = to_speciation_input(w, *k.l.db, k.c.activity_model);
+        const equilibrium::SpeciationResult r = equilibrium::speciate(*k.l.db, in);
+        k.waters.push_back(process::state_from_result(r, in, *k.l.db));
     }
-    for (const auto& o : process::run_steps(*l.db, waters, c.steps))
-        items.push_back(io::ReportItem{o.kind, o.state.result, o.state.indices, o.dose});
+    k.steps = process::run_steps(*k.l.db, k.waters, k.c.steps);
+    return k;
+}
+
+electro::CellResult run_cell(const Computed& k, const io::CellSpec& spec) {
+    struct Side {
+        electro::HalfCell h;
+        electro::Activities a;
+        double t = 25.0;
+    };
+    auto side = [&](const io::CellElectrode& e) {
+        Side s;
+        s.h = electro::parse_half_reaction(*k.l.db, e.half_reaction, e.half_reaction_where);
+        if (!e.water.empty()) {
+            const process::WaterState* w = k.find(e.water);
+            if (!w)
+                throw InputError(e.water_where, "water", "no water or step is called '" + e.water + "'",
+                                 nearest_name(e.water, k.labels()));
+            s.a = electro::activities_of(*k.l.db, w->result);
+            s.t = w->result.temperature_c;
+        }
+        for (std::size_t i = 0; i < e.activities.size(); ++i) s.a[e.activities[i].first] = e.activities[i].second;
+        if (e.temperature_c) s.t = *e.temperature_c;
+        return s;
+    };
+    const Side c = side(spec.cathode), a = side(spec.anode);
+    electro::CellResult r;
+    try {
+        r = electro::cell(c.h, c.a, c.t, a.h, a.a, a.t);
+    } catch (const InputError& e) {
+        // A missing activity: point at the cell in the case file.
+        throw InputError(spec.where, e.key(), e.message(), e.suggestion());
+    }
+    r.label = spec.label;
+    return r;
+}
+
+int cmd_run(const std::string& case_path, const std::string& format, const std::string& output,
+            const std::string& db_override, bool verbose) {
+    const Computed k = compute_case(case_path, db_override);
+    const io::Case& c = k.c;
+    const thermo::Database& db = *k.l.db;
+    // The waters, then the steps, sweeps, cells and diagrams; every file is written only
+    // after all of them succeeded, so a failure leaves no partial output.
+    std::vector<io::ReportItem> items;
+    for (const auto& w : k.waters) items.push_back(io::ReportItem{"water", w.result, w.indices, std::nullopt});
+    for (const auto& o : k.steps) items.push_back(io::ReportItem{o.kind, o.state.result, o.state.indices, o.dose});
     std::vector<io::SweepReport> sweeps;
     std::vector<std::pair<std::string, std::string>> files;  // path, content
     const fs::path case_dir = fs::path(case_path).parent_path();
     const std::string stem = fs::path(case_path).stem().string();
+    // A path given in the case is relative to the case file; without one, files go to the
+    // current directory as CASE.LABEL.csv / .svg.
+    auto place = [&](const std::string& given, const std::string& label, const char* ext) {
+        if (given.empty()) return stem + "." + label + ext;
+        const fs::path p(given);
+        return (p.is_relative() ? case_dir / p : p).string();
+    };
     for (const auto& sw : c.sweeps) {
-        io::SweepReport rep{process::run_sweep(*l.db, waters, c.steps, sw), "", ""};
-        // A path given in the case is relative to the case file; without one, the files go
-        // to the current directory as CASE.SWEEP.csv and .svg.
-        auto place = [&](const std::string& given, const char* ext) {
-            if (given.empty()) return stem + "." + sw.label + ext;
-            const fs::path p(given);
-            return (p.is_relative() ? case_dir / p : p).string();
-        };
-        rep.csv_path = place(sw.csv_path, ".csv");
-        rep.svg_path = place(sw.svg_path, ".svg");
+        io::SweepReport rep{process::run_sweep(db, k.waters, c.steps, sw), "", ""};
+        rep.csv_path = place(sw.csv_path, sw.label, ".csv");
+        rep.svg_path = place(sw.svg_path, sw.label, ".svg");
         files.emplace_back(rep.csv_path, io::sweep_csv(rep.sweep));
         files.emplace_back(rep.svg_path, io::sweep_svg(rep.sweep, (c.title.empty() ? stem : c.title) + ": " + sw.label));
         sweeps.push_back(std::move(rep));
     }
-    io::ReportContext ctx{c.title, case_path, l.name, DELTAG_VERSION, verbose};
+    std::vector<electro::CellResult> cells;
+    for (const auto& spec : c.cells) cells.push_back(run_cell(k, spec));
+    std::vector<io::DiagramReport> diagrams;
+    io::ReportContext ctx{c.title, case_path, k.l.name, DELTAG_VERSION, verbose};
     std::string text;
-    if (format == "text") text = io::text_report(*l.db, ctx, items, sweeps);
-    else if (format == "json") text = io::json_report(*l.db, ctx, items, sweeps);
-    else if (format == "csv") text = io::csv_report(*l.db, ctx, items);
-    for (const auto& [path, content] : files) write_output(content, path, "sweep output");
+    if (format == "text") text = io::text_report(db, ctx, items, sweeps, cells, diagrams);
+    else if (format == "json") text = io::json_report(db, ctx, items, sweeps, cells, diagrams);
+    else if (format == "csv") text = io::csv_report(db, ctx, items);
+    for (const auto& [path, content] : files) write_output(content, path, "output file");
     write_output(text, output);
+    return exit_ok;
+}
+
+// KEY=VALUE pairs of --activity.
+std::vector<std::pair<std::string, double>> parse_activities(const std::vector<std::string>& items) {
+    std::vector<std::pair<std::string, double>> out;
+    for (const auto& item : items) {
+        const auto eq = item.rfind('=');
+        const SourceLocation cmd{"command line", 0, 0};
+        if (eq == std::string::npos || eq == 0 || eq + 1 == item.size())
+            throw InputError(cmd, "--activity", "expected SPECIES=VALUE, found '" + item + "'");
+        const std::string name = item.substr(0, eq), value = item.substr(eq + 1);
+        char* end = nullptr;
+        const double v = std::strtod(value.c_str(), &end);
+        if (end != value.c_str() + value.size() || !(v > 0) || !std::isfinite(v))
+            throw InputError(cmd, "--activity", "the activity of '" + name + "' must be a positive number, found '" + value + "'");
+        out.emplace_back(name, v);
+    }
+    return out;
+}
+
+int cmd_cell(const std::string& cathode, const std::string& anode, const std::vector<std::string>& activity_args,
+             std::optional<double> ph, std::optional<double> temperature_c, const std::string& water_ref,
+             const std::string& format, const std::string& db_path) {
+    const SourceLocation cmd{"command line", 0, 0};
+    std::optional<Computed> k;
+    const thermo::Database* db = nullptr;
+    Loaded l;
+    electro::Activities acts;
+    double t = temperature_c.value_or(25.0);
+    if (!water_ref.empty()) {
+        const auto colon = water_ref.rfind(':');
+        if (colon == std::string::npos || colon == 0 || colon + 1 == water_ref.size())
+            throw InputError(cmd, "--water", "expected CASE.toml:WATER, found '" + water_ref + "'");
+        k = compute_case(water_ref.substr(0, colon), db_path);
+        const std::string name = water_ref.substr(colon + 1);
+        const process::WaterState* w = k->find(name);
+        if (!w) throw InputError(cmd, "--water", "the case has no water or step called '" + name + "'", nearest_name(name, k->labels()));
+        if (temperature_c)
+            throw InputError(cmd, "--temperature-c", "the water sets the temperature; leave out --temperature-c with --water");
+        if (ph) throw InputError(cmd, "--ph", "the water sets the pH; leave out --ph with --water (or give --activity H+=...)");
+        acts = electro::activities_of(*k->l.db, w->result);
+        t = w->result.temperature_c;
+        db = k->l.db;
+    } else {
+        l = load_database(db_path, cmd);
+        db = l.db;
+    }
+    if (!(t >= 0.0 && t <= 100.0)) throw InputError(cmd, "--temperature-c", "expected a temperature within 0-100 degC");
+    if (ph) {
+        if (!(*ph >= 0.0 && *ph <= 14.0)) throw InputError(cmd, "--ph", "expected a pH within 0-14");
+        acts["H+"] = std::pow(10.0, -*ph);
+    }
+    for (const auto& [name, v] : parse_activities(activity_args)) acts[name] = v;
+    SourceLocation c_at{"--cathode", 0, 0}, a_at{"--anode", 0, 0};
+    const electro::HalfCell hc = electro::parse_half_reaction(*db, cathode, c_at);
+    const electro::HalfCell ha = electro::parse_half_reaction(*db, anode, a_at);
+    electro::CellResult r = electro::cell(hc, acts, t, ha, acts, t);
+    r.label = "cell";
+    if (format == "json") std::cout << io::cells_json({r});
+    else std::cout << io::cell_text(r) << "\n" << io::electro_caution_text() << "\n";
+    return exit_ok;
+}
+
+int cmd_potential(std::optional<double> value_v, const std::string& from, const std::string& to, double temperature_c,
+                  std::optional<double> delta_g_kj, std::optional<double> electrons, const std::string& format) {
+    const SourceLocation cmd{"command line", 0, 0};
+    if (!(temperature_c >= 0.0 && temperature_c <= 100.0))
+        throw InputError(cmd, "--temperature-c", "expected a temperature within 0-100 degC");
+    if (delta_g_kj) {
+        // The other way: a Gibbs energy to the potential that drives it, E = -dG/(nF).
+        if (!electrons || !(*electrons > 0))
+            throw InputError(cmd, "--electrons", "with --delta-g-kj, give the electrons of the reaction (--electrons N, N > 0)");
+        if (value_v) throw InputError(cmd, "VALUE_V", "give either a potential or --delta-g-kj, not both");
+        const double e = electro::potential_v(*electrons, *delta_g_kj);
+        if (format == "json")
+            std::cout << fmt::format("{{\"delta_g_kj_per_mol\": {}, \"n_electrons\": {}, \"e_v\": {}}}\n", *delta_g_kj, *electrons, e);
+        else
+            std::cout << fmt::format("ΔG = {:+.3f} kJ/mol with n = {:g} corresponds to E = -ΔG/(nF) = {:+.5f} V\n", *delta_g_kj,
+                                     *electrons, e);
+        return exit_ok;
+    }
+    if (!value_v) throw InputError(cmd, "VALUE_V", "give the potential to convert (in V), or --delta-g-kj with --electrons");
+    if (from.empty() || to.empty()) throw InputError(cmd, from.empty() ? "--from" : "--to", "give both --from and --to electrodes");
+    const double v = electro::convert_v(*value_v, from, to, temperature_c, cmd);
+    if (format == "json") {
+        std::cout << fmt::format("{{\"value_v\": {}, \"from\": \"{}\", \"to\": \"{}\", \"temperature_c\": {}}}\n", v, from, to,
+                                 temperature_c);
+    } else {
+        const double she = electro::convert_v(*value_v, from, "SHE", temperature_c, cmd);
+        std::cout << fmt::format("{:+.4f} V vs {} = {:+.4f} V vs {} at {:g} °C (Eh {:+.4f} V vs SHE, pe {:.2f})\n", *value_v, from, v,
+                                 to, temperature_c, she, electro::pe_from_eh(she, temperature_c));
+        std::cout << "Reference electrode potentials are common-practice values; they vary by a few mV between makers.\n";
+    }
     return exit_ok;
 }
 
@@ -265,6 +426,31 @@ int main(int argc, char** argv) {
     show->add_option("NAME", show_name, "name as in the database, e.g. Calcite, CaHCO3+, CO2(g)")->required();
     show->add_option("--database", show_db, "database file (default: the embedded core)");
 
+    std::string cathode, anode, water_ref, cell_format = "text", cell_db;
+    std::vector<std::string> activity_args;
+    std::optional<double> cell_ph, cell_t;
+    CLI::App* cellc = app.add_subcommand("cell", "Cell potential, n, ΔG = -nFE and K of two half-reactions at real activities");
+    cellc->add_option("--cathode", cathode, "half-reaction of the cathode, e.g. \"Cu^2+ + 2 e- = Cu(s)\"")->required();
+    cellc->add_option("--anode", anode, "half-reaction of the anode, e.g. \"Zn^2+ + 2 e- = Zn(s)\"")->required();
+    cellc->add_option("--activity", activity_args, "SPECIES=VALUE (gases: fugacity in atm); repeat as needed");
+    cellc->add_option("--ph", cell_ph, "sets a(H+) = 10^-pH");
+    cellc->add_option("--temperature-c", cell_t, "temperature (default 25)");
+    cellc->add_option("--water", water_ref, "CASE.toml:WATER: take the activities and temperature from that water");
+    cellc->add_option("--format", cell_format, "text | json")->check(CLI::IsMember({"text", "json"}));
+    cellc->add_option("--database", cell_db, "database file (default: the embedded core)");
+
+    std::optional<double> pot_value, pot_dg, pot_n;
+    std::string pot_from, pot_to, pot_format = "text";
+    double pot_t = 25.0;
+    CLI::App* pot = app.add_subcommand("potential", "Convert an electrode potential between reference scales (or a ΔG to E)");
+    pot->add_option("VALUE_V", pot_value, "the potential, V");
+    pot->add_option("--from", pot_from, "reference electrode of VALUE_V (SHE, SCE, Ag/AgCl(sat KCl), ...)");
+    pot->add_option("--to", pot_to, "reference electrode wanted");
+    pot->add_option("--temperature-c", pot_t, "temperature (default 25)");
+    pot->add_option("--delta-g-kj", pot_dg, "instead of a potential: a Gibbs energy (kJ/mol) to turn into E = -ΔG/(nF)");
+    pot->add_option("--electrons", pot_n, "electrons n, with --delta-g-kj");
+    pot->add_option("--format", pot_format, "text | json")->check(CLI::IsMember({"text", "json"}));
+
     try {
         app.parse(argc, argv);
     } catch (const CLI::CallForHelp& e) {
@@ -282,6 +468,8 @@ int main(int argc, char** argv) {
         if (*run) return cmd_run(case_path, format, output, db_path, verbose);
         if (*check) return cmd_database_check(check_path);
         if (*show) return cmd_database_show(show_name, show_db);
+        if (*cellc) return cmd_cell(cathode, anode, activity_args, cell_ph, cell_t, water_ref, cell_format, cell_db);
+        if (*pot) return cmd_potential(pot_value, pot_from, pot_to, pot_t, pot_dg, pot_n, pot_format);
         return exit_bug;
     } catch (const InputError& e) {
         std::cerr << "deltag: error: " << e.what() << "\n";

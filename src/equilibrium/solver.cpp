@@ -40,6 +40,13 @@ struct PhaseUnknown {
     int unknown = -1;
 };
 
+// A gas of a closed headspace: its moles follow from the water, n = (V/RT) 10^(log p).
+struct ClosedGas {
+    Eigen::RowVectorXd nu;
+    double log_k = 0.0;
+    double mol_per_atm = 0.0;  // V / (R T)
+};
+
 struct Problem {
     const ChemicalSystem* sys = nullptr;
     std::size_t n = 0;                     // unknowns
@@ -55,6 +62,8 @@ struct Problem {
     MatrixXd coupling;                     // unknowns x unknowns: d(balance residual)/d(phase amount)
     VectorXd z2;                           // charge squared per species
     std::vector<PhaseUnknown> phases;
+    std::vector<ClosedGas> closed;
+    MatrixXd closed_weight;                // unknowns x closed gases: d(residual)/d(gas moles)
 
     // Work arrays.
     mutable VectorXd log_m, m, lg, dlg, la, dla;
@@ -106,7 +115,13 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
     const double half_z2m = 0.5 * z2.dot(m);
     const double sum_m = m.sum();
     const Eigen::Map<const VectorXd> uv(u, static_cast<Index>(n));
-    const VectorXd phase_part = coupling * uv;  // only phase columns of coupling are non-zero
+    VectorXd phase_part = coupling * uv;  // only phase columns of coupling are non-zero
+    VectorXd gas_moles(static_cast<Index>(closed.size()));
+    for (std::size_t q = 0; q < closed.size(); ++q) {
+        const double log_p = closed[q].nu.dot(la) - closed[q].log_k;
+        gas_moles(static_cast<Index>(q)) = closed[q].mol_per_atm * std::exp(ln10 * std::clamp(log_p, -300.0, 30.0));
+    }
+    if (!closed.empty()) phase_part += closed_weight * gas_moles;
     for (std::size_t e = 0; e < n; ++e) {
         const Index r = static_cast<Index>(e);
         switch (equation[e]) {
@@ -155,6 +170,20 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
             case Equation::charge:
                 J.row(r) /= scale[e];
                 J.row(r) += coupling.row(r);
+                for (std::size_t q = 0; q < closed.size(); ++q) {
+                    const double w = closed_weight(r, static_cast<Index>(q));
+                    if (w == 0.0) continue;
+                    // d n/du = n ln10 d(log p)/du, with d(log p)/du as for a phase row.
+                    const double k = w * gas_moles(static_cast<Index>(q)) * ln10;
+                    for (Index c = 0; c < nc; ++c) {
+                        const ComponentColumn& col = s.columns[c];
+                        if (col.role == ComponentColumn::Role::unknown || col.role == ComponentColumn::Role::proton_unknown)
+                            J(r, col.unknown) += k * closed[q].nu(c);
+                        else if (col.role == ComponentColumn::Role::water)
+                            J(r, w_unknown) += k * closed[q].nu(c);
+                    }
+                    J(r, i_unknown) += k * closed[q].nu.dot(dla) * ionic * ln10;
+                }
                 break;
             case Equation::ionic_strength:
                 J.row(r) = (0.5 * z2.transpose() * dm) / ionic;
@@ -404,6 +433,26 @@ void validate_input(const thermo::Database& db, const SpeciationInput& in) {
         for (std::size_t b = 0; b < a; ++b)
             if (in.gases[b].gas == g.gas) throw InputError(here, name, "gas listed twice");
     }
+    if (in.headspace) {
+        const Headspace& h = *in.headspace;
+        if (!(std::isfinite(h.volume_l_per_kgw) && h.volume_l_per_kgw > 0))
+            throw InputError(here, "headspace", "expected a headspace volume > 0 L per kg of water");
+        if (h.temperature_c && !(*h.temperature_c >= 0 && *h.temperature_c <= 100))
+            throw InputError(here, "headspace", "expected a headspace temperature within 0-100 degC");
+        if (h.gases.empty()) throw InputError(here, "headspace", "a headspace needs at least one gas with its starting partial pressure");
+        for (std::size_t a = 0; a < h.gases.size(); ++a) {
+            const auto& g = h.gases[a];
+            if (g.gas >= db.gases().size()) throw InputError(here, "headspace", "gas index out of range");
+            const std::string& name = db.gases()[g.gas].name;
+            if (!std::isfinite(g.log_partial_pressure_atm))
+                throw InputError(here, name, "expected a finite log10 partial pressure");
+            for (std::size_t b = 0; b < a; ++b)
+                if (h.gases[b].gas == g.gas) throw InputError(here, name, "gas listed twice in the headspace");
+            for (const auto& fixed : in.gases)
+                if (fixed.gas == g.gas)
+                    throw InputError(here, name, "'" + name + "' is both held at a fixed pressure and part of the closed headspace");
+        }
+    }
     if (in.charge_balance_component) {
         if (!in.ph)
             throw InputError(here, "charge_balance",
@@ -462,6 +511,18 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
         for (const auto& [j, v] : db.minerals()[ms.spec.mineral].dissolution) {
             extra[j] += v * ms.xi;
             extra_alk += v * ms.xi * db.species()[j].alkalinity;
+        }
+    }
+    // The gas a closed headspace holds at the start belongs to the totals.
+    if (input.headspace) {
+        const double t_k = input.headspace->temperature_c.value_or(input.temperature_c) + constants::zero_celsius_k;
+        const double mol_per_atm = input.headspace->volume_l_per_kgw / (constants::gas_constant / 101325.0 * 1000.0 * t_k);
+        for (const auto& g : input.headspace->gases) {
+            const double n0 = mol_per_atm * std::pow(10.0, g.log_partial_pressure_atm);
+            for (const auto& [j, v] : db.gases()[g.gas].dissolution) {
+                extra[j] += v * n0;
+                extra_alk += v * n0 * db.species()[j].alkalinity;
+            }
         }
     }
 
@@ -526,6 +587,17 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
         if (minerals[a].status == MineralState::Status::at_target)
             L.mineral_unknown[a] = add_phase(db.minerals()[minerals[a].spec.mineral], minerals[a].spec.target_si);
     for (const auto& g : input.gases) L.gas_unknown.push_back(add_phase(db.gases()[g.gas], g.log_partial_pressure_atm));
+    if (input.headspace) {
+        const double t_k = input.headspace->temperature_c.value_or(input.temperature_c) + constants::zero_celsius_k;
+        const double r_l_atm = constants::gas_constant / 101325.0 * 1000.0;  // L atm / (mol K)
+        for (const auto& g : input.headspace->gases) {
+            ClosedGas cg;
+            cg.nu = phase_row(db.gases()[g.gas]);
+            cg.log_k = db.gases()[g.gas].log_k(input.temperature_c);
+            cg.mol_per_atm = input.headspace->volume_l_per_kgw / (r_l_atm * t_k);
+            p.closed.push_back(cg);
+        }
+    }
     if (input.ph) p.log_a_h_fixed = -*input.ph;
     if (input.pe) p.log_a_e_fixed = -*input.pe;
 
@@ -543,6 +615,16 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
             default: break;
         }
     }
+    // Gas moles in a closed headspace count with the water: residual (sum + nu n - T)/scale.
+    p.closed_weight = MatrixXd::Zero(nu, static_cast<Index>(p.closed.size()));
+    for (std::size_t q = 0; q < p.closed.size(); ++q)
+        for (std::size_t e = 0; e < p.n; ++e) {
+            const Index r = static_cast<Index>(e);
+            if (p.equation[e] == Equation::mass)
+                p.closed_weight(r, static_cast<Index>(q)) = p.closed[q].nu(p.column_of_unknown[e]) / p.scale[e];
+            else if (p.equation[e] == Equation::alkalinity)
+                p.closed_weight(r, static_cast<Index>(q)) = p.closed[q].nu.dot(sys.alkalinity_of_columns) / p.scale[e];
+        }
     // A phase amount xi adds nu * xi to the totals: residual (sum - T - nu xi)/scale.
     for (const auto& ph : p.phases) {
         for (std::size_t e = 0; e < p.n; ++e) {
@@ -865,6 +947,19 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
         t.moles = gas_xi[a];
         t.at_target = true;
         res.transfers.push_back(t);
+    }
+    if (input.headspace) {
+        for (std::size_t q = 0; q < p.closed.size(); ++q) {
+            const auto& g = input.headspace->gases[q];
+            PhaseTransfer t;
+            t.phase = db.gases()[g.gas].name;
+            t.is_gas = true;
+            t.headspace = true;
+            const double log_p = p.closed[q].nu.dot(p.la) - p.closed[q].log_k;
+            t.gas_moles_per_kgw = p.closed[q].mol_per_atm * std::pow(10.0, log_p);
+            t.moles = p.closed[q].mol_per_atm * std::pow(10.0, g.log_partial_pressure_atm) - t.gas_moles_per_kgw;
+            res.transfers.push_back(t);
+        }
     }
 
     res.warnings = sys.warnings;

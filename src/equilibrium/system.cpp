@@ -54,6 +54,8 @@ ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& i
     };
     for (const auto& m : input.minerals) add_phase_columns(db.minerals()[m.mineral]);
     for (const auto& g : input.gases) add_phase_columns(db.gases()[g.gas]);
+    if (input.headspace)
+        for (const auto& g : input.headspace->gases) add_phase_columns(db.gases()[g.gas]);
 
     // Species in play: every species whose formation uses only columns present.
     std::vector<std::string> redox_left_out, outside_range, constant_in_t;

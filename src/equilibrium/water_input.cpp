@@ -41,6 +41,7 @@
 #include <sstream>
 
 #include "deltag/chem.hpp"
+#include "deltag/reference_electrodes.hpp"
 #include "deltag/water_properties.hpp"
 
 namespace deltag {
@@ -267,6 +268,32 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
     in.activity_model = model;
     in.ph = water.ph;
     in.pe = water.pe;
+    const int redox_levels = (water.pe ? 1 : 0) + (water.eh_mv ? 1 : 0) + (water.dissolved_oxygen_mg_per_l ? 1 : 0);
+    if (redox_levels > 1)
+        throw InputError(water.eh_mv ? water.eh_where : water.dissolved_oxygen_where, wkey,
+                         "give one redox level: pe, eh_mv or dissolved_oxygen_mg_per_l, not several");
+    if (water.eh_mv) {
+        // An electrode reading: to SHE at the water's temperature, then pe = F Eh/(RT ln10).
+        const double eh_she = *water.eh_mv / 1000.0 + electro::reference_v(water.eh_reference, water.temperature_c, water.eh_where);
+        in.pe = electro::pe_from_eh(eh_she, water.temperature_c);
+    }
+    if (water.dissolved_oxygen_mg_per_l) {
+        // pe of the O2/H2O couple at the measured pH: from the formation of O2(aq),
+        // log a(O2) = log K + 2 log a(H2O) - 4 log a(H+) - 4 log a(e-), with a(H2O) = 1 and
+        // gamma(O2) = 1 (both within about 0.01 in pe for fresh waters).
+        const std::string key = wkey + ".dissolved_oxygen_mg_per_l";
+        if (!water.ph)
+            throw InputError(water.dissolved_oxygen_where, key, "dissolved oxygen sets the redox level only with a measured pH");
+        const auto o2 = db.find_species("O2(aq)");
+        if (!o2 || !db.electron())
+            throw InputError(water.dissolved_oxygen_where, key, "the database '" + db.name() + "' has no O2(aq) or no e- to use the dissolved oxygen");
+        if (!(*water.dissolved_oxygen_mg_per_l > 0))
+            throw InputError(water.dissolved_oxygen_where, key, "dissolved oxygen of 0 gives no redox level: give pe or eh_mv instead");
+        const double o2_molar_mass = 2.0 * chem::atomic_weight("O").value();
+        const double m_o2 = *water.dissolved_oxygen_mg_per_l / 1000.0 / o2_molar_mass / water_per_litre;
+        const double log_k = db.species()[*o2].log_k(water.temperature_c);
+        in.pe = (std::log10(m_o2) - log_k) / 4.0 - *water.ph;
+    }
     in.kg_water_per_litre = water_per_litre;
     for (const auto& c : converted) {
         double molality = c.amount;

@@ -6,17 +6,22 @@
 // pH and charge_balance. Analyte names and "as" are checked against the database when the
 // water is turned into solver input (to_speciation_input, src/equilibrium/water_input.cpp).
 //
-// Steps and sweeps ([[step]], [[sweep]]) are read in file order. Messages name one by its
-// position in the file, counted from 1 as in the default labels ("step 2 (dose)"):
+// Steps, sweeps, cells and diagrams ([[step]], [[sweep]], [[cell]], [[diagram]]) are read in
+// file order. Messages name one by its position in the file, counted from 1 as in the default
+// labels ("step 2 (dose)", "cell 1", "diagram 3"):
 //   step[2].reagent                  the key reagent of the second [[step]]
 //   step[1].minerals.Gypsum.only     a key inside an inline table of the first step
 //   step[1].gases."CO2(g)"           a key that is not a bare word is quoted
 //   sweep[1].outputs                 an entry of an array: the key of the array, at the
 //                                    entry's own line and column
+//   cell[1].anode.half_reaction      a key of an electrode given as a table
+//   cell[2].activities."Cu^2+"       an activity given for both electrodes of a cell
+//   diagram[1].points                a point of a diagram (an entry of an array, as above)
 // Checked here: the keys of each kind, required keys, types and ranges, references to
-// waters and earlier steps, unique labels, and the form of sweep outputs. Mineral, gas and
-// reagent names and elements are checked against the database when the steps are run; the
-// SourceLocation fields filled here (at the key) let those messages point at the line.
+// waters and steps, unique labels, the form of sweep outputs and of half-reactions. Mineral,
+// gas and reagent names, species and electrodes are checked against the database when the
+// case is run; the SourceLocation fields filled here (at the key) let those messages point at
+// the line. A location of an optional key that is absent is that of the table around it.
 
 #include "deltag/case.hpp"
 
@@ -32,7 +37,9 @@
 #include <utility>
 #include <variant>
 
+#include "deltag/chem.hpp"
 #include "deltag/process.hpp"
+#include "deltag/reference_electrodes.hpp"
 #include "thermo/toml_util.hpp"
 
 namespace deltag::io {
@@ -53,21 +60,18 @@ std::string list_of(const std::vector<std::string>& names) {
     return s;
 }
 
-// Keys of later versions: reading past them would silently drop what the user asked for.
-struct LaterKey {
-    const char* key;
-    const char* what;
-};
-constexpr LaterKey later_keys[] = {
-    {"cell", "cells in a case file"},
-    {"diagram", "diagrams"},
-};
+bool is_one_of(std::string_view name, const std::vector<std::string>& names) {
+    return std::find(names.begin(), names.end(), name) != names.end();
+}
 
 const std::vector<std::string> top_level_keys = {"title", "database", "activity_model", "water", "step",
-                                                 "sweep"};
-const std::vector<std::string> water_keys = {"temperature_c", "pH",    "pe",
+                                                 "sweep", "cell",     "diagram"};
+const std::vector<std::string> water_keys = {"temperature_c",  "pH",    "pe",
+                                             "eh_mv",          "reference", "dissolved_oxygen_mg_per_l",
                                              "charge_balance", "units", "density_kg_per_l",
                                              "analytes"};
+// Ways of giving a water's redox level; at most one of them.
+const std::vector<std::string> redox_keys = {"pe", "eh_mv", "dissolved_oxygen_mg_per_l"};
 const std::vector<std::string> analyte_keys = {"value", "unit", "as"};
 
 // A number that must lie in [lo, hi]; `what` names it and `unit` follows the bounds.
@@ -152,6 +156,41 @@ AnalyteValue read_analyte(const std::string& name, const toml::node& node, const
     return a;
 }
 
+// Of keys that exclude each other, the second one written (in file order) is reported, naming
+// the first and its line. `what` says what the keys give and how often.
+void at_most_one(tomlu::TableReader& r, const std::vector<std::string>& keys, const std::string& what) {
+    std::vector<Entry> given;
+    for (auto& e : in_file_order(r.table(), r.file()))
+        if (is_one_of(e.name, keys)) given.push_back(std::move(e));
+    if (given.size() < 2) return;
+    r.fail(given[1].name, what + "; found both " + given[0].name + " (line " + std::to_string(given[0].key_where.line) +
+                              ") and " + given[1].name);
+}
+
+// The redox level of a water: pe, an electrode reading eh_mv against a reference electrode,
+// or dissolved oxygen; at most one of them.
+void read_redox(tomlu::TableReader& r, WaterAnalysis& w) {
+    at_most_one(r, redox_keys, "give one redox level, as pe, eh_mv or dissolved_oxygen_mg_per_l");
+    w.pe = ranged(r, "pe", -20.0, 20.0, "a pe");
+    // The bound only catches slips such as a reading in microvolts: a water's Eh lies within
+    // the stability of water, well inside +-2 V against any of the reference electrodes.
+    w.eh_mv = ranged(r, "eh_mv", -2000.0, 2000.0, "an electrode reading", " mV");
+    w.eh_where = w.eh_mv ? key_where(r.table(), "eh_mv", r.file()) : w.where;
+    if (auto ref = r.string("reference")) {
+        if (!w.eh_mv)
+            r.fail("reference", "reference names the electrode an Eh reading was measured against, but [" +
+                                    r.prefix() + "] has no eh_mv; add eh_mv = ... (mV) or remove reference");
+        const auto names = electro::reference_names();
+        if (!is_one_of(*ref, names))
+            r.fail("reference", "unknown reference electrode '" + *ref + "'; expected one of: " + list_of(names),
+                   nearest_name(*ref, names));
+        w.eh_reference = *ref;
+    }
+    w.dissolved_oxygen_mg_per_l = ranged(r, "dissolved_oxygen_mg_per_l", 0.0, 60.0, "a dissolved oxygen concentration", " mg/L");
+    w.dissolved_oxygen_where =
+        w.dissolved_oxygen_mg_per_l ? key_where(r.table(), "dissolved_oxygen_mg_per_l", r.file()) : w.where;
+}
+
 WaterAnalysis read_water(const std::string& name, const toml::node& node, const std::string& file) {
     WaterAnalysis w;
     w.name = name;
@@ -168,7 +207,7 @@ WaterAnalysis read_water(const std::string& name, const toml::node& node, const 
                         " (the range of the water-property correlations)"))
         w.temperature_c = *v;
     w.ph = ranged(r, "pH", 0.0, 14.0, "a pH");
-    w.pe = ranged(r, "pe", -20.0, 20.0, "a pe");
+    read_redox(r, w);
     if (auto cb = r.string("charge_balance")) {
         w.charge_balance_where = r.location("charge_balance");
         if (cb->empty())
@@ -225,7 +264,7 @@ const std::vector<std::string> step_kinds = {"equilibrate", "dose", "blend", "co
 // The keys each kind of step takes. A blend has no `water`: it names its waters in `waters`.
 const std::vector<std::string>& keys_of_kind(std::string_view kind) {
     static const std::map<std::string, std::vector<std::string>, std::less<>> keys = {
-        {"equilibrate", {"kind", "label", "water", "minerals", "gases"}},
+        {"equilibrate", {"kind", "label", "water", "minerals", "gases", "headspace"}},
         {"dose", {"kind", "label", "water", "reagent", "amount", "until", "max_amount"}},
         {"blend", {"kind", "label", "waters", "by"}},
         {"concentrate", {"kind", "label", "water", "factor", "recovery", "precipitate"}},
@@ -246,10 +285,6 @@ const std::vector<std::string> sweep_keys = {"label",  "step",        "at",     
 const std::vector<std::string> sweep_variables = {"temperature_c", "dose", "factor", "fraction"};
 const std::vector<std::string> plain_outputs = {"pH", "ionic_strength", "alkalinity", "langelier", "ryznar", "ccpp"};
 const std::vector<std::string> output_prefixes = {"si", "transfer", "total"};
-
-bool is_one_of(std::string_view name, const std::vector<std::string>& names) {
-    return std::find(names.begin(), names.end(), name) != names.end();
-}
 
 std::string default_step_label(std::size_t n, std::string_view kind) {
     return "step " + std::to_string(n) + " (" + std::string(kind) + ")";
@@ -462,7 +497,32 @@ process::EquilibrateStep read_equilibrate(tomlu::TableReader& r) {
             e.gases.push_back(std::move(gas));
         }
     }
-    if (e.minerals.empty() && e.gases.empty())
+    // headspace = { volume_l_per_kgw = 0.5, temperature_c = 20, gases = { "CO2(g)" = -3.4 } }
+    if (const toml::table* hs = r.table("headspace")) {
+        tomlu::TableReader h(*hs, r.file(), r.dotted("headspace"));
+        process::HeadspaceSpec spec;
+        spec.where = r.location("headspace");
+        if (!h.has("volume_l_per_kgw")) h.fail("volume_l_per_kgw", "missing: expected the gas volume in litres per kg of water");
+        spec.volume_l_per_kgw = *ranged(h, "volume_l_per_kgw", 1e-9, 1e6, "litres of gas per kg of water");
+        if (h.has("temperature_c")) spec.temperature_c = ranged(h, "temperature_c", 0.0, 100.0, "a temperature in degC");
+        const toml::table* gases = h.table("gases");
+        if (!gases || gases->empty())
+            h.fail("gases", "missing: expected gases = { \"NAME(g)\" = starting log10 partial pressure in atm, ... }");
+        tomlu::TableReader g(*gases, r.file(), h.dotted("gases"));
+        for (const auto& entry : in_file_order(*gases, r.file())) {
+            process::GasSpec gas;
+            gas.name = entry.name;
+            gas.where = entry.key_where;
+            if (!entry.node->is_integer() && !entry.node->is_floating_point())
+                g.fail(entry.name, "expected the starting log10 partial pressure in atm (a number), found " +
+                                       tomlu::type_name(*entry.node));
+            gas.log_partial_pressure_atm = *ranged(g, entry.name, -20.0, 2.0, "a log10 partial pressure in atm");
+            spec.gases.push_back(std::move(gas));
+        }
+        h.finish({"volume_l_per_kgw", "temperature_c", "gases"});
+        e.headspace = std::move(spec);
+    }
+    if (e.minerals.empty() && e.gases.empty() && !e.headspace)
         throw InputError(r.table_location(), r.prefix(),
                          "a step of kind 'equilibrate' needs minerals = { NAME = target SI, ... } or gases = "
                          "{ \"NAME(g)\" = log10 partial pressure in atm, ... }, with at least one entry");
@@ -869,22 +929,295 @@ process::Sweep read_sweep(const std::string& file, std::size_t n, const toml::ta
     return sw;
 }
 
+// --- cells and diagrams -------------------------------------------------------------------
+
+const std::vector<std::string> cell_keys = {"label", "cathode", "anode", "water", "temperature_c", "activities"};
+const std::vector<std::string> electrode_keys = {"half_reaction", "water", "temperature_c", "activities"};
+const std::vector<std::string> diagram_keys = {"label",  "element",  "temperature_c", "log_activity",
+                                               "activity", "water",  "points",        "ph_range",
+                                               "eh_range_v", "shading", "svg",        "csv"};
+const std::string half_reaction_example = "\"Cu^2+ + 2 e- = Cu(s)\"";
+
+// A water or step label named by a cell or a diagram. They are evaluated once every step has
+// run, so the label of any step will do.
+void check_result_name(const std::vector<WaterAnalysis>& waters, const std::vector<process::Step>& steps,
+                       const std::string& name, const SourceLocation& at, const std::string& key) {
+    std::vector<std::string> names;
+    for (const auto& w : waters) names.push_back(w.name);
+    for (const auto& s : steps) names.push_back(s.label);
+    if (is_one_of(name, names)) return;
+    throw InputError(at, key, "no water or step is called '" + name + "'; expected one of: " + list_of(names),
+                     nearest_name(name, names));
+}
+
+// The form of a half-reaction: not empty, two sides around '=', species that read as formulas.
+// Whether the database knows the species and the reaction balances is checked when it is run.
+chem::Reaction check_half_reaction(const std::string& text, const SourceLocation& at, const std::string& key) {
+    const auto lead = text.find_first_not_of(" \t\r\n");
+    if (lead == std::string::npos)
+        throw InputError(at, key, "expected a half-reaction such as " + half_reaction_example + ", found an empty string");
+    if (text.find('=') == std::string::npos)
+        throw InputError(at, key, "expected a half-reaction with '=' between its two sides, such as " +
+                                      half_reaction_example + "; found \"" + text + "\"");
+    try {
+        return chem::parse_reaction(text);
+    } catch (const chem::ParseError& e) {
+        // The parser counts within the text with its leading blanks removed.
+        const std::string at_char =
+            e.column() > 0 ? " (at character " + std::to_string(static_cast<std::size_t>(e.column()) + lead) + ")" : "";
+        throw InputError(at, key, "cannot read the half-reaction \"" + text + "\": " + e.message() + at_char);
+    }
+}
+
+// The species of a half-reaction that can be given an activity: every term but the electrons.
+std::vector<std::string> species_of(const chem::Reaction& reaction) {
+    std::vector<std::string> out;
+    for (const auto& term : reaction.terms)
+        if (!chem::parse_formula(term.species).is_electron() && !is_one_of(term.species, out))
+            out.push_back(term.species);
+    return out;
+}
+
+bool same_species(std::string_view a, std::string_view b) { return chem::ascii_form(a) == chem::ascii_form(b); }
+
+bool among(std::string_view name, const std::vector<std::string>& species) {
+    return std::any_of(species.begin(), species.end(), [&](const std::string& s) { return same_species(name, s); });
+}
+
+// Activities of a cell or an electrode: activities = { "Cu^2+" = 1e-6, "O2(g)" = 0.21 }.
+struct ActivityEntry {
+    std::string species;
+    double value;
+    SourceLocation where;  // of the key
+    std::string key;       // dotted, for messages
+};
+
+std::vector<ActivityEntry> read_activities(tomlu::TableReader& r) {
+    std::vector<ActivityEntry> out;
+    const toml::table* t = r.table("activities");
+    if (!t) return out;
+    tomlu::TableReader ar(*t, r.file(), r.dotted("activities"));
+    for (const auto& e : in_file_order(*t, r.file())) {
+        if (e.name.empty())
+            throw InputError(e.key_where, ar.dotted(e.name),
+                             "expected a species name as the key, such as \"Cu^2+\", found an empty one");
+        if (!e.node->is_integer() && !e.node->is_floating_point())
+            ar.fail(e.name, "expected the activity of the species (a number; for a gas its fugacity in atm), found " +
+                                tomlu::type_name(*e.node));
+        const double v = *ar.number(e.name);
+        if (v <= 0.0) ar.fail(e.name, "expected an activity above zero, found " + show(v));
+        out.push_back({e.name, v, e.key_where, ar.dotted(e.name)});
+    }
+    return out;
+}
+
+// One electrode of a cell: a half-reaction string, or a table with its own water, temperature
+// and activities. `reaction` receives the parsed half-reaction.
+CellElectrode read_electrode(tomlu::TableReader& r, const std::string& which, const Case& c,
+                             chem::Reaction& reaction, SourceLocation& electrode_where) {
+    const toml::node* n = r.node(which);
+    if (!n)
+        throw InputError(r.table_location(), r.dotted(which),
+                         "missing: expected the " + which + ", a half-reaction such as " + half_reaction_example +
+                             " or a table { half_reaction = \"...\", water = \"...\", temperature_c = ..., "
+                             "activities = { ... } }");
+    CellElectrode e;
+    electrode_where = key_where(r.table(), which, r.file());
+    if (n->is_string()) {
+        e.half_reaction = n->as_string()->get();
+        e.half_reaction_where = electrode_where;
+        reaction = check_half_reaction(e.half_reaction, r.location(which), r.dotted(which));
+        return e;
+    }
+    const toml::table* t = n->as_table();
+    if (!t)
+        r.fail(which, "expected a half-reaction (a string such as " + half_reaction_example +
+                          ") or a table { half_reaction = \"...\", ... }, found " + tomlu::type_name(*n));
+    reject_unknown_keys(*t, electrode_keys, r.file(), r.dotted(which));
+    tomlu::TableReader er(*t, r.file(), r.dotted(which));
+    e.half_reaction = er.require_string("half_reaction", "the half-reaction, a string such as " + half_reaction_example);
+    e.half_reaction_where = key_where(*t, "half_reaction", r.file());
+    reaction = check_half_reaction(e.half_reaction, er.location("half_reaction"), er.dotted("half_reaction"));
+    if (auto w = er.string("water")) {
+        e.water = *w;
+        e.water_where = key_where(*t, "water", r.file());
+        check_result_name(c.waters, c.steps, e.water, e.water_where, er.dotted("water"));
+    }
+    e.temperature_c = ranged(er, "temperature_c", 0.0, 100.0, "a temperature", " °C",
+                             " (the range of the water-property correlations)");
+    const auto species = species_of(reaction);
+    for (const auto& a : read_activities(er)) {
+        if (!among(a.species, species))
+            throw InputError(a.where, a.key,
+                             "'" + a.species + "' does not take part in the " + which + "'s half-reaction \"" +
+                                 e.half_reaction + "\" (" + list_of(species) + ")",
+                             nearest_name(a.species, species));
+        e.activities.emplace_back(a.species, a.value);
+        e.activity_where.push_back(a.where);
+    }
+    return e;
+}
+
+CellSpec read_cell(const std::string& file, const Case& c, std::size_t n, const toml::table& t) {
+    tomlu::TableReader r(t, file, "cell[" + std::to_string(n) + "]");
+    reject_unknown_keys(t, cell_keys, r.file(), r.prefix());
+    CellSpec cell;
+    cell.where = r.table_location();
+
+    if (auto label = r.string("label")) {
+        if (label->empty()) r.fail("label", "expected a label for the cell, found an empty string");
+        cell.label = *label;
+    } else {
+        cell.label = "cell " + std::to_string(n);
+    }
+    for (std::size_t i = 0; i < c.cells.size(); ++i)
+        if (c.cells[i].label == cell.label)
+            r.fail("label", std::string(r.has("label") ? "the label '" : "the default label '") + cell.label +
+                                "' is already the label of cell " + std::to_string(i + 1) + " (line " +
+                                std::to_string(c.cells[i].where.line) + "); give each cell its own label");
+
+    // What the cell gives for both electrodes; an electrode's own water and temperature win,
+    // and its own activities win species by species.
+    std::string water;
+    SourceLocation water_where;
+    if (auto w = r.string("water")) {
+        water = *w;
+        water_where = key_where(t, "water", r.file());
+        check_result_name(c.waters, c.steps, water, water_where, r.dotted("water"));
+    }
+    const auto temperature_c = ranged(r, "temperature_c", 0.0, 100.0, "a temperature", " °C",
+                                      " (the range of the water-property correlations)");
+
+    chem::Reaction cathode_reaction, anode_reaction;
+    SourceLocation cathode_where, anode_where;
+    cell.cathode = read_electrode(r, "cathode", c, cathode_reaction, cathode_where);
+    cell.anode = read_electrode(r, "anode", c, anode_reaction, anode_where);
+    const auto shared = read_activities(r);
+    const auto cathode_species = species_of(cathode_reaction), anode_species = species_of(anode_reaction);
+    for (const auto& a : shared)
+        if (!among(a.species, cathode_species) && !among(a.species, anode_species)) {
+            std::vector<std::string> both = cathode_species;
+            for (const auto& s : anode_species)
+                if (!among(s, both)) both.push_back(s);
+            throw InputError(a.where, a.key,
+                             "'" + a.species + "' takes part in neither half-reaction of the cell (cathode: " +
+                                 list_of(cathode_species) + "; anode: " + list_of(anode_species) + ")",
+                             nearest_name(a.species, both));
+        }
+
+    // The cell-wide values go to each electrode that has none of its own; a cell-wide activity
+    // only to the electrodes in whose half-reaction the species takes part.
+    for (auto* e : {&cell.cathode, &cell.anode}) {
+        const bool is_cathode = e == &cell.cathode;
+        if (e->water.empty() && !water.empty()) {
+            e->water = water;
+            e->water_where = water_where;
+        } else if (e->water.empty()) {
+            e->water_where = is_cathode ? cathode_where : anode_where;
+        }
+        if (!e->temperature_c) e->temperature_c = temperature_c;
+        for (const auto& a : shared) {
+            const bool own = std::any_of(e->activities.begin(), e->activities.end(),
+                                         [&](const auto& given) { return same_species(given.first, a.species); });
+            if (own || !among(a.species, is_cathode ? cathode_species : anode_species)) continue;
+            e->activities.emplace_back(a.species, a.value);
+            e->activity_where.push_back(a.where);
+        }
+    }
+    return cell;
+}
+
+// A [min, max] pair within [lo, hi], min below max.
+std::optional<std::pair<double, double>> read_range(tomlu::TableReader& r, std::string_view key, double lo, double hi,
+                                                    const std::string& what) {
+    const auto v = r.numbers(key, 2);
+    if (!v) return std::nullopt;
+    const double a = (*v)[0], b = (*v)[1];
+    const std::string found = ", found [" + show(a) + ", " + show(b) + "]";
+    if (a < lo || b > hi || a > hi || b < lo)
+        r.fail(key, "expected " + what + " [min, max] within " + show(lo) + " to " + show(hi) + found);
+    if (!(a < b)) r.fail(key, "expected " + what + " [min, max] with min below max" + found);
+    return std::pair{a, b};
+}
+
+DiagramCase read_diagram(const std::string& file, const Case& c, std::size_t n, const toml::table& t) {
+    tomlu::TableReader r(t, file, "diagram[" + std::to_string(n) + "]");
+    reject_unknown_keys(t, diagram_keys, r.file(), r.prefix());
+    DiagramCase d;
+    d.where = r.table_location();
+
+    if (auto label = r.string("label")) {
+        if (label->empty()) r.fail("label", "expected a label for the diagram, found an empty string");
+        d.label = *label;
+    } else {
+        d.label = "diagram " + std::to_string(n);
+    }
+    for (std::size_t i = 0; i < c.diagrams.size(); ++i)
+        if (c.diagrams[i].label == d.label)
+            r.fail("label", std::string(r.has("label") ? "the label '" : "the default label '") + d.label +
+                                "' is already the label of diagram " + std::to_string(i + 1) + " (line " +
+                                std::to_string(c.diagrams[i].where.line) + "); give each diagram its own label");
+
+    d.element = r.require_string("element", "the element of the diagram, a symbol such as \"Fe\"");
+    d.element_where = key_where(t, "element", r.file());
+    if (d.element.empty())
+        r.fail("element", "expected an element symbol such as \"Fe\", found an empty string");
+    if (!chem::atomic_weight(d.element))
+        // Only short names are matched to a symbol: "Iron" is not a misspelt "Ir".
+        r.fail("element", "unknown element '" + d.element + "'; expected an element symbol such as Fe, Cu or Mn",
+               d.element.size() <= 3 ? nearest_name(d.element, chem::element_symbols()) : std::string());
+
+    d.temperature_c = ranged(r, "temperature_c", 0.0, 100.0, "a temperature", " °C",
+                             " (the range of the water-property correlations)");
+    at_most_one(r, {"log_activity", "activity"},
+                "give the activity of the dissolved species once, as log_activity or activity");
+    if (auto la = ranged(r, "log_activity", -12.0, 0.0, "a log10 activity of the dissolved species")) d.log_activity = *la;
+    if (auto a = r.number("activity")) {
+        if (!(*a >= 1e-12 && *a <= 1.0))
+            r.fail("activity", "expected an activity of the dissolved species from 1e-12 to 1 (log_activity from -12 "
+                               "to 0), found " + show(*a));
+        d.log_activity = std::log10(*a);
+    }
+
+    if (auto w = r.string("water")) {
+        d.water = *w;
+        d.water_where = key_where(t, "water", r.file());
+        check_result_name(c.waters, c.steps, d.water, d.water_where, r.dotted("water"));
+    } else {
+        d.water_where = d.where;
+    }
+
+    if (const toml::array* points = r.array("points")) {
+        for (const auto& el : *points) {
+            const SourceLocation at = tomlu::where(el.source(), r.file());
+            if (!el.is_string())
+                throw InputError(at, r.dotted("points"), "expected names of waters or step labels (strings), found " +
+                                                             tomlu::type_name(el) + " in the list");
+            const std::string name = el.as_string()->get();
+            check_result_name(c.waters, c.steps, name, at, r.dotted("points"));
+            if (is_one_of(name, d.points)) throw InputError(at, r.dotted("points"), "the point '" + name + "' is listed twice");
+            d.points.push_back(name);
+            d.point_where.push_back(at);
+        }
+    }
+
+    if (auto ph = read_range(r, "ph_range", 0.0, 14.0, "a pH range")) std::tie(d.ph_min, d.ph_max) = *ph;
+    if (auto eh = read_range(r, "eh_range_v", -3.0, 3.0, "an Eh range in V")) std::tie(d.eh_min_v, d.eh_max_v) = *eh;
+    if (auto shading = r.boolean("shading")) d.shading = *shading;
+    for (const char* key : {"svg", "csv"}) {
+        if (auto path = r.string(key)) {
+            if (path->empty()) r.fail(key, "expected the path of the file to write, found an empty string");
+            (std::string_view(key) == "svg" ? d.svg_path : d.csv_path) = *path;
+        }
+    }
+    return d;
+}
+
 }  // namespace
 
 Case parse_case(std::string_view toml_text, const std::string& origin) {
     const toml::table root = tomlu::parse(toml_text, origin);
     tomlu::TableReader r(root, origin, "");
-
-    // Keys of later versions first: a file that uses them is not runnable at all here.
-    for (const auto& [k, v] : root) {
-        for (const auto& later : later_keys) {
-            if (k.str() == later.key)
-                throw InputError(tomlu::where(k.source(), origin), std::string(k.str()),
-                                 std::string(later.what) +
-                                     " are not run by this version of deltag yet; remove '" +
-                                     later.key + "' from the case file");
-        }
-    }
 
     Case c;
     if (auto title = r.string("title")) c.title = *title;
@@ -926,6 +1259,13 @@ Case parse_case(std::string_view toml_text, const std::string& origin) {
     const auto sweep_tables = array_of_tables(r, "sweep", "sweep", origin);
     for (std::size_t i = 0; i < sweep_tables.size(); ++i)
         c.sweeps.push_back(read_sweep(origin, i + 1, *sweep_tables[i], c.steps, c.sweeps));
+
+    // Cells and diagrams, which name waters and steps.
+    const auto cell_tables = array_of_tables(r, "cell", "cell", origin);
+    for (std::size_t i = 0; i < cell_tables.size(); ++i) c.cells.push_back(read_cell(origin, c, i + 1, *cell_tables[i]));
+    const auto diagram_tables = array_of_tables(r, "diagram", "diagram", origin);
+    for (std::size_t i = 0; i < diagram_tables.size(); ++i)
+        c.diagrams.push_back(read_diagram(origin, c, i + 1, *diagram_tables[i]));
 
     r.finish(top_level_keys);
     return c;

@@ -72,7 +72,9 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
                              {"mg_per_l", finite(t.moles * molar_mass * 1000.0 * r.kg_water_per_litre, t.phase)},
                              {"at_target", t.at_target},
                              {"exhausted", t.exhausted},
-                             {"blocked", t.blocked}});
+                             {"blocked", t.blocked},
+                             {"headspace", t.headspace},
+                             {"gas_moles_per_kgw", finite(t.gas_moles_per_kgw, t.phase)}});
     }
     j["transfers"] = transfers;
     j["gases"] = gases;
@@ -104,8 +106,36 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
 
 }  // namespace
 
+ordered_json cells_array(const std::vector<electro::CellResult>& cells) {
+    ordered_json arr = ordered_json::array();
+    for (const auto& c : cells)
+        arr.push_back({{"label", c.label},
+                       {"cathode", c.cathode},
+                       {"anode", c.anode},
+                       {"temperature_c", finite(c.temperature_c, "cell temperature")},
+                       {"n_electrons", finite(c.n, "n")},
+                       {"e0_v", finite(c.e0_v, "E°")},
+                       {"e_v", finite(c.e_v, "E")},
+                       {"delta_g0_kj_per_mol", finite(c.delta_g0_kj_per_mol, "ΔG°")},
+                       {"delta_g_kj_per_mol", finite(c.delta_g_kj_per_mol, "ΔG")},
+                       {"log_k", finite(c.log_k, "log K")},
+                       {"spontaneous", c.spontaneous},
+                       {"cathode_e0_origin", c.cathode_origin},
+                       {"anode_e0_origin", c.anode_origin},
+                       {"warnings", c.warnings}});
+    return arr;
+}
+
+std::string cells_json(const std::vector<electro::CellResult>& cells) {
+    ordered_json root;
+    root["cells"] = cells_array(cells);
+    root["caution"] = std::string(electro_caution_text());
+    return root.dump(2) + "\n";
+}
+
 std::string json_report(const thermo::Database& db, const ReportContext& ctx, const std::vector<ReportItem>& items,
-                        const std::vector<SweepReport>& sweeps) {
+                        const std::vector<SweepReport>& sweeps, const std::vector<electro::CellResult>& cells,
+                        const std::vector<DiagramReport>& diagrams) {
     ordered_json root;
     root["deltag_version"] = ctx.version;
     root["title"] = ctx.title;
@@ -113,7 +143,10 @@ std::string json_report(const thermo::Database& db, const ReportContext& ctx, co
     ordered_json arr = ordered_json::array();
     for (const auto& item : items) arr.push_back(result_json(db, item));
     root["results"] = arr;
-    root["cells"] = ordered_json::array();
+    root["cells"] = cells_array(cells);
+    ordered_json dg = ordered_json::array();
+    for (const auto& d : diagrams) dg.push_back({{"label", d.label}, {"svg", d.svg_path}, {"csv", d.csv_path}, {"warnings", d.warnings}});
+    root["diagrams"] = dg;
     ordered_json sw = ordered_json::array();
     for (const auto& s : sweeps) {
         ordered_json one;

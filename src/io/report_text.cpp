@@ -165,8 +165,11 @@ std::string transfers_block(const thermo::Database& db, const equilibrium::Speci
             molar_mass = db.minerals()[*m].formula.molar_mass();
         }
         const double mg_per_l = t.moles * molar_mass * 1000.0 * r.kg_water_per_litre;
-        const char* state = t.exhausted ? "exhausted" : t.blocked ? "held back by its allowed direction"
-                                                                  : t.at_target ? "at its target" : "";
+        const std::string state = t.headspace ? fmt::format("closed headspace, {:.4g} mmol/kgw left in the gas", t.gas_moles_per_kgw * 1000.0)
+                                  : t.exhausted ? "exhausted"
+                                  : t.blocked   ? "held back by its allowed direction"
+                                  : t.at_target ? "at its target"
+                                                : "";
         out += "  " + pad(t.is_gas ? chem::pretty(t.phase) : t.phase, 20) +
                fmt::format("{:>+14.4f}{:>+12.2f}  {}\n", t.moles * 1000.0, mg_per_l, state);
     }
@@ -182,7 +185,8 @@ std::vector<ReportItem> items_of(const std::vector<equilibrium::SpeciationResult
 }
 
 std::string text_report(const thermo::Database& db, const ReportContext& ctx, const std::vector<ReportItem>& items,
-                        const std::vector<SweepReport>& sweeps) {
+                        const std::vector<SweepReport>& sweeps, const std::vector<electro::CellResult>& cells,
+                        const std::vector<DiagramReport>& diagrams) {
     std::string out;
     out += fmt::format("deltag {}: {}\n", ctx.version, ctx.title.empty() ? ctx.case_path : ctx.title);
     out += fmt::format("case {}; database {}\n", ctx.case_path, ctx.database);
@@ -228,7 +232,38 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx, co
         if (!sw.csv_path.empty()) out += "  table written to " + sw.csv_path + "\n";
         if (!sw.svg_path.empty()) out += "  plot written to " + sw.svg_path + "\n";
     }
+    for (const auto& c : cells) out += "\n" + rule('=') + cell_text(c);
+    for (const auto& d : diagrams) {
+        out += "\n" + rule('=') + fmt::format("Diagram '{}'\n", d.label) + rule('=');
+        if (!d.svg_path.empty()) out += "  picture written to " + d.svg_path + "\n";
+        if (!d.csv_path.empty()) out += "  boundary lines written to " + d.csv_path + "\n";
+        for (const auto& w : d.warnings) out += "  - " + w + "\n";
+    }
     out += "\n" + std::string(caution_text()) + "\n";
+    if (!cells.empty() || !diagrams.empty()) out += std::string(electro_caution_text()) + "\n";
+    return out;
+}
+
+std::string_view electro_caution_text() {
+    return "Caution: corrosion and cathodic-protection decisions follow the governing standards (for example the "
+           "national cathodic-protection and potable-plumbing codes) and licensed practice; a thermodynamic cell "
+           "potential says which way a couple can run, not how fast it corrodes.";
+}
+
+std::string cell_text(const electro::CellResult& c) {
+    std::string out;
+    out += fmt::format("Cell '{}' at {:.1f} °C\n", c.label.empty() ? std::string("cell") : c.label, c.temperature_c);
+    out += rule('=');
+    out += fmt::format("  {:<10}{}\n  {:<10}E° from {}\n", "cathode", c.cathode, "", c.cathode_origin);
+    out += fmt::format("  {:<10}{}\n  {:<10}E° from {}\n", "anode", c.anode, "", c.anode_origin);
+    out += fmt::format("  {:<22}{:g}\n", "electrons n", c.n);
+    out += fmt::format("  {:<22}{:+.4f} V     ΔG° = -nFE° = {:+.2f} kJ/mol     log K = {:.3f}\n", "E° cell", c.e0_v,
+                       c.delta_g0_kj_per_mol, c.log_k);
+    out += fmt::format("  {:<22}{:+.4f} V     ΔG  = -nFE  = {:+.2f} kJ/mol\n", "E cell (at activities)", c.e_v,
+                       c.delta_g_kj_per_mol);
+    out += "  " + std::string(c.spontaneous ? "runs as written: reduction at the cathode, oxidation at the anode (E > 0)"
+                                            : "runs the other way: the written anode is reduced (E < 0)") + "\n";
+    for (const auto& w : c.warnings) out += "  - " + w + "\n";
     return out;
 }
 

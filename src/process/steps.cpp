@@ -90,6 +90,7 @@ WaterState finish(const thermo::Database& db, const std::string& label, equilibr
     w.gases = in.gases;
     in.minerals.clear();
     in.gases.clear();
+    in.headspace.reset();
     in.label = label;
     w.basis = in;
     w.result = std::move(r);
@@ -136,6 +137,14 @@ WaterState do_equilibrate(const thermo::Database& db, const Step& s, const Equil
                                m.amount_mol_per_kgw, m.direction});
     for (const auto& g : e.gases)
         in.gases.push_back({gas_index(db, g.name, g.where, "gases." + g.name), g.log_partial_pressure_atm});
+    if (e.headspace) {
+        equilibrium::Headspace h;
+        h.volume_l_per_kgw = e.headspace->volume_l_per_kgw;
+        h.temperature_c = e.headspace->temperature_c;
+        for (const auto& g : e.headspace->gases)
+            h.gases.push_back({gas_index(db, g.name, g.where, "headspace.gases." + g.name), g.log_partial_pressure_atm});
+        in.headspace = h;
+    }
     try {
         equilibrium::SpeciationResult r = solve(db, in, &from.result);
         return finish(db, s.label, in, std::move(r));

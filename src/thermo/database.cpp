@@ -28,7 +28,7 @@ struct RawEntry {
 };
 
 const std::vector<std::string> top_keys = {"database", "sources", "components", "species",
-                                           "minerals", "gases", "analytes"};
+                                           "minerals", "gases", "analytes", "electrodes"};
 const std::vector<std::string> common_keys = {"reaction", "log_k", "log_k_fit", "delta_h_kj_per_mol",
                                               "delta_cp_j_per_mol_k", "temperature_range_c", "source",
                                               "from_memory", "note", "ion_size_angstrom",
@@ -60,6 +60,7 @@ public:
         if (const toml::table* t = top.table("minerals")) read_entries(*t, "minerals", minerals_raw_);
         if (const toml::table* t = top.table("gases")) read_entries(*t, "gases", gases_raw_);
         const toml::table* analytes = top.table("analytes");
+        if (const toml::table* t = top.table("electrodes")) read_electrodes(*t);
         top.finish(top_keys);
 
         resolve_species();
@@ -374,6 +375,43 @@ private:
             p.log_k_as_written.terms = {{w, raw.entry.own_log_k}};
             out.push_back(std::move(p));
         }
+    }
+
+    void read_electrodes(const toml::table& t) {
+        for (const auto& [k, v] : t) {
+            const std::string key(k.str());
+            const std::string prefix = tomlu::join_key("electrodes", key);
+            const SourceLocation at = tomlu::where(k.source(), origin_);
+            if (!v.is_table()) throw InputError(at, prefix, "expected a table");
+            tomlu::TableReader r(*v.as_table(), origin_, prefix);
+            Electrode e;
+            e.name = key;
+            e.where = at;
+            e.reaction_text = r.require_string("reaction", "the reduction, e.g. \"Cu^2+ + 2 e- = Cu(s)\"");
+            try {
+                e.reaction = chem::parse_reaction(e.reaction_text);
+            } catch (const chem::ParseError& ex) {
+                r.fail("reaction", std::string("cannot read reaction: ") + ex.what());
+            }
+            double electrons = 0.0;
+            for (const auto& term : e.reaction.terms)
+                if (chem::parse_formula(term.species).is_electron()) electrons -= term.coefficient;
+            if (!(electrons > 0))
+                r.fail("reaction", "an electrode reaction is a reduction with the electrons on the left, e.g. \"Cu^2+ + 2 e- = Cu(s)\"");
+            e.e0_v = r.require_number("e0_v", "the standard potential at 25 degC in V vs SHE");
+            e.de0_dt_v_per_k = r.number("de0_dt_mv_per_k").value_or(0.0) / 1000.0;
+            if (auto range = r.numbers("temperature_range_c", 2)) {
+                if (!((*range)[0] < (*range)[1])) r.fail("temperature_range_c", "expected [min, max] with min < max");
+                e.range = TemperatureRange{(*range)[0], (*range)[1]};
+            }
+            e.source = r.string("source").value_or("");
+            e.from_memory = r.boolean("from_memory").value_or(false);
+            e.note = r.string("note").value_or("");
+            r.finish({"reaction", "e0_v", "de0_dt_mv_per_k", "temperature_range_c", "source", "from_memory", "note"});
+            db_.electrodes_.push_back(std::move(e));
+        }
+        std::stable_sort(db_.electrodes_.begin(), db_.electrodes_.end(),
+                         [](const Electrode& a, const Electrode& b) { return a.where.line < b.where.line; });
     }
 
     void read_analytes(const toml::table& t) {

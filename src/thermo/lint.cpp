@@ -87,6 +87,26 @@ std::vector<LintFinding> Database::lint() const {
         check_name(g, "gases");
         check_entry(g, "gases", true);
     }
+    for (const auto& e : electrodes_) {
+        const std::string key = "electrodes." + e.name;
+        auto err = [&](const std::string& msg) { out.push_back({LintFinding::Level::error, e.where, key, msg}); };
+        if (e.source.empty()) err("no source: every entry names its published source");
+        else if (!find_source(e.source)) {
+            std::string near = nearest_name(e.source, source_keys);
+            err("source '" + e.source + "' is not in [sources]" + (near.empty() ? std::string() : " (did you mean '" + near + "'?)"));
+        }
+        if (!e.range) err("no temperature_range_c: give the range where E°(T) holds");
+        try {
+            const auto bad = chem::imbalance(e.reaction);
+            if (!bad.empty()) {
+                std::string what;
+                for (const auto& [k, v] : bad) what += (what.empty() ? "" : ", ") + k + " " + (v > 0 ? "+" : "") + fmt_number(v);
+                err("reaction '" + e.reaction_text + "' is not balanced (right minus left: " + what + ")");
+            }
+        } catch (const chem::ParseError& ex) {
+            err(std::string("reaction cannot be read: ") + ex.what());
+        }
+    }
     for (const auto& s : sources_)
         if (s.citation.size() < 10)
             out.push_back({LintFinding::Level::error, s.where, "sources." + s.key, "the citation is too short to find the source"});

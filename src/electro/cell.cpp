@@ -1,0 +1,48 @@
+// Cells: two half-reactions, E = E(cathode) - E(anode), n = lcm of their electrons,
+// dG = -nFE, K = exp(nFE°/RT); and reference electrodes (common practice values).
+#include <cmath>
+#include <numeric>
+
+#include "deltag/constants.hpp"
+#include "deltag/electro.hpp"
+
+namespace deltag::electro {
+
+double delta_g_kj(double n, double e_v) { return -n * constants::faraday * e_v / 1000.0; }
+double potential_v(double n, double delta_g_kj_per_mol) { return -delta_g_kj_per_mol * 1000.0 / (n * constants::faraday); }
+
+namespace {
+// Least common multiple of two electron counts (whole numbers in practice; otherwise their product).
+double electron_lcm(double a, double b) {
+    const double ra = std::round(a), rb = std::round(b);
+    if (std::abs(a - ra) < 1e-9 && std::abs(b - rb) < 1e-9 && ra > 0 && rb > 0)
+        return static_cast<double>(std::lcm(static_cast<long>(ra), static_cast<long>(rb)));
+    return a * b;
+}
+}  // namespace
+
+CellResult cell(const HalfCell& cathode, const Activities& cathode_activities, double cathode_temperature_c,
+                const HalfCell& anode, const Activities& anode_activities, double anode_temperature_c) {
+    CellResult c;
+    c.cathode = cathode.text;
+    c.anode = anode.text;
+    c.cathode_origin = cathode.e0_origin;
+    c.anode_origin = anode.e0_origin;
+    c.temperature_c = cathode_temperature_c;
+    c.n = electron_lcm(cathode.electrons, anode.electrons);
+    const SourceLocation cmd{"cell", 0, 0};
+    const double ec = nernst_v(cathode, cathode_temperature_c, cathode_activities, cmd);
+    const double ea = nernst_v(anode, anode_temperature_c, anode_activities, cmd);
+    c.e0_v = cathode.e0_v(cathode_temperature_c) - anode.e0_v(anode_temperature_c);
+    c.e_v = ec - ea;
+    c.delta_g0_kj_per_mol = delta_g_kj(c.n, c.e0_v);
+    c.delta_g_kj_per_mol = delta_g_kj(c.n, c.e_v);
+    c.log_k = c.e0_v * c.n / constants::nernst_slope_v(cathode_temperature_c + constants::zero_celsius_k);
+    c.spontaneous = c.e_v > 0;
+    if (std::abs(cathode_temperature_c - anode_temperature_c) > 1e-9)
+        c.warnings.push_back("the electrodes are at different temperatures: each potential is taken at its own "
+                             "temperature, E° and K at the cathode's; thermal junction potentials are not included");
+    return c;
+}
+
+}  // namespace deltag::electro

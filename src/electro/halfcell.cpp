@@ -1,0 +1,236 @@
+// Half-reactions: reading, E° (from a database electrode, or from the log K of the
+// species), the Nernst potential, and the activities of a speciated water.
+#include <algorithm>
+#include <cmath>
+#include <map>
+#include <sstream>
+
+#include "deltag/constants.hpp"
+#include "deltag/electro.hpp"
+
+namespace deltag::electro {
+
+namespace {
+
+std::string fmt_num(double v) {
+    std::ostringstream o;
+    o.precision(6);
+    o << v;
+    return o.str();
+}
+
+bool ends_with(const std::string& s, std::string_view tail) {
+    return s.size() >= tail.size() && s.compare(s.size() - tail.size(), tail.size(), tail) == 0;
+}
+
+// The term's log K of formation from components, when the database knows the term.
+std::optional<thermo::LogKFunction> formation_log_k(const thermo::Database& db, const HalfTerm& t) {
+    switch (t.kind) {
+        case HalfTerm::Kind::water: {
+            thermo::LogKFunction zero;
+            zero.terms.emplace_back(0.0, thermo::LogKModel{});
+            return zero;
+        }
+        case HalfTerm::Kind::aqueous:
+            if (auto i = db.find_species(t.name)) return db.species()[*i].log_k;
+            return std::nullopt;
+        case HalfTerm::Kind::solid: {
+            const std::string f = chem::ascii_form(t.name.substr(0, t.name.size() - 3));
+            for (const auto& m : db.minerals())
+                if (chem::ascii_form(m.formula.text) == f || m.name == f) {
+                    thermo::LogKFunction out;
+                    out.add(-1.0, m.log_k);
+                    return out;
+                }
+            return std::nullopt;
+        }
+        case HalfTerm::Kind::gas:
+            if (auto g = db.find_gas(t.name)) {
+                thermo::LogKFunction out;
+                out.add(-1.0, db.gases()[*g].log_k);
+                return out;
+            }
+            return std::nullopt;
+    }
+    return std::nullopt;
+}
+
+std::vector<std::string> known_names(const thermo::Database& db) {
+    std::vector<std::string> v = db.species_names();
+    for (const auto& m : db.minerals()) v.push_back(m.formula.text + "(s)");
+    for (const auto& g : db.gases()) v.push_back(g.name);
+    return v;
+}
+
+// Same terms in the same proportion (electrons included)?
+bool same_reaction(const std::map<std::string, double>& a, const std::map<std::string, double>& b) {
+    if (a.size() != b.size() || a.empty()) return false;
+    const double ratio = b.begin()->second / a.begin()->second;
+    for (const auto& [k, v] : a) {
+        auto it = b.find(k);
+        if (it == b.end() || std::abs(it->second - ratio * v) > 1e-9 * std::max(1.0, std::abs(v))) return false;
+    }
+    return ratio > 0;
+}
+
+std::string canonical_term(const std::string& name) {
+    if (name == "H2O(l)") return "H2O";
+    if (ends_with(name, "(aq)")) return name.substr(0, name.size() - 4);
+    return chem::ascii_form(name);
+}
+
+}  // namespace
+
+double HalfCell::e0_v(double temperature_c) const {
+    if (from_species)
+        return constants::nernst_slope_v(temperature_c + constants::zero_celsius_k) / electrons * log_k(temperature_c);
+    return e0_25_v + de0_dt_v_per_k * (temperature_c - 25.0);
+}
+
+HalfCell parse_half_reaction(const thermo::Database& db, const std::string& text, const SourceLocation& where) {
+    const std::string key = "half-reaction";
+    chem::Reaction rx;
+    try {
+        rx = chem::parse_reaction(text);
+    } catch (const chem::ParseError& e) {
+        throw InputError(where, key, std::string("cannot read the half-reaction: ") + e.what());
+    }
+    HalfCell h;
+    h.text = text;
+    double electrons_left = 0.0;
+    for (const auto& t : rx.terms)
+        if (chem::parse_formula(t.species).is_electron()) electrons_left -= t.coefficient;
+    if (electrons_left == 0.0)
+        throw InputError(where, key, "'" + text + "' has no electrons: a half-reaction is written like \"Cu^2+ + 2 e- = Cu(s)\"");
+    const double sign = electrons_left > 0 ? 1.0 : -1.0;  // store as a reduction
+    h.electrons = std::abs(electrons_left);
+    const auto bad = chem::imbalance(rx);
+    if (!bad.empty()) {
+        std::string what;
+        for (const auto& [k, v] : bad) what += (what.empty() ? "" : ", ") + k + " " + (v > 0 ? "+" : "") + fmt_num(v);
+        throw InputError(where, key, "'" + text + "' is not balanced (right minus left: " + what + ")");
+    }
+    std::map<std::string, double> mine;  // canonical name -> coefficient, electrons included
+    std::vector<std::string> unknown;
+    for (const auto& t : rx.terms) {
+        const chem::Formula f = chem::parse_formula(t.species);
+        if (f.is_electron()) {
+            mine["e-"] += sign * t.coefficient;
+            continue;
+        }
+        HalfTerm term;
+        term.name = t.species;
+        term.coefficient = sign * t.coefficient;
+        if (canonical_term(t.species) == "H2O") term.kind = HalfTerm::Kind::water;
+        else if (f.phase == chem::Phase::solid) term.kind = HalfTerm::Kind::solid;
+        else if (f.phase == chem::Phase::gas) term.kind = HalfTerm::Kind::gas;
+        else term.kind = HalfTerm::Kind::aqueous;
+        h.terms.push_back(term);
+        mine[canonical_term(t.species)] += term.coefficient;
+    }
+    // A database electrode with the same reaction gives E° directly.
+    for (const auto& e : db.electrodes()) {
+        std::map<std::string, double> theirs;
+        for (const auto& t : e.reaction.terms) {
+            const chem::Formula f = chem::parse_formula(t.species);
+            theirs[f.is_electron() ? std::string("e-") : canonical_term(t.species)] += t.coefficient;
+        }
+        if (!same_reaction(theirs, mine)) continue;
+        h.e0_25_v = e.e0_v;
+        h.de0_dt_v_per_k = e.de0_dt_v_per_k;
+        const thermo::Source* s = db.find_source(e.source);
+        h.e0_origin = "electrode " + e.name + (s ? " (" + s->key + ")" : std::string());
+        h.from_species = false;
+        return h;
+    }
+    // Otherwise from the species: log K of the reduction = sum of nu * log K of formation.
+    thermo::LogKFunction k;
+    for (const auto& t : h.terms) {
+        auto lk = formation_log_k(db, t);
+        if (!lk) {
+            unknown.push_back(t.name);
+            continue;
+        }
+        k.add(t.coefficient, *lk);
+    }
+    if (!unknown.empty())
+        throw InputError(where, key,
+                         "unknown species '" + unknown.front() + "' in '" + text +
+                             "': it is neither a species, a mineral (as its formula with (s)) nor a gas of the database, and no "
+                             "electrode of the database has this reaction",
+                         nearest_name(unknown.front(), known_names(db)));
+    h.log_k = k;
+    h.from_species = true;
+    h.e0_25_v = h.e0_v(25.0);
+    h.de0_dt_v_per_k = (h.e0_v(26.0) - h.e0_v(24.0)) / 2.0;
+    h.e0_origin = "from log K of the species";
+    return h;
+}
+
+double nernst_v(const HalfCell& h, double temperature_c, const Activities& a, const SourceLocation& where) {
+    double log_q = 0.0;
+    for (const auto& t : h.terms) {
+        auto it = a.find(t.name);
+        if (it == a.end()) it = a.find(canonical_term(t.name));
+        double act = 1.0;
+        if (it != a.end()) {
+            act = it->second;
+        } else if (t.kind == HalfTerm::Kind::aqueous || t.kind == HalfTerm::Kind::gas) {
+            throw InputError(where, t.name,
+                             "no activity for '" + t.name + "' in '" + h.text + "': give it (--activity " + t.name +
+                                 "=VALUE), --ph for H+, or take the activities from a water");
+        }
+        if (!(act > 0) || !std::isfinite(act))
+            throw InputError(where, t.name, "the activity of '" + t.name + "' must be a positive number");
+        log_q += t.coefficient * std::log10(act);
+    }
+    const double slope = constants::nernst_slope_v(temperature_c + constants::zero_celsius_k);
+    return h.e0_v(temperature_c) - slope / h.electrons * log_q;
+}
+
+Activities activities_of(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
+    Activities a;
+    for (const auto& s : r.species) a[s.name] = s.activity;
+    a["H2O"] = r.water_activity;
+    for (const auto& s : r.saturation)
+        if (s.is_gas) a[s.phase] = std::pow(10.0, s.si);
+    if (r.pe) a["e-"] = std::pow(10.0, -*r.pe);
+    (void)db;
+    return a;
+}
+
+std::vector<CoupleEh> couple_potentials(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
+    std::vector<CoupleEh> out;
+    const auto e = db.electron();
+    if (!e) return out;
+    for (const auto& s : r.species) {
+        const thermo::Species& sp = db.species()[s.species];
+        double nu_e = 0.0;
+        std::optional<std::size_t> partner;
+        for (const auto& [j, v] : sp.formation) {
+            if (j == *e) nu_e = v;
+            else if (db.species()[j].role == thermo::ComponentRole::ordinary && !partner) partner = j;
+        }
+        if (nu_e == 0.0 || !(s.activity > 0)) continue;
+        // log a(e) from the species' formation at the water's activities.
+        double rest = std::log10(s.activity) - sp.log_k(r.temperature_c);
+        bool complete = true;
+        for (const auto& [j, v] : sp.formation) {
+            if (j == *e) continue;
+            const double la = j < r.component_log_activity.size() ? r.component_log_activity[j] : std::nan("");
+            if (!std::isfinite(la)) complete = false;
+            rest -= v * la;
+        }
+        if (!complete) continue;
+        const double pe = -(rest / nu_e);
+        const std::string other = partner ? db.species()[*partner].name : std::string("H2O");
+        CoupleEh c;
+        c.couple = nu_e < 0 ? s.name + "/" + other : other + "/" + s.name;  // ox/red
+        c.pe = pe;
+        c.eh_v = eh_from_pe(pe, r.temperature_c);
+        out.push_back(c);
+    }
+    return out;
+}
+
+}  // namespace deltag::electro
