@@ -512,27 +512,6 @@ std::string diagram_svg(const DiagramResult& d) {
         o += line_svg(a.x, a.y, c.x, c.y);
     }
     o += "</g>\n";
-    std::string water_labels;
-    for (const auto& w : d.water_lines) {
-        if (!w.visible) continue;
-        const std::string text = w.name == "H2/H2O" ? "H₂/H₂O" : w.name == "O2/H2O" ? "O₂/H₂O" : w.name;
-        const Px a = to_px(w.from), c = to_px(w.to);
-        const double len = std::hypot(c.x - a.x, c.y - a.y);
-        const double tw = text_width(text, kWaterLabelSize);
-        if (len < tw + 20.0) continue;
-        const double angle = std::atan2(c.y - a.y, c.x - a.x) * 180.0 / 3.14159265358979323846;
-        // O2 above its line near the left end, H2 below its line near the right end.
-        const bool upper = w.name != "H2/H2O";
-        const double along = upper ? 10.0 + 0.5 * tw : len - 10.0 - 0.5 * tw;
-        const double ux = (c.x - a.x) / len, uy = (c.y - a.y) / len;
-        const double nx = uy, ny = -ux;  // normal pointing up on screen for a line going right
-        const double off = upper ? 6.0 : -13.0;
-        const double cx = a.x + ux * along + nx * off, cy = a.y + uy * along + ny * off;
-        water_labels += text_svg(cx, cy, "middle", kWaterLabelSize,
-                                 "transform=\"rotate(" + coord(angle) + " " + coord(cx) + " " + coord(cy) + ")\"", text);
-        taken.push_back(Obstacle{cx - 0.5 * tw - 4.0, cy - 22.0, cx + 0.5 * tw + 4.0, cy + 12.0});
-    }
-
     // ---- water points (placed before region labels so labels can avoid them)
     std::string points_svg;
     for (const auto& p : d.points) {
@@ -540,7 +519,7 @@ std::string diagram_svg(const DiagramResult& d) {
         const double x = px(p.ph), y = py(p.eh_v);
         points_svg += "<circle cx=\"" + coord(x) + "\" cy=\"" + coord(y) +
                       "\" r=\"4.6\" fill=\"#000000\" stroke=\"#FFFFFF\" stroke-width=\"1.6\"/>\n";
-        const double tw = text_width(p.label, kPointLabelSize);
+        const double tw = text_width(p.label, kPointLabelSize, true);
         const bool to_left = x + 9.0 + tw > right - 2.0;
         const double tx = to_left ? x - 9.0 : x + 9.0;
         points_svg += text_svg(tx, y + 4.0, to_left ? "end" : "start", kPointLabelSize,
@@ -550,6 +529,63 @@ std::string diagram_svg(const DiagramResult& d) {
         taken.push_back(Obstacle{x - 7.0, y - 7.0, x + 7.0, y + 7.0});
         taken.push_back(to_left ? Obstacle{tx - tw - 2.0, y - 8.0, tx + 2.0, y + 7.0}
                                 : Obstacle{tx - 2.0, y - 8.0, tx + tw + 2.0, y + 7.0});
+    }
+
+    // Segments a label should not cross: boundaries and water lines, in pixels.
+    struct Seg {
+        Px a, b;
+        bool water;
+    };
+    std::vector<Seg> segs;
+    for (const auto& bd : d.boundaries) segs.push_back({to_px(bd.from), to_px(bd.to), false});
+    for (const auto& w : d.water_lines)
+        if (w.visible) segs.push_back({to_px(w.from), to_px(w.to), true});
+
+    // Water-line labels written along their line: O2 preferably above its line near the left
+    // end, H2 below its line near the right end; the place crossing fewest lines and labels wins.
+    std::string water_labels;
+    for (const auto& w : d.water_lines) {
+        if (!w.visible) continue;
+        const std::string text = w.name == "H2/H2O" ? "H₂/H₂O" : w.name == "O2/H2O" ? "O₂/H₂O" : w.name;
+        const Px a = to_px(w.from), c = to_px(w.to);
+        const double len = std::hypot(c.x - a.x, c.y - a.y);
+        const double tw = text_width(text, kWaterLabelSize) + 4.0, th = 13.0;
+        if (len < tw + 12.0) continue;
+        const double ux = (c.x - a.x) / len, uy = (c.y - a.y) / len;
+        const double nx = uy, ny = -ux;  // the normal pointing up the screen
+        const double angle = std::atan2(uy, ux) * 180.0 / 3.14159265358979323846;
+        const bool o2 = w.name != "H2/H2O";
+        const double pref_t = o2 ? 0.08 : 0.92, pref_side = o2 ? 1.0 : -1.0;
+        double best = std::numeric_limits<double>::infinity();
+        Px best_c{};
+        Obstacle best_box{};
+        for (int k = 0; k <= 48; ++k) {
+            const double along = 6.0 + 0.5 * tw + (len - 12.0 - tw) * k / 48.0;
+            for (double side : {1.0, -1.0}) {
+                const Px ctr{a.x + ux * along + nx * side * (2.5 + 0.5 * th), a.y + uy * along + ny * side * (2.5 + 0.5 * th)};
+                const Obstacle local{-0.5 * tw, -0.5 * th, 0.5 * tw, 0.5 * th};
+                auto to_local = [&](Px p) { return Px{(p.x - ctr.x) * ux + (p.y - ctr.y) * uy, (p.x - ctr.x) * nx + (p.y - ctr.y) * ny}; };
+                double hits = 0.0;
+                for (const auto& sg : segs)
+                    if (segment_hits(to_local(sg.a), to_local(sg.b), local)) hits += 1.0;
+                // Axis-aligned bounds of the turned box: inside the plot, clear of the points.
+                const double hx = 0.5 * (tw * std::abs(ux) + th * std::abs(nx)), hy = 0.5 * (tw * std::abs(uy) + th * std::abs(ny));
+                const Obstacle box{ctr.x - hx, ctr.y - hy, ctr.x + hx, ctr.y + hy};
+                if (box.x0 < left + 2.0 || box.x1 > right - 2.0 || box.y0 < top + 2.0 || box.y1 > bottom - 2.0) hits += 10.0;
+                for (const auto& t : taken)
+                    if (overlaps(box, t)) hits += 1.0;
+                const double score = 100.0 * hits + 10.0 * std::abs(along / len - pref_t) + (side != pref_side ? 2.0 : 0.0);
+                if (score < best) {
+                    best = score;
+                    best_c = ctr;
+                    best_box = box;
+                }
+            }
+        }
+        water_labels += "<text x=\"0\" y=\"" + coord(0.36 * kWaterLabelSize) + "\" font-size=\"" + coord(kWaterLabelSize) +
+                        "\" text-anchor=\"middle\" transform=\"translate(" + coord(best_c.x) + " " + coord(best_c.y) +
+                        ") rotate(" + coord(angle) + ")\">" + xml_escape(text) + "</text>\n";
+        taken.push_back(best_box);
     }
 
     // ---- region labels: the largest clearance inside the region, trying smaller text for
@@ -583,7 +619,7 @@ std::string diagram_svg(const DiagramResult& d) {
         Px best_c = centroid;
         Layout best_l = layouts.back();
         for (const Layout& l : layouts) {
-            const double w = std::max(text_width(name, l.name_size), l.with_formula ? text_width(formula, l.formula_size) : 0.0) + 4.0;
+            const double w = std::max(text_width(name, l.name_size, true), l.with_formula ? text_width(formula, l.formula_size) : 0.0) + 4.0;
             const double h = l.name_size * 1.15 + (l.with_formula ? l.formula_size * 1.2 : 0.0) + 2.0;
             double score_here = -std::numeric_limits<double>::infinity(), clear_here = score_here;
             Px c_here = centroid;
@@ -601,8 +637,11 @@ std::string diagram_svg(const DiagramResult& d) {
                     const Obstacle box{c.x - 0.5 * w, c.y - 0.5 * h, c.x + 0.5 * w, c.y + 0.5 * h};
                     for (const auto& t : taken)
                         if (overlaps(box, t)) cl = std::min(cl, -1.0);
-                    // Enough clearance is as good as more; then nearer the centroid is better.
-                    const double score = std::min(cl, 14.0) - 0.02 * std::hypot(c.x - centroid.x, c.y - centroid.y);
+                    // Enough clearance is as good as more; then nearer the centroid is better,
+                    // and off the water lines.
+                    double score = std::min(cl, 14.0) - 0.02 * std::hypot(c.x - centroid.x, c.y - centroid.y);
+                    for (const auto& sg : segs)
+                        if (sg.water && segment_hits(sg.a, sg.b, box)) score -= 6.0;
                     if (score > score_here) {
                         score_here = score;
                         clear_here = cl;
@@ -625,7 +664,7 @@ std::string diagram_svg(const DiagramResult& d) {
         if (best_l.with_formula)
             labels_svg += text_svg(best_c.x, base + best_l.formula_size * 1.2, "middle", best_l.formula_size,
                                    "fill=\"#333333\" " + halo, formula);
-        const double w = text_width(name, best_l.name_size) + 4.0;
+        const double w = text_width(name, best_l.name_size, true) + 4.0;
         taken.push_back(Obstacle{best_c.x - 0.5 * w, best_c.y - 0.5 * h, best_c.x + 0.5 * w, best_c.y + 0.5 * h});
     }
     o += "<g class=\"region-labels\" fill=\"#1A1A1A\">\n" + labels_svg + "</g>\n";
