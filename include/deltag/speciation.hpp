@@ -76,7 +76,20 @@ struct SpeciationInput {
     activity::ModelKind activity_model = activity::ModelKind::davies;
     std::vector<ComponentInput> components;  // one per component present
     std::optional<double> ph;                // fixed pH; absent: pH from charge balance
-    std::optional<double> pe;                // fixed pe; absent: redox species left out
+    std::optional<double> pe;                // fixed pe; absent: redox species left out ...
+    // ... unless the electrons are conserved instead: sum over species of (e- in its formation
+    // x molality) = electron_total, with the pe free. Process steps carry a water with a pe
+    // this way, so a change of pH does not create oxygen out of nothing.
+    std::optional<double> electron_total;
+    // Redox states of one element given apart (a lab's Fe(2) and Fe(3)): the species of the
+    // element that carry e- use an electron activity of their own, fixed by this total (the
+    // e- of their formations x molality; -Fe(3) for iron), so the element need not be in
+    // redox equilibrium with the rest of the water.
+    struct RedoxSplit {
+        std::size_t component = 0;
+        double electron_total = 0.0;
+    };
+    std::vector<RedoxSplit> redox_splits;
     // With a fixed pH, close the charge balance by adjusting this component's total.
     std::optional<std::size_t> charge_balance_component;
     // The charge balance reads sum(z m) = charge_imbalance_eq (eq/kgw). A lab analysis is
@@ -141,6 +154,9 @@ struct SpeciationResult {
     std::vector<double> component_totals;     // indexed like Database::species(); 0 if absent
     std::vector<bool> component_present;
     std::vector<double> component_log_activity;   // log10 a of each component species (NaN if absent)
+    // Elements with their own electron activity (redox states given apart): component ->
+    // log10 a(e-) of its species, and their electron total.
+    std::vector<std::pair<std::size_t, double>> split_electron_log_activity;
     std::map<std::string, double> element_totals;  // mol/kgw, by element (not H, O)
     double alkalinity_eq = 0.0;               // total alkalinity, eq/kgw
     double cations_meq = 0.0;                 // sum of z*m over cations, meq/kgw

@@ -396,7 +396,7 @@ DiagramResult eh_ph_diagram(const thermo::Database& db, const DiagramSpec& spec)
             continue;
         }
         for (std::size_t j : s.ligands) ligands_used.insert(j);
-        note_temperature(sp.name, sp.log_k);
+        if (i != m_comp) note_temperature(sp.name, sp.log_k);  // the component's own log K is 0
         // Several atoms of the element: the species carries the dissolved amount between its
         // atoms, a(species) = a_d / nu.
         const double log_a = spec.log_activity + gamma.log_gamma(i) - std::log10(s.m);
@@ -533,11 +533,11 @@ DiagramResult eh_ph_diagram(const thermo::Database& db, const DiagramSpec& spec)
                 else only_water = false;
             }
             if (only_water && ne != 0.0) {
-                const double log_k = o2->log_k(temperature_c);
+                const double k_o2 = o2->log_k(temperature_c);
                 // log K = nw log a_w - nh pH - ne pe at p(O2) = 1, so pe = (nw log a_w - log K)/ne - (nh/ne) pH.
-                res.o2_e0_v = slope * (-log_k / ne);
+                res.o2_e0_v = -(slope * k_o2) / ne;
                 res.water_lines.push_back(water_line("O2/H2O", "O2(g) + 4 H+ + 4 e- = 2 H2O",
-                                                     slope * (nw * log_aw - log_k) / ne, -slope * nh / ne, spec.ph_min,
+                                                     slope * (nw * log_aw - k_o2) / ne, -slope * nh / ne, spec.ph_min,
                                                      spec.ph_max, spec.eh_min_v, spec.eh_max_v));
                 note_temperature(o2->name, o2->log_k);
                 done = true;

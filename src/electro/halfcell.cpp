@@ -203,15 +203,25 @@ std::vector<CoupleEh> couple_potentials(const thermo::Database& db, const equili
     std::vector<CoupleEh> out;
     const auto e = db.electron();
     if (!e) return out;
+    std::vector<std::string> seen;
     for (const auto& s : r.species) {
         const thermo::Species& sp = db.species()[s.species];
         double nu_e = 0.0;
         std::optional<std::size_t> partner;
+        int ordinary = 0;
         for (const auto& [j, v] : sp.formation) {
             if (j == *e) nu_e = v;
-            else if (db.species()[j].role == thermo::ComponentRole::ordinary && !partner) partner = j;
+            else if (db.species()[j].role == thermo::ComponentRole::ordinary) {
+                partner = j;
+                ++ordinary;
+            }
         }
-        if (nu_e == 0.0 || !(s.activity > 0)) continue;
+        // One couple per element and direction, from its simplest species (no ligands):
+        // Fe^3+/Fe^2+ rather than each ferric complex, which all give the same Eh.
+        if (nu_e == 0.0 || ordinary > 1 || !(s.activity > 0)) continue;
+        const std::string group = (partner ? db.species()[*partner].name : std::string("H2O")) + (nu_e < 0 ? "+" : "-");
+        if (std::find(seen.begin(), seen.end(), group) != seen.end()) continue;
+        seen.push_back(group);
         // log a(e) from the species' formation at the water's activities.
         double rest = std::log10(s.activity) - sp.log_k(r.temperature_c);
         bool complete = true;

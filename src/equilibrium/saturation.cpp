@@ -13,7 +13,16 @@ std::vector<SaturationResult> saturation_indices(const thermo::Database& db, con
     const double t_k = r.temperature_c + constants::zero_celsius_k;
     auto one = [&](const thermo::PhaseEntry& p, bool gas) {
         double log_iap = 0.0;
+        // The electrons of a phase of an element whose redox states are apart are its own.
+        std::optional<double> own_electrons;
+        for (const auto& [k, la] : r.split_electron_log_activity)
+            for (const auto& [j, v] : p.dissolution)
+                if (j == k) own_electrons = la;
         for (const auto& [j, v] : p.dissolution) {
+            if (own_electrons && db.electron() && j == *db.electron()) {
+                log_iap += v * *own_electrons;
+                continue;
+            }
             if (j >= r.component_present.size() || !r.component_present[j]) return;
             const double la = r.component_log_activity[j];
             if (!std::isfinite(la)) return;

@@ -94,6 +94,11 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
                 la(c) = u[col.unknown] + lg(k);
                 dla(c) = dlg(k);
                 break;
+            case ComponentColumn::Role::electron_unknown:
+            case ComponentColumn::Role::split_electron:
+                la(c) = u[col.unknown];
+                dla(c) = 0.0;
+                break;
             case ComponentColumn::Role::proton_fixed:
                 la(c) = log_a_h_fixed;
                 dla(c) = 0.0;
@@ -149,7 +154,7 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
     g.setZero();
     for (Index c = 0; c < nc; ++c) {
         const ComponentColumn& col = s.columns[c];
-        if (col.role == ComponentColumn::Role::unknown || col.role == ComponentColumn::Role::proton_unknown)
+        if (col.free())
             g.col(col.unknown) += s.nu.col(c);
         else if (col.role == ComponentColumn::Role::water)
             g.col(w_unknown) += s.nu.col(c);
@@ -177,7 +182,7 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
                     const double k = w * gas_moles(static_cast<Index>(q)) * ln10;
                     for (Index c = 0; c < nc; ++c) {
                         const ComponentColumn& col = s.columns[c];
-                        if (col.role == ComponentColumn::Role::unknown || col.role == ComponentColumn::Role::proton_unknown)
+                        if (col.free())
                             J(r, col.unknown) += k * closed[q].nu(c);
                         else if (col.role == ComponentColumn::Role::water)
                             J(r, w_unknown) += k * closed[q].nu(c);
@@ -198,7 +203,7 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
                 J.row(r).setZero();
                 for (Index c = 0; c < nc; ++c) {
                     const ComponentColumn& col = s.columns[c];
-                    if (col.role == ComponentColumn::Role::unknown || col.role == ComponentColumn::Role::proton_unknown)
+                    if (col.free())
                         J(r, col.unknown) += ph.nu(c);
                     else if (col.role == ComponentColumn::Role::water)
                         J(r, w_unknown) += ph.nu(c);
@@ -393,6 +398,9 @@ void validate_input(const thermo::Database& db, const SpeciationInput& in) {
         throw InputError(here, "pH", "expected a pH within 0-14");
     if (in.pe && !std::isfinite(*in.pe)) throw InputError(here, "pe", "expected a finite pe");
     if (in.pe && !db.electron()) throw InputError(here, "pe", "the database has no electron component \"e-\"");
+    if (in.electron_total && (in.pe || !db.electron() || !std::isfinite(*in.electron_total)))
+        throw InputError(here, "electron_total",
+                         "a conserved electron total needs the database's e- and no fixed pe, and must be finite");
     std::vector<bool> seen(db.component_count(), false);
     for (const auto& c : in.components) {
         if (c.component >= db.component_count())
@@ -432,6 +440,16 @@ void validate_input(const thermo::Database& db, const SpeciationInput& in) {
         if (!std::isfinite(g.log_partial_pressure_atm)) throw InputError(here, name, "expected a finite log10 partial pressure");
         for (std::size_t b = 0; b < a; ++b)
             if (in.gases[b].gas == g.gas) throw InputError(here, name, "gas listed twice");
+    }
+    for (const auto& sp : in.redox_splits) {
+        if (!db.electron()) throw InputError(here, "redox state", "the database has no e- for redox states given apart");
+        if (sp.component >= db.component_count() || db.species()[sp.component].role != thermo::ComponentRole::ordinary)
+            throw InputError(here, "redox state", "redox states apart need an ordinary component");
+        if (!std::isfinite(sp.electron_total)) throw InputError(here, "redox state", "expected a finite electron total");
+        bool present = false;
+        for (const auto& c : in.components) present = present || c.component == sp.component;
+        if (!present)
+            throw InputError(here, db.species()[sp.component].name, "redox states given apart for an element with no total");
     }
     if (in.headspace) {
         const Headspace& h = *in.headspace;
@@ -500,7 +518,7 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
     }
     auto phase_row = [&](const thermo::PhaseEntry& ph) {
         Eigen::RowVectorXd nu = Eigen::RowVectorXd::Zero(static_cast<Index>(ncol));
-        for (const auto& [j, v] : ph.dissolution) nu(sys.column_of(j)) = v;
+        for (const auto& [j, v] : ph.dissolution) nu(sys.column_for(j, ph.dissolution)) = v;
         return nu;
     };
     // Fixed phase amounts (exhausted or blocked minerals) add to the totals.
@@ -534,7 +552,7 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
 
     for (std::size_t c = 0; c < ncol; ++c) {
         ComponentColumn& col = sys.columns[c];
-        if (col.role != ComponentColumn::Role::unknown && col.role != ComponentColumn::Role::proton_unknown) continue;
+        if (!col.free()) continue;
         col.unknown = static_cast<int>(p.n++);
         p.column_of_unknown.push_back(static_cast<int>(c));
         p.phase_of_unknown.push_back(-1);
@@ -545,6 +563,23 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
             p.equation.push_back(Equation::charge);
             p.target.push_back(input.charge_imbalance_eq);
             p.scale.push_back(charge_scale);
+            continue;
+        }
+        if (col.role == ComponentColumn::Role::split_electron) {
+            double t = 0.0;
+            for (const auto& sp : input.redox_splits)
+                if (sp.component == col.split_of) t = sp.electron_total;
+            p.equation.push_back(Equation::mass);
+            p.target.push_back(t);
+            p.scale.push_back(std::max(std::abs(t), 1e-12));
+            continue;
+        }
+        if (col.role == ComponentColumn::Role::electron_unknown) {
+            // Electrons conserved: sum(nu_e m) = the electron total (negative for an oxidised water).
+            const double t = *input.electron_total + extra[col.component];
+            p.equation.push_back(Equation::mass);
+            p.target.push_back(t);
+            p.scale.push_back(std::max(std::abs(t), 1e-10));
             continue;
         }
         const ComponentInput* ci = nullptr;
@@ -755,9 +790,19 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
     double log_i = std::numeric_limits<double>::quiet_NaN(), log_w = std::numeric_limits<double>::quiet_NaN();
     std::vector<double> mineral_xi(minerals.size(), 0.0), gas_xi(input.gases.size(), 0.0);
     if (start) {
-        for (std::size_t c = 0; c < ncol; ++c)
+        for (std::size_t c = 0; c < ncol; ++c) {
+            if (sys.columns[c].role == ComponentColumn::Role::electron_unknown) {
+                if (start->pe) col_value[c] = -*start->pe;
+                continue;
+            }
+            if (sys.columns[c].role == ComponentColumn::Role::split_electron) {
+                for (const auto& [k, la] : start->split_electron_log_activity)
+                    if (k == sys.columns[c].split_of) col_value[c] = la;
+                continue;
+            }
             if (const SpeciesResult* sr = start->find(db.species()[sys.columns[c].component].name); sr && sr->molality > 0)
                 col_value[c] = std::log10(sr->molality);
+        }
         log_i = std::log10(std::max(start->ionic_strength, 1e-7));
         log_w = std::log10(std::max(start->water_activity, 1e-3));
         for (std::size_t a = 0; a < minerals.size(); ++a)
@@ -785,6 +830,15 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
                 const std::size_t comp = sys.columns[c].component;
                 const int z = db.species()[comp].formula.charge;
                 double guess = 1e-7;
+                if (sys.columns[c].role == ComponentColumn::Role::split_electron) {
+                    v[e] = -8.0;  // pe 8: between the Fe(II)- and Fe(III)-dominated ranges
+                    continue;
+                }
+                if (sys.columns[c].role == ComponentColumn::Role::electron_unknown) {
+                    // log10 a(e-) = -pe; start from a moderately oxidising pe.
+                    v[e] = start && start->pe ? -*start->pe : -4.0;
+                    continue;
+                }
                 if (static_cast<int>(e) == p.h_unknown) guess = std::pow(10.0, -ph_guess);
                 else if (p.equation[e] == Equation::mass) guess = p.target[e] > 0 ? p.target[e] : 1e-5;  // 1e-5: brought in by a phase
                 else if (p.equation[e] == Equation::alkalinity) guess = std::max(std::abs(p.target[e]), 1e-6);
@@ -853,7 +907,7 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
                 if (ms.status == MineralState::Status::at_target) continue;
                 const thermo::PhaseEntry& ph = db.minerals()[ms.spec.mineral];
                 double si = -ph.log_k(input.temperature_c) - ms.spec.target_si;
-                for (const auto& [j, v] : ph.dissolution) si += v * p.la(sys.column_of(j));
+                for (const auto& [j, v] : ph.dissolution) si += v * p.la(sys.column_for(j, ph.dissolution));
                 const auto dir = ms.spec.direction;
                 const bool may_precipitate = dir != MineralTarget::Direction::dissolve_only;
                 const bool may_dissolve = dir != MineralTarget::Direction::precipitate_only &&
@@ -922,11 +976,16 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
     }
     for (std::size_t c = 0; c < ncol; ++c) {
         const std::size_t comp = sys.columns[c].component;
+        if (sys.columns[c].role == ComponentColumn::Role::split_electron) {
+            res.split_electron_log_activity.emplace_back(sys.columns[c].split_of, p.la(static_cast<Index>(c)));
+            continue;
+        }
         res.component_present[comp] = true;
         res.component_totals[comp] = sys.nu.col(static_cast<Index>(c)).dot(p.m);
         res.component_log_activity[comp] = p.la(static_cast<Index>(c));
     }
     res.ph = -res.component_log_activity[db.proton()];
+    if (input.electron_total && db.electron()) res.pe = -res.component_log_activity[*db.electron()];
     const double sum = res.cations_meq + res.anions_meq;
     res.charge_balance_error_percent = sum > 0 ? 100.0 * (res.cations_meq - res.anions_meq) / sum : 0.0;
 

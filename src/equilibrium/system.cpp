@@ -8,8 +8,18 @@ namespace deltag::equilibrium {
 
 int ChemicalSystem::column_of(std::size_t component) const {
     for (std::size_t c = 0; c < columns.size(); ++c)
-        if (columns[c].component == component) return static_cast<int>(c);
+        if (columns[c].component == component && columns[c].role != ComponentColumn::Role::split_electron)
+            return static_cast<int>(c);
     return -1;
+}
+
+int ChemicalSystem::column_for(std::size_t j, const thermo::Stoichiometry& st) const {
+    if (db->electron() && j == *db->electron())
+        for (std::size_t c = 0; c < columns.size(); ++c)
+            if (columns[c].role == ComponentColumn::Role::split_electron)
+                for (const auto& [k, v] : st)
+                    if (k == columns[c].split_of) return static_cast<int>(c);
+    return column_of(j);
 }
 
 namespace {
@@ -37,8 +47,14 @@ ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& i
     add_column(db.water(), ComponentColumn::Role::water);
     add_column(db.proton(), input.ph ? ComponentColumn::Role::proton_fixed : ComponentColumn::Role::proton_unknown);
     if (input.pe && db.electron()) add_column(*db.electron(), ComponentColumn::Role::electron_fixed);
+    else if (input.electron_total && db.electron()) add_column(*db.electron(), ComponentColumn::Role::electron_unknown);
     for (const auto& ci : input.components)
         if (column[ci.component] < 0) add_column(ci.component, ComponentColumn::Role::unknown);
+    std::vector<int> split_column(nc, -1);  // per split component: its electron column
+    for (const auto& sp : input.redox_splits) {
+        split_column[sp.component] = static_cast<int>(sys.columns.size());
+        sys.columns.push_back({*db.electron(), ComponentColumn::Role::split_electron, -1, sp.component});
+    }
     if (input.charge_balance_component && column[*input.charge_balance_component] < 0)
         add_column(*input.charge_balance_component, ComponentColumn::Role::unknown);
     // Components that only a mineral or a gas brings in (calcite into pure water).
@@ -46,6 +62,9 @@ ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& i
         for (const auto& [j, v] : p.dissolution) {
             if (column[j] >= 0) continue;
             const auto role = db.species()[j].role;
+            bool split = false;
+            for (const auto& [k, w] : p.dissolution) split = split || split_column[k] >= 0;
+            if (role == thermo::ComponentRole::electron && split) continue;
             if (role == thermo::ComponentRole::electron)
                 throw InputError(SourceLocation{input.label, 0, 0}, p.name,
                                  "'" + p.name + "' takes part in redox (its reaction needs e-): give the water a pe");
@@ -64,7 +83,11 @@ ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& i
         const thermo::Species& s = db.species()[i];
         if (s.role == thermo::ComponentRole::water || s.role == thermo::ComponentRole::electron) continue;
         bool ok = true, needs_electron = false, touches_present_element = false;
+        int own_electrons = -1;
+        for (const auto& [j, v] : s.formation)
+            if (split_column[j] >= 0) own_electrons = split_column[j];
         for (const auto& [j, v] : s.formation) {
+            if (own_electrons >= 0 && db.species()[j].role == thermo::ComponentRole::electron) continue;
             if (column[j] < 0) {
                 ok = false;
                 if (db.species()[j].role == thermo::ComponentRole::electron) needs_electron = true;
@@ -97,7 +120,7 @@ ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& i
     for (std::size_t k = 0; k < ns; ++k) {
         const thermo::Species& s = db.species()[sys.species[k]];
         const auto r = static_cast<Eigen::Index>(k);
-        for (const auto& [j, v] : s.formation) sys.nu(r, column[j]) = v;
+        for (const auto& [j, v] : s.formation) sys.nu(r, sys.column_for(j, s.formation)) = v;
         sys.log_k(r) = s.is_component ? 0.0 : s.log_k(input.temperature_c);
         sys.charge(r) = s.formula.charge;
         sys.alkalinity(r) = s.alkalinity;

@@ -19,8 +19,17 @@ namespace deltag::equilibrium {
 // Columns of the stoichiometry: the components in play.
 struct ComponentColumn {
     std::size_t component;  // database index
-    enum class Role { unknown, proton_unknown, proton_fixed, water, electron_fixed } role;
+    // unknown: log10 molality of the component's species is an unknown; proton_unknown: the
+    // same for H+ (pH from the charge balance); electron_unknown: log10 a(e-) is an unknown
+    // (the electrons are conserved instead of the pe being fixed).
+    // split_electron: the electrons of one element's species, with their own activity.
+    enum class Role { unknown, proton_unknown, proton_fixed, water, electron_fixed, electron_unknown, split_electron } role;
     int unknown = -1;       // index into the unknown vector, if any
+    std::size_t split_of = static_cast<std::size_t>(-1);  // split_electron: the element's component
+    bool free() const {
+        return role == Role::unknown || role == Role::proton_unknown || role == Role::electron_unknown ||
+               role == Role::split_electron;
+    }
 };
 
 struct ChemicalSystem {
@@ -38,6 +47,9 @@ struct ChemicalSystem {
     std::vector<std::string> warnings;       // from the build (T ranges, redox species left out)
 
     int column_of(std::size_t component) const;
+    // The column of component j within a reaction with stoichiometry st: e- of a reaction
+    // that involves a split element goes to that element's electron column.
+    int column_for(std::size_t j, const thermo::Stoichiometry& st) const;
 };
 
 // Builds the system for the components present in `input`.

@@ -233,7 +233,11 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
                              nearest_name(a.name, db.analyte_names()));
         const thermo::Analyte& an = db.analytes()[*ai];
         const auto [it, fresh] = by_component.emplace(an.component, &a);
-        if (!fresh) {
+        // Redox states of one element (Fe(2), Fe(3)) share a component; anything else doesn't.
+        const bool states = an.kind == thermo::Analyte::Kind::redox_state &&
+                            db.analytes()[*db.find_analyte(it->second->name)].kind == thermo::Analyte::Kind::redox_state &&
+                            it->second->name != a.name;
+        if (!fresh && !states) {
             const AnalyteValue& first = *it->second;
             throw InputError(a.where, analyte_key(water, a),
                              first.name + " (line " + std::to_string(first.where.line) + ") and " + a.name +
@@ -295,16 +299,35 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
         in.pe = (std::log10(m_o2) - log_k) / 4.0 - *water.ph;
     }
     in.kg_water_per_litre = water_per_litre;
+    std::map<std::size_t, std::pair<double, double>> states;  // component -> total, electrons
+    std::map<std::size_t, int> state_count;
     for (const auto& c : converted) {
         double molality = c.amount;
         if (c.basis == Basis::per_litre) molality = c.amount / water_per_litre;
         if (c.basis == Basis::per_kg_solution) molality = c.amount * rho / water_per_litre;
+        if (c.analyte->kind == thermo::Analyte::Kind::redox_state) {
+            auto& [tot, el] = states[c.analyte->component];
+            tot += molality;
+            el += c.analyte->electrons * molality;
+            if (molality > 0) state_count[c.analyte->component] += 1;
+            continue;
+        }
         if (molality > 0.0) {
             const auto kind = c.analyte->kind == thermo::Analyte::Kind::alkalinity
                                   ? ComponentInput::Kind::alkalinity
                                   : ComponentInput::Kind::total;
             in.components.push_back(ComponentInput{c.analyte->component, kind, molality});
         }
+    }
+    // Redox states given apart: the element's total, and its electrons as a split.
+    for (const auto& [comp, te] : states) {
+        if (state_count[comp] < 2)
+            throw InputError(by_component[comp]->where, analyte_key(water, *by_component[comp]),
+                             "redox states of one element are given apart only in pairs (for example Fe(2) and "
+                             "Fe(3), both above 0); for one state alone, give the element's total (" +
+                                 db.species()[comp].name + ") instead");
+        in.components.push_back(ComponentInput{comp, ComponentInput::Kind::total, te.first});
+        in.redox_splits.push_back({comp, te.second});
     }
 
     // Charge balance. No choice and no measured pH: balance on pH (as the case reader does).

@@ -251,7 +251,12 @@ std::string line_svg(double x1, double y1, double x2, double y2, std::string_vie
 
 std::string path_of(const std::vector<Px>& pts, bool close) {
     std::string d;
-    for (std::size_t i = 0; i < pts.size(); ++i) d += (i ? "L" : "M") + coord(pts[i].x) + " " + coord(pts[i].y);
+    for (std::size_t i = 0; i < pts.size(); ++i) {
+        d += i ? 'L' : 'M';
+        d += coord(pts[i].x);
+        d += ' ';
+        d += coord(pts[i].y);
+    }
     if (close) d += "Z";
     return d;
 }
@@ -300,7 +305,7 @@ std::string pattern_defs() {
         o += "<pattern id=\"" + class_fill_id(k) +
              "\" patternUnits=\"userSpaceOnUse\" width=\"7\" height=\"7\" patternTransform=\"rotate(" + coord(cs.angle) +
              ")\"><rect width=\"7\" height=\"7\" fill=\"" + std::string(cs.tint) + "\"/><line x1=\"0\" y1=\"0\" x2=\"0\" y2=\"7\" stroke=\"" +
-             std::string(cs.hatch) + "\" stroke-opacity=\"0.55\" stroke-width=\"1.3\"/></pattern>\n";
+             std::string(cs.hatch) + "\" stroke-opacity=\"0.45\" stroke-width=\"1.2\"/></pattern>\n";
     }
     return o;
 }
@@ -405,55 +410,7 @@ std::string diagram_svg(const DiagramResult& d) {
         legend_lines.push_back(std::move(lines));
     }
 
-    // ---- title, subtitle, note
-    const std::string title = "Eh–pH diagram of " + d.element + " at " + temperature_text(d.temperature_c);
-    std::string subtitle;
-    if (d.molality)
-        subtitle = "in water '" + d.water_label + "': dissolved " + d.element + " species at " +
-                   power_of_ten(d.log_activity) + " mol/kgw each, with the water's activity coefficients; a(H₂O) = " +
-                   fixed(d.water_activity, 4);
-    else
-        subtitle = "dissolved " + d.element + " species at activity " + power_of_ten(d.log_activity) +
-                   " each; solids, metal and water at unit activity";
-    std::string note = "Lines: two dissolved species at equal activity, or a solid at saturation (database '" + d.database +
-                       "', component " + chem::pretty(d.component) + "). Dashed: H₂/H₂O and O₂/H₂O at 1 atm";
-    if (d.o2_e0_v) note += ", E°(O₂/H₂O) = " + fixed(*d.o2_e0_v, 3) + " V at this temperature";
-    note += ".";
-    std::vector<std::string> outside;
-    for (const auto& p : d.points)
-        if (p.ph < d.ph_min || p.ph > d.ph_max || p.eh_v < d.eh_min_v || p.eh_v > d.eh_max_v) outside.push_back(p.label);
-    if (!outside.empty()) {
-        note += " Outside the diagram, not drawn:";
-        for (std::size_t i = 0; i < outside.size(); ++i) note += (i ? ", '" : " '") + outside[i] + "'";
-        note += ".";
-    }
-    const auto subtitle_lines = wrap(subtitle, static_cast<std::size_t>((kWidth - 40.0) / (0.6 * kSubtitleSize)));
-    const auto note_lines = wrap(note, static_cast<std::size_t>((kWidth - 40.0) / (0.6 * kNoteSize)));
-    const double title_block = 28.0 + 16.0 * static_cast<double>(subtitle_lines.size());
-    const double shift = std::max(0.0, title_block + 24.0 - top);  // more subtitle lines push the plot down
-    const double note_top = bottom + shift + 58.0;
-    const double height =
-        std::max(note_top + 13.0 * static_cast<double>(note_lines.size()) + 10.0, top + shift + legend_h + 20.0);
-
-    std::string o;
-    o += "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"" + coord(kWidth) + "\" height=\"" + coord(height) +
-         "\" viewBox=\"0 0 " + coord(kWidth) + " " + coord(height) + "\" font-family=\"" + std::string(kFont) +
-         "\" role=\"img\">\n";
-    o += "<title>" + xml_escape(title) + "</title>\n<desc>" + xml_escape(subtitle + ". " + note) + "</desc>\n";
-    o += "<defs>\n<clipPath id=\"" + std::string(kIdPrefix) + "area\"><rect x=\"" + coord(left) + "\" y=\"" + coord(top) +
-         "\" width=\"" + coord(kPlotSize) + "\" height=\"" + coord(kPlotSize) + "\"/></clipPath>\n";
-    if (d.shading) o += pattern_defs();
-    o += "</defs>\n";
-    o += "<rect width=\"" + coord(kWidth) + "\" height=\"" + coord(height) + "\" fill=\"#FFFFFF\"/>\n";
-
-    o += "<g class=\"title\" fill=\"#1A1A1A\">\n";
-    o += text_svg(20.0, 28.0, "start", kTitleSize, "font-weight=\"bold\"", title);
-    for (std::size_t i = 0; i < subtitle_lines.size(); ++i)
-        o += text_svg(20.0, 48.0 + 16.0 * static_cast<double>(i), "start", kSubtitleSize, "fill=\"#333333\"",
-                      subtitle_lines[i]);
-    o += "</g>\n";
-    if (shift > 0.0) o += "<g transform=\"translate(0 " + coord(shift) + ")\">\n";
-
+    std::string body;  // the plot, its labels, the axes and the legend, under the title block
     // ---- regions, with shades alternating between neighbours of one kind
     std::map<std::string, std::size_t> index;
     for (std::size_t i = 0; i < d.regions.size(); ++i) index[d.regions[i].name] = i;
@@ -474,44 +431,44 @@ std::string diagram_svg(const DiagramResult& d) {
         variant[i] = v;
     }
     std::vector<std::vector<Px>> pixel_polys;
-    o += "<g class=\"regions\" clip-path=\"url(#" + std::string(kIdPrefix) + "area)\">\n";
+    body += "<g class=\"regions\" clip-path=\"url(#" + std::string(kIdPrefix) + "area)\">\n";
     for (std::size_t i = 0; i < d.regions.size(); ++i) {
         const Region& r = d.regions[i];
         std::vector<Px> pp;
         for (const auto& p : r.polygon) pp.push_back(to_px(p));
         const std::string fill = fill_of(d, r.kind, variant[i]);
-        o += "<path class=\"region " + std::string(electro::corrosion_class(r.kind)) + "\" d=\"" + path_of(pp, true) +
+        body += "<path class=\"region " + std::string(electro::corrosion_class(r.kind)) + "\" d=\"" + path_of(pp, true) +
              "\" fill=\"" + fill + "\" stroke=\"" + (fill.rfind("url(", 0) == 0 ? std::string(class_style(r.kind).tint) : fill) +
              "\" stroke-width=\"0.6\"><title>" + xml_escape(display_name(r)) + "</title></path>\n";
         pixel_polys.push_back(std::move(pp));
     }
-    o += "</g>\n";
+    body += "</g>\n";
 
     // ---- grid over the tints, faint
-    o += "<g class=\"grid\" stroke=\"#000000\" stroke-opacity=\"0.08\" stroke-width=\"1\">\n";
-    for (double t : xticks) o += line_svg(px(t), top, px(t), bottom);
-    for (double t : yticks) o += line_svg(left, py(t), right, py(t));
-    o += "</g>\n";
+    body += "<g class=\"grid\" stroke=\"#000000\" stroke-opacity=\"0.08\" stroke-width=\"1\">\n";
+    for (double t : xticks) body += line_svg(px(t), top, px(t), bottom);
+    for (double t : yticks) body += line_svg(left, py(t), right, py(t));
+    body += "</g>\n";
 
     // ---- boundaries
-    o += "<g class=\"boundaries\" stroke=\"" + std::string(kBoundary) +
+    body += "<g class=\"boundaries\" stroke=\"" + std::string(kBoundary) +
          "\" stroke-width=\"1.7\" stroke-linecap=\"round\" clip-path=\"url(#" + std::string(kIdPrefix) + "area)\">\n";
     for (const auto& b : d.boundaries) {
         const Px a = to_px(b.from), c = to_px(b.to);
-        o += line_svg(a.x, a.y, c.x, c.y);
+        body += line_svg(a.x, a.y, c.x, c.y);
     }
-    o += "</g>\n";
+    body += "</g>\n";
 
     // ---- water lines
     std::vector<Obstacle> taken;  // label boxes placed so far (pixels)
-    o += "<g class=\"water-lines\" stroke=\"" + std::string(kWaterLine) +
+    body += "<g class=\"water-lines\" stroke=\"" + std::string(kWaterLine) +
          "\" stroke-width=\"1.6\" stroke-dasharray=\"8 5\" clip-path=\"url(#" + std::string(kIdPrefix) + "area)\">\n";
     for (const auto& w : d.water_lines) {
         if (!w.visible) continue;
         const Px a = to_px(w.from), c = to_px(w.to);
-        o += line_svg(a.x, a.y, c.x, c.y);
+        body += line_svg(a.x, a.y, c.x, c.y);
     }
-    o += "</g>\n";
+    body += "</g>\n";
     // ---- water points (placed before region labels so labels can avoid them)
     std::string points_svg;
     for (const auto& p : d.points) {
@@ -591,6 +548,7 @@ std::string diagram_svg(const DiagramResult& d) {
     // ---- region labels: the largest clearance inside the region, trying smaller text for
     // small regions
     std::string labels_svg;
+    std::vector<std::string> unlabelled;
     for (std::size_t i = 0; i < d.regions.size(); ++i) {
         const Region& r = d.regions[i];
         const auto& poly = pixel_polys[i];
@@ -655,7 +613,19 @@ std::string diagram_svg(const DiagramResult& d) {
                 break;
             }
         }
-        if (!placed) best_c = centroid;  // too small for any layout: the centroid, smallest text
+        if (!placed) {
+            // Too small for any layout: named in the note with where it is, not inside.
+            double lo_ph = r.polygon.front().ph, hi_ph = lo_ph, lo_eh = r.polygon.front().eh_v, hi_eh = lo_eh;
+            for (const auto& p : r.polygon) {
+                lo_ph = std::min(lo_ph, p.ph);
+                hi_ph = std::max(hi_ph, p.ph);
+                lo_eh = std::min(lo_eh, p.eh_v);
+                hi_eh = std::max(hi_eh, p.eh_v);
+            }
+            unlabelled.push_back(name + " (pH " + minus(fixed(lo_ph, 2)) + "–" + minus(fixed(hi_ph, 2)) + ", Eh " +
+                                 minus(fixed(lo_eh, 2)) + " to " + minus(fixed(hi_eh, 2)) + " V)");
+            continue;
+        }
         const double h = best_l.name_size * 1.15 + (best_l.with_formula ? best_l.formula_size * 1.2 : 0.0);
         const double base = best_c.y - 0.5 * h + best_l.name_size * 0.9;
         const std::string halo =
@@ -667,42 +637,42 @@ std::string diagram_svg(const DiagramResult& d) {
         const double w = text_width(name, best_l.name_size, true) + 4.0;
         taken.push_back(Obstacle{best_c.x - 0.5 * w, best_c.y - 0.5 * h, best_c.x + 0.5 * w, best_c.y + 0.5 * h});
     }
-    o += "<g class=\"region-labels\" fill=\"#1A1A1A\">\n" + labels_svg + "</g>\n";
-    o += "<g class=\"water-line-labels\" fill=\"" + std::string(kWaterLine) + "\" font-style=\"italic\">\n" + water_labels +
+    body += "<g class=\"region-labels\" fill=\"#1A1A1A\">\n" + labels_svg + "</g>\n";
+    body += "<g class=\"water-line-labels\" fill=\"" + std::string(kWaterLine) + "\" font-style=\"italic\">\n" + water_labels +
          "</g>\n";
-    if (!points_svg.empty()) o += "<g class=\"water-points\">\n" + points_svg + "</g>\n";
+    if (!points_svg.empty()) body += "<g class=\"water-points\">\n" + points_svg + "</g>\n";
 
     // ---- frame and axes
-    o += "<g class=\"axes\" fill=\"#333333\">\n<g stroke=\"#333333\" stroke-width=\"1\">\n";
-    o += "<rect x=\"" + coord(left) + "\" y=\"" + coord(top) + "\" width=\"" + coord(kPlotSize) + "\" height=\"" +
+    body += "<g class=\"axes\" fill=\"#333333\">\n<g stroke=\"#333333\" stroke-width=\"1\">\n";
+    body += "<rect x=\"" + coord(left) + "\" y=\"" + coord(top) + "\" width=\"" + coord(kPlotSize) + "\" height=\"" +
          coord(kPlotSize) + "\" fill=\"none\"/>\n";
-    for (double t : xticks) o += line_svg(px(t), bottom, px(t), bottom + 5.0);
-    for (double t : yticks) o += line_svg(left - 5.0, py(t), left, py(t));
-    for (double t : peticks) o += line_svg(right, py(t * d.nernst_slope_v), right + 5.0, py(t * d.nernst_slope_v));
-    o += "</g>\n";
-    for (double t : xticks) o += text_svg(px(t), bottom + 18.0, "middle", kTickSize, "", minus(tick_label(t, xstep, xmag)));
-    for (double t : yticks) o += text_svg(left - 8.0, py(t) + 4.0, "end", kTickSize, "", minus(tick_label(t, ystep, ymag)));
+    for (double t : xticks) body += line_svg(px(t), bottom, px(t), bottom + 5.0);
+    for (double t : yticks) body += line_svg(left - 5.0, py(t), left, py(t));
+    for (double t : peticks) body += line_svg(right, py(t * d.nernst_slope_v), right + 5.0, py(t * d.nernst_slope_v));
+    body += "</g>\n";
+    for (double t : xticks) body += text_svg(px(t), bottom + 18.0, "middle", kTickSize, "", minus(tick_label(t, xstep, xmag)));
+    for (double t : yticks) body += text_svg(left - 8.0, py(t) + 4.0, "end", kTickSize, "", minus(tick_label(t, ystep, ymag)));
     for (double t : peticks)
-        o += text_svg(right + 8.0, py(t * d.nernst_slope_v) + 4.0, "start", kTickSize, "",
+        body += text_svg(right + 8.0, py(t * d.nernst_slope_v) + 4.0, "start", kTickSize, "",
                       minus(tick_label(t, pestep, pemag)));
-    o += text_svg(0.5 * (left + right), bottom + 40.0, "middle", kAxisTitleSize, "fill=\"#1A1A1A\"", "pH");
+    body += text_svg(0.5 * (left + right), bottom + 40.0, "middle", kAxisTitleSize, "fill=\"#1A1A1A\"", "pH");
     {
         const double cx = 24.0, cy = 0.5 * (top + bottom);
-        o += text_svg(cx, cy, "middle", kAxisTitleSize,
+        body += text_svg(cx, cy, "middle", kAxisTitleSize,
                       "fill=\"#1A1A1A\" transform=\"rotate(-90 " + coord(cx) + " " + coord(cy) + ")\"", "Eh (V vs SHE)");
         const double rx = right + 44.0;
-        o += text_svg(rx, cy, "middle", kAxisTitleSize,
+        body += text_svg(rx, cy, "middle", kAxisTitleSize,
                       "fill=\"#1A1A1A\" transform=\"rotate(-90 " + coord(rx) + " " + coord(cy) + ")\"",
                       "pe = Eh F / (RT ln 10)");
     }
-    o += "</g>\n";
+    body += "</g>\n";
 
     // ---- legend
     {
         const double lx = legend_x, ly = top;
-        o += "<g class=\"legend\">\n<rect x=\"" + coord(lx) + "\" y=\"" + coord(ly) + "\" width=\"" + coord(legend_w) +
+        body += "<g class=\"legend\">\n<rect x=\"" + coord(lx) + "\" y=\"" + coord(ly) + "\" width=\"" + coord(legend_w) +
              "\" height=\"" + coord(legend_h) + "\" rx=\"3\" fill=\"#FFFFFF\" stroke=\"#C8C8C8\" stroke-width=\"1\"/>\n";
-        o += text_svg(lx + kLegendPad, ly + kLegendPad + 10.0, "start", kLegendSize, "font-weight=\"bold\" fill=\"#1A1A1A\"",
+        body += text_svg(lx + kLegendPad, ly + kLegendPad + 10.0, "start", kLegendSize, "font-weight=\"bold\" fill=\"#1A1A1A\"",
                       d.shading ? "Key: corrosion classes" : "Key");
         double y = ly + kLegendPad + 10.0 + 18.0 + 9.0;
         for (std::size_t i = 0; i < legend.size(); ++i) {
@@ -710,30 +680,85 @@ std::string diagram_svg(const DiagramResult& d) {
             const double mid = y - 4.0, sx = lx + kLegendPad;
             switch (it.sample) {
                 case LegendItem::Sample::fill:
-                    o += "<rect x=\"" + coord(sx) + "\" y=\"" + coord(mid - 7.0) + "\" width=\"" + coord(kSampleW) +
+                    body += "<rect x=\"" + coord(sx) + "\" y=\"" + coord(mid - 7.0) + "\" width=\"" + coord(kSampleW) +
                          "\" height=\"14\" fill=\"" + it.fill + "\" stroke=\"#555555\" stroke-width=\"0.8\"/>\n";
                     break;
                 case LegendItem::Sample::line:
-                    o += line_svg(sx, mid, sx + kSampleW, mid,
+                    body += line_svg(sx, mid, sx + kSampleW, mid,
                                   "stroke=\"" + std::string(kBoundary) + "\" stroke-width=\"1.7\"");
                     break;
                 case LegendItem::Sample::dashed:
-                    o += line_svg(sx, mid, sx + kSampleW, mid,
+                    body += line_svg(sx, mid, sx + kSampleW, mid,
                                   "stroke=\"" + std::string(kWaterLine) + "\" stroke-width=\"1.6\" stroke-dasharray=\"8 5\"");
                     break;
                 case LegendItem::Sample::dot:
-                    o += "<circle cx=\"" + coord(sx + 0.5 * kSampleW) + "\" cy=\"" + coord(mid) +
+                    body += "<circle cx=\"" + coord(sx + 0.5 * kSampleW) + "\" cy=\"" + coord(mid) +
                          "\" r=\"4.6\" fill=\"#000000\" stroke=\"#FFFFFF\" stroke-width=\"1.6\"/>\n";
                     break;
             }
             for (const auto& line : legend_lines[i]) {
-                o += text_svg(sx + kSampleW + 8.0, y, "start", kLegendSize, "fill=\"#1A1A1A\"", line);
+                body += text_svg(sx + kSampleW + 8.0, y, "start", kLegendSize, "fill=\"#1A1A1A\"", line);
                 y += kLegendLine;
             }
             y += kLegendGap;
         }
-        o += "</g>\n";
+        body += "</g>\n";
     }
+    // ---- title, subtitle, note
+    const std::string title = "Eh–pH diagram of " + d.element + " at " + temperature_text(d.temperature_c);
+    std::string subtitle;
+    if (d.molality)
+        subtitle = "in water '" + d.water_label + "': dissolved " + d.element + " species at " +
+                   power_of_ten(d.log_activity) + " mol/kgw each, with the water's activity coefficients; a(H₂O) = " +
+                   fixed(d.water_activity, 4);
+    else
+        subtitle = "dissolved " + d.element + " species at activity " + power_of_ten(d.log_activity) +
+                   " each; solids, metal and water at unit activity";
+    std::string note = "Lines: two dissolved species at equal activity, or a solid at saturation (database '" + d.database +
+                       "', component " + chem::pretty(d.component) + "). Dashed: H₂/H₂O and O₂/H₂O at 1 atm";
+    if (d.o2_e0_v) note += ", E°(O₂/H₂O) = " + fixed(*d.o2_e0_v, 3) + " V at this temperature";
+    note += ".";
+    std::vector<std::string> outside;
+    for (const auto& p : d.points)
+        if (p.ph < d.ph_min || p.ph > d.ph_max || p.eh_v < d.eh_min_v || p.eh_v > d.eh_max_v) outside.push_back(p.label);
+    if (!outside.empty()) {
+        note += " Outside the diagram, not drawn:";
+        for (std::size_t i = 0; i < outside.size(); ++i) note += (i ? ", '" : " '") + outside[i] + "'";
+        note += ".";
+    }
+    if (!unlabelled.empty()) {
+        note += " Too small to name inside:";
+        for (std::size_t i = 0; i < unlabelled.size(); ++i) note += (i ? "; " : " ") + unlabelled[i];
+        note += ".";
+    }
+    const auto subtitle_lines = wrap(subtitle, static_cast<std::size_t>((kWidth - 40.0) / (0.6 * kSubtitleSize)));
+    const auto note_lines = wrap(note, static_cast<std::size_t>((kWidth - 40.0) / (0.6 * kNoteSize)));
+    const double title_block = 28.0 + 16.0 * static_cast<double>(subtitle_lines.size());
+    const double shift = std::max(0.0, title_block + 24.0 - top);  // more subtitle lines push the plot down
+    const double note_top = bottom + shift + 58.0;
+    const double height =
+        std::max(note_top + 13.0 * static_cast<double>(note_lines.size()) + 10.0, top + shift + legend_h + 20.0);
+
+    std::string o;
+    o += "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"" + coord(kWidth) + "\" height=\"" + coord(height) +
+         "\" viewBox=\"0 0 " + coord(kWidth) + " " + coord(height) + "\" font-family=\"" + std::string(kFont) +
+         "\" role=\"img\">\n";
+    o += "<title>" + xml_escape(title) + "</title>\n<desc>" + xml_escape(subtitle + ". " + note) + "</desc>\n";
+    o += "<defs>\n<clipPath id=\"" + std::string(kIdPrefix) + "area\"><rect x=\"" + coord(left) + "\" y=\"" + coord(top) +
+         "\" width=\"" + coord(kPlotSize) + "\" height=\"" + coord(kPlotSize) + "\"/></clipPath>\n";
+    if (d.shading) o += pattern_defs();
+    o += "</defs>\n";
+    o += "<rect width=\"" + coord(kWidth) + "\" height=\"" + coord(height) + "\" fill=\"#FFFFFF\"/>\n";
+
+    o += "<g class=\"title\" fill=\"#1A1A1A\">\n";
+    o += text_svg(20.0, 28.0, "start", kTitleSize, "font-weight=\"bold\"", title);
+    for (std::size_t i = 0; i < subtitle_lines.size(); ++i)
+        o += text_svg(20.0, 48.0 + 16.0 * static_cast<double>(i), "start", kSubtitleSize, "fill=\"#333333\"",
+                      subtitle_lines[i]);
+    o += "</g>\n";
+    if (shift > 0.0) o += "<g transform=\"translate(0 " + coord(shift) + ")\">\n";
+
+    o += body;
     if (shift > 0.0) o += "</g>\n";
 
     // ---- note

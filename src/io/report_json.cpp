@@ -78,6 +78,22 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
     }
     j["transfers"] = transfers;
     j["gases"] = gases;
+    {
+        ordered_json redox;
+        if (r.pe) {
+            const double eh = electro::eh_from_pe(*r.pe, r.temperature_c);
+            redox["eh_v"] = finite(eh, "Eh");
+            ordered_json scales = ordered_json::object();
+            for (const auto& ref : electro::reference_electrodes())
+                scales[ref.name] = finite(electro::convert_v(eh, "SHE", ref.name, r.temperature_c, SourceLocation{"report", 0, 0}), "Eh");
+            redox["eh_v_vs"] = scales;
+        }
+        ordered_json couples = ordered_json::array();
+        for (const auto& c : electro::couple_potentials(db, r))
+            couples.push_back({{"couple", c.couple}, {"eh_v", finite(c.eh_v, c.couple)}, {"pe", finite(c.pe, c.couple)}});
+        redox["couples"] = couples;
+        j["redox"] = redox;
+    }
     if (item.indices && item.indices->available) {
         const auto& ix = *item.indices;
         j["indices"] = {{"langelier", finite(ix.langelier, "Langelier index")},

@@ -142,7 +142,7 @@ std::string saturation_block(const equilibrium::SpeciationResult& r) {
 }
 
 std::string indices_block(const process::Indices& ix) {
-    if (!ix.available) return "  " + pad("water-treatment indices", 22) + "not available: " + ix.why_not + "\n";
+    if (!ix.available) return "  " + pad("indices (LSI, RSI)", 22) + "not available: " + ix.why_not + "\n";
     std::string out;
     out += "  " + pad("Langelier index", 22) +
            fmt::format("{:+.2f} (pHs {:.2f}; Standard Methods 2330, pHs from the speciation)\n", ix.langelier, ix.ph_s);
@@ -150,6 +150,35 @@ std::string indices_block(const process::Indices& ix) {
     out += "  " + pad("CCPP", 22) +
            fmt::format("{:+.2f} mg/L as CaCO3 ({})\n", ix.ccpp_mg_per_l,
                        ix.ccpp_mg_per_l > 0 ? "would precipitate" : ix.ccpp_mg_per_l < 0 ? "would dissolve" : "at equilibrium");
+    return out;
+}
+
+// The water's Eh on the usual scales, and the Eh each redox couple present implies.
+std::string redox_block(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
+    const auto couples = electro::couple_potentials(db, r);
+    if (!r.pe && couples.empty()) return "";
+    std::string out = "Redox\n";
+    if (r.pe) {
+        const double eh = electro::eh_from_pe(*r.pe, r.temperature_c);
+        const SourceLocation here{"report", 0, 0};
+        out += fmt::format("  Eh {:+.3f} V vs SHE = {:+.3f} V vs SCE = {:+.3f} V vs Ag/AgCl(sat KCl) = {:+.3f} V vs "
+                           "Cu/CuSO4(sat) at {:.1f} °C (pe {:.2f})\n",
+                           eh, electro::convert_v(eh, "SHE", "SCE", r.temperature_c, here),
+                           electro::convert_v(eh, "SHE", "Ag/AgCl(sat KCl)", r.temperature_c, here),
+                           electro::convert_v(eh, "SHE", "Cu/CuSO4(sat)", r.temperature_c, here), r.temperature_c, *r.pe);
+    }
+    if (!couples.empty()) {
+        out += "  Eh each couple implies (equal values: the couples are in equilibrium with each other)\n";
+        out += "  " + pad("couple", 24) + fmt::format("{:>12}{:>10}\n", "Eh (V)", "pe");
+        for (const auto& c : couples)
+        {
+            const auto slash = c.couple.find('/');
+            const std::string shown = slash == std::string::npos
+                                          ? chem::pretty(c.couple)
+                                          : chem::pretty(c.couple.substr(0, slash)) + "/" + chem::pretty(c.couple.substr(slash + 1));
+            out += "  " + pad(shown, 24) + fmt::format("{:>+12.3f}{:>10.2f}\n", c.eh_v, c.pe);
+        }
+    }
     return out;
 }
 
@@ -207,6 +236,8 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx, co
         out += "\n";
         const std::string transfers = transfers_block(db, r);
         if (!transfers.empty()) out += transfers + "\n";
+        const std::string redox = redox_block(db, r);
+        if (!redox.empty()) out += redox + "\n";
         out += totals_block(r) + "\n";
         out += species_block(db, r) + "\n";
         out += saturation_block(r);

@@ -279,7 +279,10 @@ WaterState do_blend(const thermo::Database& db, const Step& s, const BlendStep& 
     in.components.clear();
     in.charge_imbalance_eq = 0.0;
     in.temperature_c = 0.0;
-    std::optional<double> pe = parts.front()->basis.pe;
+    // Electrons mix like any total; a water without a redox level has its elements in the
+    // components' redox states, i.e. an electron total of 0.
+    bool any_redox = false;
+    double electrons = 0.0;
     for (std::size_t k = 0; k < parts.size(); ++k) {
         const double f = w[k] / sum;
         const auto& pb = parts[k]->basis;
@@ -287,14 +290,16 @@ WaterState do_blend(const thermo::Database& db, const Step& s, const BlendStep& 
         in.charge_imbalance_eq += f * pb.charge_imbalance_eq;
         // Heat capacities taken equal: the mixing temperature is the mass-weighted mean.
         in.temperature_c += f * pb.temperature_c;
-        if (pb.pe != pe) pe.reset();
+        if (pb.electron_total) {
+            any_redox = true;
+            electrons += f * *pb.electron_total;
+        }
     }
-    in.pe = pe;
+    in.pe.reset();
+    in.electron_total.reset();
+    if (any_redox) in.electron_total = electrons;
     equilibrium::SpeciationResult r = solve(db, in, &parts.front()->result);
-    WaterState out = finish(db, s.label, in, std::move(r));
-    if (!in.pe && parts.front()->basis.pe)
-        out.result.warnings.push_back("the blended waters have different pe: the blend is solved without a redox level");
-    return out;
+    return finish(db, s.label, in, std::move(r));
 }
 
 WaterState do_concentrate(const thermo::Database& db, const Step& s, const ConcentrateStep& c, const WaterState& from) {
@@ -302,6 +307,7 @@ WaterState do_concentrate(const thermo::Database& db, const Step& s, const Conce
     in.label = s.label;
     for (auto& comp : in.components) comp.value *= c.factor;
     in.charge_imbalance_eq *= c.factor;
+    if (in.electron_total) *in.electron_total *= c.factor;
     in.minerals.clear();
     in.gases.clear();
     for (std::size_t k = 0; k < c.precipitate.size(); ++k) {
@@ -365,8 +371,13 @@ WaterState state_from_result(const equilibrium::SpeciationResult& r, const equil
     w.basis.minerals.clear();
     w.basis.gases.clear();
     take_totals(db, r, w.basis);
-    // The charge imbalance of the analysis, in eq/kgw, is what the steps conserve.
+    // The charge imbalance of the analysis, in eq/kgw, is what the steps conserve; and with a
+    // redox level, its electrons (oxygen, ferric iron, ...) rather than its pe.
     w.basis.charge_imbalance_eq = (r.cations_meq - r.anions_meq) / 1000.0;
+    if (input.pe && db.electron()) {
+        w.basis.pe.reset();
+        w.basis.electron_total = r.component_totals[*db.electron()];
+    }
     w.basis.kg_water_per_litre = r.kg_water_per_litre;
     w.result = r;
     w.indices = water_treatment_indices(db, w);

@@ -25,6 +25,7 @@ struct RawEntry {
     std::string key_prefix;      // "species.\"CaHCO3+\"" for messages
     SourceLocation reaction_where;
     double ion_size = nan, tj_a = nan, tj_b = nan, salting_out = nan, alkalinity = 0.0;
+    std::optional<double> alkalinity_override;
 };
 
 const std::vector<std::string> top_keys = {"database", "sources", "components", "species",
@@ -227,6 +228,12 @@ private:
             read_log_k(r, raw);
             std::vector<std::string> allowed = common_keys;
             if (mineral) allowed.push_back("formula");
+            if (table_name == "species") {
+                // A redox species' alkalinity does not follow from its formation (the electron
+                // has no proton count of its own): give it.
+                if (auto alk = r.number("alkalinity")) raw.alkalinity_override = *alk;
+                allowed.push_back("alkalinity");
+            }
             r.finish(allowed);
             out.push_back(std::move(raw));
         }
@@ -332,6 +339,7 @@ private:
             s.tj_b = raw.tj_b;
             s.salting_out = raw.salting_out;
             for (const auto& [j, v] : s.formation) s.alkalinity += v * db_.species_[j].alkalinity;
+            if (raw.alkalinity_override) s.alkalinity = *raw.alkalinity_override;
             if (!index_.count(s.name)) index_[s.name] = db_.species_.size();
             db_.species_.push_back(std::move(s));
         }
@@ -434,11 +442,17 @@ private:
             const std::string kind = r.string("kind").value_or("total");
             if (kind == "total") a.kind = Analyte::Kind::total;
             else if (kind == "alkalinity") a.kind = Analyte::Kind::alkalinity;
-            else r.fail("kind", "expected \"total\" or \"alkalinity\"", nearest_name(kind, {"total", "alkalinity"}));
+            else if (kind == "redox_state") a.kind = Analyte::Kind::redox_state;
+            else r.fail("kind", "expected \"total\", \"alkalinity\" or \"redox_state\"",
+                        nearest_name(kind, {"total", "alkalinity", "redox_state"}));
+            if (a.kind == Analyte::Kind::redox_state)
+                a.electrons = r.require_number("electrons", "the e- per atom in the formation of this state's species (Fe(3): -1)");
+            else if (r.has("electrons"))
+                r.fail("electrons", "electrons belongs to an analyte of kind \"redox_state\"");
             const std::string mf = r.string("mass_formula").value_or(key);
             a.mass_formula = guard_formula(r.location("mass_formula"), prefix + ".mass_formula",
                                            [&] { return chem::parse_formula(mf); });
-            r.finish({"component", "kind", "mass_formula"});
+            r.finish({"component", "kind", "mass_formula", "electrons"});
             // Components per formula unit of the mass formula, by the component's first
             // element other than H and O (SiO2 -> H4SiO4: 1).
             const chem::Formula& cf = db_.species_[a.component].formula;
