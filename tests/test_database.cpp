@@ -1299,7 +1299,7 @@ TEST_CASE("loader errors: analytes") {
     SUBCASE("bad kind, with suggestion") {
         const std::string text = base + "\n[analytes.Alkalinity]\ncomponent = \"HCO3-\"\nkind = \"alkalinty\"\nmass_formula = \"HCO3\"\n";
         auto e = load_error(text);
-        check_error(e, text, "kind = ", "analytes.Alkalinity.kind", "expected \"total\" or \"alkalinity\"");
+        check_error(e, text, "kind = ", "analytes.Alkalinity.kind", "expected \"total\", \"alkalinity\" or \"redox_state\"");
         CHECK(e->suggestion() == "alkalinity");
     }
     SUBCASE("bad mass formula") {
@@ -1661,4 +1661,17 @@ ion_size_angstrom = 3.5
 )toml";
     check_error(load_error(text), text, "log_k_model = ", "species.OH-.log_k_model",
                 "is only for the reaction \"H2O = OH- + H+\"");
+}
+
+TEST_CASE("loader: redox-state analytes need their electrons, others may not have them") {
+    const std::string base = fixture_sources + fixture_h2o + fixture_proton + fixture_ions + fixture_species;
+    const std::string missing = base + "\n[analytes.\"Ca(2)\"]\ncomponent = \"Ca^2+\"\nkind = \"redox_state\"\n";
+    check_error(load_error(missing), missing, "[analytes.\"Ca(2)\"]", "analytes.\"Ca(2)\".electrons", "missing");
+    const std::string stray = base + "\n[analytes.Ca]\ncomponent = \"Ca^2+\"\nelectrons = 0\n";
+    check_error(load_error(stray), stray, "electrons = 0", "analytes.Ca.electrons", "belongs to an analyte of kind");
+    // The species alkalinity given for a redox species overrides the derived one.
+    const Database& db = Database::embedded();
+    CHECK(species(db, "HS-").alkalinity == 1.0);
+    CHECK(species(db, "O2(aq)").alkalinity == 0.0);
+    CHECK(species(db, "NH3(aq)").alkalinity == 1.0);
 }

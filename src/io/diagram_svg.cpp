@@ -202,11 +202,23 @@ double clearance(const std::vector<Px>& poly, Px p) {
     return best;
 }
 
-// The smallest clearance of the corners of a w x h box centred at c.
-double box_clearance(const std::vector<Px>& poly, Px c, double w, double h) {
-    double m = std::numeric_limits<double>::infinity();
+// The corners of a w x h box centred at c, turned by angle_deg (SVG rotate: clockwise on
+// screen).
+std::array<Px, 4> box_corners(Px c, double w, double h, double angle_deg) {
+    const double a = angle_deg * 3.14159265358979323846 / 180.0;
+    const double ux = std::cos(a), uy = std::sin(a);
+    std::array<Px, 4> out{};
+    std::size_t k = 0;
     for (double sx : {-0.5, 0.5})
-        for (double sy : {-0.5, 0.5}) m = std::min(m, clearance(poly, Px{c.x + sx * w, c.y + sy * h}));
+        for (double sy : {-0.5, 0.5})
+            out[k++] = Px{c.x + sx * w * ux - sy * h * uy, c.y + sx * w * uy + sy * h * ux};
+    return out;
+}
+
+// The smallest clearance of the corners of a box.
+double box_clearance(const std::vector<Px>& poly, const std::array<Px, 4>& corners) {
+    double m = std::numeric_limits<double>::infinity();
+    for (const Px& p : corners) m = std::min(m, clearance(poly, p));
     return m;
 }
 
@@ -545,8 +557,8 @@ std::string diagram_svg(const DiagramResult& d) {
         taken.push_back(best_box);
     }
 
-    // ---- region labels: the largest clearance inside the region, trying smaller text for
-    // small regions
+    // ---- region labels: the largest clearance inside the region, trying smaller text, then
+    // text turned along a narrow region, for small regions
     std::string labels_svg;
     std::vector<std::string> unlabelled;
     for (std::size_t i = 0; i < d.regions.size(); ++i) {
@@ -554,17 +566,37 @@ std::string diagram_svg(const DiagramResult& d) {
         const auto& poly = pixel_polys[i];
         const std::string name = display_name(r);
         const std::string formula = display_formula(r);
+        // The direction of the region's longest edge, for text along a band.
+        double band = 0.0, longest = 0.0;
+        for (std::size_t k = 0; k < poly.size(); ++k) {
+            const Px& p = poly[k];
+            const Px& q = poly[(k + 1) % poly.size()];
+            const double len = std::hypot(q.x - p.x, q.y - p.y);
+            if (len > longest) {
+                longest = len;
+                band = std::atan2(q.y - p.y, q.x - p.x) * 180.0 / 3.14159265358979323846;
+            }
+        }
+        while (band > 90.0) band -= 180.0;
+        while (band <= -90.0) band += 180.0;
+        if (band > 89.0 || band < -89.0) band = -90.0;  // vertical text reads upwards
+        std::vector<double> turned = {-90.0};
+        if (std::abs(band) > 8.0 && std::abs(band + 90.0) > 1.0) turned.insert(turned.begin(), band);
         struct Layout {
             double name_size, formula_size;
             bool with_formula;
+            double angle;
         };
         std::vector<Layout> layouts;
-        if (!formula.empty()) layouts.push_back({12.5, 10.5, true});
-        layouts.push_back({12.5, 0.0, false});
-        if (!formula.empty()) layouts.push_back({10.5, 9.0, true});
-        layouts.push_back({10.5, 0.0, false});
-        layouts.push_back({9.0, 0.0, false});
-        layouts.push_back({8.0, 0.0, false});
+        if (!formula.empty()) layouts.push_back({12.5, 10.5, true, 0.0});
+        layouts.push_back({12.5, 0.0, false, 0.0});
+        if (!formula.empty()) layouts.push_back({10.5, 9.0, true, 0.0});
+        layouts.push_back({10.5, 0.0, false, 0.0});
+        layouts.push_back({9.0, 0.0, false, 0.0});
+        for (double a : turned) layouts.push_back({10.5, 0.0, false, a});
+        for (double a : turned) layouts.push_back({9.0, 0.0, false, a});
+        layouts.push_back({8.0, 0.0, false, 0.0});
+        for (double a : turned) layouts.push_back({8.0, 0.0, false, a});
         double minx = std::numeric_limits<double>::infinity(), maxx = -minx, miny = minx, maxy = -minx;
         for (const Px& p : poly) {
             minx = std::min(minx, p.x);
@@ -587,12 +619,15 @@ std::string diagram_svg(const DiagramResult& d) {
                     if (gx < 0 && gy > 0) continue;  // gx = -1: the centroid itself
                     const Px c = gx < 0 ? centroid
                                         : Px{minx + (maxx - minx) * gx / kGrid, miny + (maxy - miny) * gy / kGrid};
-                    double cl = box_clearance(poly, c, w, h);
+                    const auto corners = box_corners(c, w, h, l.angle);
+                    double cl = box_clearance(poly, corners);
                     // Keep clear of the frame, the water-line labels, the water points and the
                     // labels placed before.
-                    cl = std::min({cl, c.x - 0.5 * w - left, right - (c.x + 0.5 * w), c.y - 0.5 * h - top,
-                                   bottom - (c.y + 0.5 * h)});
-                    const Obstacle box{c.x - 0.5 * w, c.y - 0.5 * h, c.x + 0.5 * w, c.y + 0.5 * h};
+                    Obstacle box{c.x, c.y, c.x, c.y};
+                    for (const Px& q : corners) {
+                        cl = std::min({cl, q.x - left, right - q.x, q.y - top, bottom - q.y});
+                        box = Obstacle{std::min(box.x0, q.x), std::min(box.y0, q.y), std::max(box.x1, q.x), std::max(box.y1, q.y)};
+                    }
                     for (const auto& t : taken)
                         if (overlaps(box, t)) cl = std::min(cl, -1.0);
                     // Enough clearance is as good as more; then nearer the centroid is better,
@@ -630,12 +665,18 @@ std::string diagram_svg(const DiagramResult& d) {
         const double base = best_c.y - 0.5 * h + best_l.name_size * 0.9;
         const std::string halo =
             "stroke=\"#FFFFFF\" stroke-opacity=\"0.85\" stroke-width=\"3\" stroke-linejoin=\"round\" paint-order=\"stroke\"";
-        labels_svg += text_svg(best_c.x, base, "middle", best_l.name_size, "font-weight=\"bold\" " + halo, name);
+        const std::string turn = best_l.angle == 0.0 ? std::string()
+                                                     : " transform=\"rotate(" + coord(best_l.angle) + " " + coord(best_c.x) +
+                                                           " " + coord(best_c.y) + ")\"";
+        labels_svg += text_svg(best_c.x, base, "middle", best_l.name_size, "font-weight=\"bold\" " + halo + turn, name);
         if (best_l.with_formula)
             labels_svg += text_svg(best_c.x, base + best_l.formula_size * 1.2, "middle", best_l.formula_size,
-                                   "fill=\"#333333\" " + halo, formula);
+                                   "fill=\"#333333\" " + halo + turn, formula);
         const double w = text_width(name, best_l.name_size, true) + 4.0;
-        taken.push_back(Obstacle{best_c.x - 0.5 * w, best_c.y - 0.5 * h, best_c.x + 0.5 * w, best_c.y + 0.5 * h});
+        Obstacle box{best_c.x, best_c.y, best_c.x, best_c.y};
+        for (const Px& q : box_corners(best_c, w, h, best_l.angle))
+            box = Obstacle{std::min(box.x0, q.x), std::min(box.y0, q.y), std::max(box.x1, q.x), std::max(box.y1, q.y)};
+        taken.push_back(box);
     }
     body += "<g class=\"region-labels\" fill=\"#1A1A1A\">\n" + labels_svg + "</g>\n";
     body += "<g class=\"water-line-labels\" fill=\"" + std::string(kWaterLine) + "\" font-style=\"italic\">\n" + water_labels +
