@@ -4,6 +4,7 @@
 
 #include <sys/wait.h>
 
+#include <cmath>
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
@@ -327,4 +328,147 @@ svg = "scan-out.svg"
     CHECK(doc["results"][2]["dose"]["reagent"] == "H2SO4");
     CHECK(std::abs(doc["results"][2]["indices"]["langelier"].get<double>()) < 1e-6);
     CHECK(doc["sweeps"][0]["x"].size() == 4);
+}
+
+TEST_CASE("cell: Cu-Zn at unit activities with the core database, text and JSON") {
+    // E° = 0.3419 - (-0.7618) = 1.1037 V, dG° = -213.0 kJ/mol (Bard, Parsons & Jordan 1985).
+    const std::string args = "cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --activity 'Cu^2+=1' --activity 'Zn^2+=1'";
+    const Run t = deltag(args);
+    CHECK(t.code == 0);
+    CHECK(has(t.out, "+1.1037 V"));
+    CHECK(has(t.out, "Caution"));
+    const Run j = deltag(args + " --format json");
+    REQUIRE(j.code == 0);
+    const auto doc = nlohmann::json::parse(j.out);
+    REQUIRE(doc["cells"].size() == 1);
+    const auto& c = doc["cells"][0];
+    CHECK(c["n_electrons"].get<double>() == 2.0);
+    CHECK(c["e0_v"].get<double>() == doctest::Approx(1.1037).epsilon(1e-4));
+    CHECK(c["delta_g0_kj_per_mol"].get<double>() == doctest::Approx(-213.0).epsilon(0.5 / 213));
+    CHECK(c["spontaneous"] == true);
+    // --ph gives H+: the O2/H2O couple against the hydrogen electrode at pH 7 is 1.229 V (pH cancels).
+    const Run o = deltag("cell --cathode 'O2(g) + 4 H+ + 4 e- = 2 H2O' --anode '2 H+ + 2 e- = H2(g)' --ph 7 --activity 'O2(g)=1' --activity 'H2(g)=1' --format json");
+    REQUIRE(o.code == 0);
+    CHECK(nlohmann::json::parse(o.out)["cells"][0]["e_v"].get<double>() == doctest::Approx(1.229).epsilon(0.002 / 1.229));
+}
+
+TEST_CASE("cell: activities from a water of a case") {
+    const fs::path p = write("cellwater.toml", good_case);
+    const Run r = deltag("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --water '" + p.string() +
+                         ":tap' --activity 'Cu^2+=1e-6' --activity 'Zn^2+=1e-6'");
+    CHECK(r.code == 0);
+    CHECK(has(r.out, "at 20.0 °C"));
+    const Run bad = deltag("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --water '" + p.string() + ":tapp'");
+    CHECK(bad.code == 2);
+    CHECK(has(bad.err, "did you mean 'tap'"));
+    CHECK(deltag("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --water nocolon").code == 2);
+    CHECK(deltag("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --water '" + p.string() +
+                 ":tap' --temperature-c 30").code == 2);
+    CHECK(deltag("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --water '" + p.string() + ":tap' --ph 7").code == 2);
+}
+
+TEST_CASE("cell: bad half-reactions and activities exit 2 with a clear message") {
+    auto fails = [](const std::string& args, const char* fragment) {
+        const Run r = deltag(args);
+        CHECK(r.code == 2);
+        CHECK(r.out.empty());
+        CHECK(has(r.err, fragment));
+    };
+    fails("cell --cathode 'Cu^2+ + e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)'", "not balanced");
+    fails("cell --cathode 'Cu^2+ = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)'", "no electrons");
+    fails("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Qq^2+ + 2 e- = Qq(s)'", "cannot read the half-reaction");
+    fails("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Ag+ + e- = Agg(s)'", "cannot read");
+    fails("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --activity 'Cu^2+=1'", "no activity for 'Zn^2+'");
+    fails("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --activity 'Cu^2+'", "expected SPECIES=VALUE");
+    fails("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --activity 'Cu^2+=-3'", "must be a positive number");
+    fails("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --temperature-c 150", "0-100");
+    fails("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --ph 15", "pH within 0-14");
+}
+
+TEST_CASE("potential: SCE to SHE +0.241 V at 25 degC; JSON keys; unknown electrodes exit 2") {
+    // SCE +0.241 V vs SHE at 25 degC (common practice, check-values.md).
+    const Run j = deltag("potential 0 --from SCE --to SHE --format json");
+    REQUIRE(j.code == 0);
+    const auto doc = nlohmann::json::parse(j.out);
+    CHECK(doc["value_v"].get<double>() == doctest::Approx(0.241));
+    CHECK(doc["from"] == "SCE");
+    CHECK(doc["to"] == "SHE");
+    CHECK(doc["temperature_c"].get<double>() == 25.0);
+    const Run t = deltag("potential 0.25 --from 'Ag/AgCl(sat KCl)' --to 'Cu/CuSO4(sat)' --temperature-c 30");
+    CHECK(t.code == 0);
+    CHECK(has(t.out, "pe"));
+    const Run bad = deltag("potential 0.1 --from SCEE --to SHE");
+    CHECK(bad.code == 2);
+    CHECK(has(bad.err, "did you mean 'SCE'"));
+    CHECK(deltag("potential 0.1 --from SCE").code == 2);
+    CHECK(deltag("potential --from SCE --to SHE").code == 2);
+    CHECK(deltag("potential 0.1 --from SCE --to SHE --temperature-c 120").code == 2);
+    // dG to E: -213 kJ/mol with n = 2 is 1.1038 V.
+    const Run g = deltag("potential --delta-g-kj -213 --electrons 2 --format json");
+    REQUIRE(g.code == 0);
+    CHECK(nlohmann::json::parse(g.out)["e_v"].get<double>() == doctest::Approx(1.10379).epsilon(1e-5));
+    CHECK(deltag("potential --delta-g-kj -213").code == 2);
+    CHECK(deltag("potential 0.3 --delta-g-kj -213 --electrons 2").code == 2);
+}
+
+TEST_CASE("run: cells and diagrams of a case, JSON and files") {
+    const fs::path p = write("electro.toml", R"toml(
+title = "electro test (invented)"
+[water.a]
+pH = 7.5
+dissolved_oxygen_mg_per_l = 8
+units = "mg/L"
+[water.a.analytes]
+Na = 20
+Cl = 30
+Cu = 0.05
+Fe = 0.1
+Alkalinity = { value = 50, as = "CaCO3" }
+[water.s]
+pH = 7.5
+dissolved_oxygen_mg_per_l = 0.5
+units = "mg/L"
+[water.s.analytes]
+Na = 20
+Cl = 30
+Alkalinity = { value = 50, as = "CaCO3" }
+
+[[cell]]
+label = "aeration"
+cathode = { half_reaction = "O2(g) + 4 H+ + 4 e- = 2 H2O", water = "a" }
+anode = { half_reaction = "O2(g) + 4 H+ + 4 e- = 2 H2O", water = "s" }
+
+[[diagram]]
+label = "fe"
+element = "Fe"
+water = "a"
+points = ["a", "s"]
+svg = "fe-test.svg"
+csv = "fe-test.csv"
+)toml");
+    const Run r = deltag("run '" + p.string() + "' --format json");
+    REQUIRE(r.code == 0);
+    const auto doc = nlohmann::json::parse(r.out);
+    REQUIRE(doc["cells"].size() == 1);
+    // Same pH: E = (RT/4F) ln(p_O2,a / p_O2,s) = (0.0591597/4) log10(8 / 0.5) = 0.01781 V
+    // (dissolved oxygen proportional to its pressure, Henry's law; gamma(O2) taken as 1).
+    CHECK(doc["cells"][0]["e_v"].get<double>() == doctest::Approx(0.0591597 / 4 * std::log10(8.0 / 0.5)).epsilon(0.01));
+    CHECK(doc["results"][0]["redox"]["couples"].size() > 0);
+    CHECK(doc["results"][0]["redox"]["eh_v_vs"].contains("SCE"));
+    CHECK(fs::exists(scratch() / "fe-test.svg"));
+    CHECK(slurp(scratch() / "fe-test.csv").rfind("region_a,region_b", 0) == 0);
+    // A point without a redox level is refused.
+    const fs::path q = write("electro2.toml", R"toml(
+[water.a]
+pH = 7
+[water.a.analytes]
+Na = 1
+Cl = 1
+[[diagram]]
+element = "Fe"
+points = ["a"]
+)toml");
+    const Run bad = deltag("run '" + q.string() + "'");
+    CHECK(bad.code == 2);
+    CHECK(has(bad.err, "has no redox level"));
 }

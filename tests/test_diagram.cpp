@@ -776,6 +776,11 @@ TEST_CASE("SVG picture with shading classes") {
     CHECK(svg.find("corrosion") != std::string::npos);
     CHECK(svg.find("<pattern") != std::string::npos);
     CHECK(svg.find("class=\"region immunity\"") != std::string::npos);
+    // The corrosion engineer's classes of the three kinds of region (common practice).
+    CHECK(deltag::electro::corrosion_class(RegionKind::metal) == "immunity");
+    CHECK(deltag::electro::corrosion_class(RegionKind::solid) == "passivation");
+    CHECK(deltag::electro::corrosion_class(RegionKind::aqueous) == "corrosion");
+    CHECK(deltag::electro::region_kind_name(RegionKind::aqueous) == "dissolved");
 }
 
 TEST_CASE("SVG picture: a region too small to name inside is named in the note") {

@@ -32,7 +32,7 @@ struct HalfCell {
     double electrons = 0.0;          // n, electrons taken up by the reduction as written
     double e0_25_v = 0.0;            // E at 25 degC, V vs SHE
     double de0_dt_v_per_k = 0.0;     // temperature coefficient
-    std::string e0_origin;           // "electrode NAME (source)" or "from log K of the species"
+    std::string e0_origin;           // "electrode NAME (source)" or "the log K of the species"
     thermo::LogKFunction log_k;      // of the reduction as written, when derived from species
     bool from_species = false;
 

@@ -3,6 +3,7 @@
 #include <CLI/CLI.hpp>
 #include <fmt/format.h>
 
+#include <algorithm>
 #include <cmath>
 #include <filesystem>
 #include <fstream>
@@ -12,6 +13,8 @@
 #include "deltag/case.hpp"
 #include "deltag/constants.hpp"
 #include "deltag/database.hpp"
+#include "deltag/diagram.hpp"
+#include "deltag/diagram_io.hpp"
 #include "deltag/electro.hpp"
 #include "deltag/process.hpp"
 #include "deltag/report.hpp"
@@ -172,6 +175,40 @@ int cmd_run(const std::string& case_path, const std::string& format, const std::
     std::vector<electro::CellResult> cells;
     for (const auto& spec : c.cells) cells.push_back(run_cell(k, spec));
     std::vector<io::DiagramReport> diagrams;
+    for (const auto& d : c.diagrams) {
+        electro::DiagramSpec spec;
+        spec.label = d.label;
+        spec.element = d.element;
+        spec.log_activity = d.log_activity;
+        spec.ph_min = d.ph_min;
+        spec.ph_max = d.ph_max;
+        spec.eh_min_v = d.eh_min_v;
+        spec.eh_max_v = d.eh_max_v;
+        spec.shading = d.shading;
+        spec.where = d.where;
+        if (!d.water.empty()) {
+            const process::WaterState* w = k.find(d.water);
+            if (!w) throw InputError(d.water_where, "water", "no water or step is called '" + d.water + "'", nearest_name(d.water, k.labels()));
+            spec.water = &w->result;
+            // The diagram is at the water's temperature; a different one given is refused by the module.
+            if (d.temperature_c && std::abs(*d.temperature_c - w->result.temperature_c) > 1e-9) spec.temperature_c = d.temperature_c;
+        } else {
+            spec.temperature_c = d.temperature_c;
+        }
+        for (std::size_t i = 0; i < d.points.size(); ++i) {
+            const process::WaterState* w = k.find(d.points[i]);
+            const SourceLocation at = i < d.point_where.size() ? d.point_where[i] : d.where;
+            if (!w) throw InputError(at, "points", "no water or step is called '" + d.points[i] + "'", nearest_name(d.points[i], k.labels()));
+            if (!w->result.pe)
+                throw InputError(at, "points", "'" + d.points[i] + "' has no redox level (pe, eh_mv or dissolved oxygen) to place it on the diagram");
+            spec.points.push_back({d.points[i], w->result.ph, electro::eh_from_pe(*w->result.pe, w->result.temperature_c)});
+        }
+        const electro::DiagramResult result = electro::eh_ph_diagram(db, spec);
+        io::DiagramReport rep{d.label, place(d.svg_path, d.label, ".svg"), place(d.csv_path, d.label, ".csv"), result.warnings};
+        files.emplace_back(rep.svg_path, io::diagram_svg(result));
+        files.emplace_back(rep.csv_path, io::diagram_csv(result));
+        diagrams.push_back(std::move(rep));
+    }
     io::ReportContext ctx{c.title, case_path, k.l.name, DELTAG_VERSION, verbose};
     std::string text;
     if (format == "text") text = io::text_report(db, ctx, items, sweeps, cells, diagrams);
@@ -345,11 +382,28 @@ int cmd_database_show(const std::string& name, const std::string& db_path) {
         fn = &p.log_k;
         kind = "gas";
         resolved = formation_text(db, p.dissolution, p.name, true);
+    } else if (auto el = std::find_if(db.electrodes().begin(), db.electrodes().end(),
+                                      [&](const thermo::Electrode& x) { return x.name == name; });
+               el != db.electrodes().end()) {
+        std::string out = fmt::format("{} (electrode), {}\n", el->name, el->where.to_string());
+        out += fmt::format("  reaction         {}\n", el->reaction_text);
+        out += fmt::format("  E°               {:+.4f} V vs SHE at 25 °C, dE°/dT {:+.3f} mV/K\n", el->e0_v, el->de0_dt_v_per_k * 1000);
+        out += "  E°(T)            ";
+        for (double t : {0.0, 25.0, 50.0, 100.0}) out += fmt::format("  {:g} °C: {:+.4f} V", t, el->e0_v + el->de0_dt_v_per_k * (t - 25.0));
+        out += "\n";
+        if (el->range) out += fmt::format("  valid            {:g} to {:g} °C\n", el->range->min_c, el->range->max_c);
+        const thermo::Source* src = db.find_source(el->source);
+        out += fmt::format("  source           {}{}\n", src ? src->citation : el->source,
+                           el->from_memory ? " (value written from memory of the source)" : "");
+        if (!el->note.empty()) out += fmt::format("  note             {}\n", el->note);
+        std::cout << out;
+        return exit_ok;
     } else {
         std::vector<std::string> all = db.species_names();
         for (auto& n : db.mineral_names()) all.push_back(n);
         for (auto& n : db.gas_names()) all.push_back(n);
-        throw InputError(SourceLocation{"command line", 0, 0}, name, "no species, mineral or gas of this name in " + l.name,
+        for (const auto& x : db.electrodes()) all.push_back(x.name);
+        throw InputError(SourceLocation{"command line", 0, 0}, name, "no species, mineral, gas or electrode of this name in " + l.name,
                          nearest_name(name, all));
     }
     std::string out = fmt::format("{} ({}), {}\n", e->name, kind, e->where.to_string());

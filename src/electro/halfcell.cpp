@@ -163,7 +163,7 @@ HalfCell parse_half_reaction(const thermo::Database& db, const std::string& text
     h.from_species = true;
     h.e0_25_v = h.e0_v(25.0);
     h.de0_dt_v_per_k = (h.e0_v(26.0) - h.e0_v(24.0)) / 2.0;
-    h.e0_origin = "from log K of the species";
+    h.e0_origin = "the log K of the species";
     return h;
 }
 

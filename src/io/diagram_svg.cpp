@@ -42,9 +42,9 @@ constexpr std::string_view kIdPrefix = "deltag-eh-ph-";
 // Okabe-Ito based colours.
 constexpr std::string_view kBoundary = "#1A1A1A";
 constexpr std::string_view kWaterLine = "#0072B2";
-constexpr std::array<std::string_view, 3> kAqueousTints = {"#DCEEF9", "#C6E3F5", "#ECF6FC"};
-constexpr std::array<std::string_view, 3> kSolidTints = {"#FBE5BF", "#F6D59B", "#FDF1DB"};
-constexpr std::array<std::string_view, 3> kMetalTints = {"#DCDCDC", "#CBCBCB", "#E9E9E9"};
+constexpr std::array<std::string_view, 3> kAqueousTints = {"#DCEEF9", "#EAF5FC", "#C6E3F5"};
+constexpr std::array<std::string_view, 3> kSolidTints = {"#FBE5BF", "#FCEED4", "#F6D59B"};
+constexpr std::array<std::string_view, 3> kMetalTints = {"#DCDCDC", "#ECECEC", "#CBCBCB"};
 struct ClassStyle {
     std::string_view tint, hatch;  // hatch colour; empty: no hatch
     double angle;
@@ -283,7 +283,18 @@ std::string display_formula(const Region& r) {
     return chem::pretty(r.formula);
 }
 
-std::string class_fill_id(RegionKind k) { return std::string(kIdPrefix) + "class-" + std::string(electro::corrosion_class(k)); }
+// The class names of electro::corrosion_class, kept here so the writer needs no code of the
+// electro layer (only its header's types).
+std::string class_name(RegionKind k) {
+    switch (k) {
+        case RegionKind::aqueous: return "corrosion";
+        case RegionKind::solid: return "passivation";
+        case RegionKind::metal: return "immunity";
+    }
+    return "corrosion";
+}
+
+std::string class_fill_id(RegionKind k) { return std::string(kIdPrefix) + "class-" + class_name(k); }
 
 const ClassStyle& class_style(RegionKind k) {
     switch (k) {
@@ -391,17 +402,18 @@ std::string diagram_svg(const DiagramResult& d) {
         for (RegionKind k : {RegionKind::metal, RegionKind::solid, RegionKind::aqueous})
             if (std::any_of(d.regions.begin(), d.regions.end(), [&](const Region& r) { return r.kind == k; }))
                 kinds.push_back(k);
-        const std::string act = (d.molality ? "m = " : "a = ") + power_of_ten(d.log_activity) + (d.molality ? " mol/kgw" : "");
+        const std::string act = d.molality ? "at " + power_of_ten(d.log_activity) + " mol/kgw each"
+                                           : "at a = " + power_of_ten(d.log_activity) + " each";
         for (RegionKind k : kinds) {
             std::string text;
             if (d.shading) {
                 text = k == RegionKind::metal ? "immunity\nthe metal is stable"
                        : k == RegionKind::solid ? "passivation\na solid is stable"
-                                                : "corrosion\ndissolved, " + act + " each";
+                                                : "corrosion\ndissolved species\n" + act;
             } else {
                 text = k == RegionKind::metal ? "metal"
                        : k == RegionKind::solid ? "solid"
-                                                : "dissolved species\n" + act + " each";
+                                                : "dissolved species\n" + act;
             }
             legend.push_back({LegendItem::Sample::fill, fill_of(d, k, 0), text});
         }
@@ -449,7 +461,7 @@ std::string diagram_svg(const DiagramResult& d) {
         std::vector<Px> pp;
         for (const auto& p : r.polygon) pp.push_back(to_px(p));
         const std::string fill = fill_of(d, r.kind, variant[i]);
-        body += "<path class=\"region " + std::string(electro::corrosion_class(r.kind)) + "\" d=\"" + path_of(pp, true) +
+        body += "<path class=\"region " + class_name(r.kind) + "\" d=\"" + path_of(pp, true) +
              "\" fill=\"" + fill + "\" stroke=\"" + (fill.rfind("url(", 0) == 0 ? std::string(class_style(r.kind).tint) : fill) +
              "\" stroke-width=\"0.6\"><title>" + xml_escape(display_name(r)) + "</title></path>\n";
         pixel_polys.push_back(std::move(pp));

@@ -287,10 +287,10 @@ std::string cell_text(const electro::CellResult& c) {
     out += rule('=');
     out += fmt::format("  {:<10}{}\n  {:<10}E° from {}\n", "cathode", c.cathode, "", c.cathode_origin);
     out += fmt::format("  {:<10}{}\n  {:<10}E° from {}\n", "anode", c.anode, "", c.anode_origin);
-    out += fmt::format("  {:<22}{:g}\n", "electrons n", c.n);
-    out += fmt::format("  {:<22}{:+.4f} V     ΔG° = -nFE° = {:+.2f} kJ/mol     log K = {:.3f}\n", "E° cell", c.e0_v,
+    out += fmt::format("  {:<24}{:g}\n", "electrons n", c.n);
+    out += fmt::format("  {:<24}{:+.4f} V     ΔG° = -nFE° = {:+.2f} kJ/mol     log K = {:.3f}\n", "E° cell", c.e0_v,
                        c.delta_g0_kj_per_mol, c.log_k);
-    out += fmt::format("  {:<22}{:+.4f} V     ΔG  = -nFE  = {:+.2f} kJ/mol\n", "E cell (at activities)", c.e_v,
+    out += fmt::format("  {:<24}{:+.4f} V     ΔG  = -nFE  = {:+.2f} kJ/mol\n", "E cell (at activities)", c.e_v,
                        c.delta_g_kj_per_mol);
     out += "  " + std::string(c.spontaneous ? "runs as written: reduction at the cathode, oxidation at the anode (E > 0)"
                                             : "runs the other way: the written anode is reduced (E < 0)") + "\n";
