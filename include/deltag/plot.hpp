@@ -3,6 +3,7 @@
 #pragma once
 
 #include <string>
+#include <string_view>
 #include <utility>
 #include <vector>
 
@@ -51,5 +52,8 @@ AxisScale nice_scale(double data_low, double data_high, double margin_fraction =
 // ("0", "0.5", "-2.5", "0.002"), or "1.5e-7" style when the axis magnitude is very large or
 // very small.
 std::string tick_label(double value, double step, double axis_magnitude);
+
+// XML text escaping for the SVG writers (& < > " '; control characters dropped).
+std::string xml_escape(std::string_view text);
 
 }  // namespace deltag::io

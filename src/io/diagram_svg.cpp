@@ -55,26 +55,6 @@ constexpr ClassStyle kImmunity{"#D2E4F1", "", 0.0};
 
 // ---- text ---------------------------------------------------------------------------------
 
-std::string xml_escape(std::string_view s) {
-    std::string out;
-    out.reserve(s.size());
-    for (char c : s) {
-        switch (c) {
-            case '&': out += "&amp;"; break;
-            case '<': out += "&lt;"; break;
-            case '>': out += "&gt;"; break;
-            case '"': out += "&quot;"; break;
-            case '\'': out += "&apos;"; break;
-            default:
-                if (static_cast<unsigned char>(c) < 0x20) {
-                    if (c == '\t' || c == '\n') out += ' ';
-                } else {
-                    out += c;
-                }
-        }
-    }
-    return out;
-}
 
 std::size_t code_points(std::string_view s) {
     return static_cast<std::size_t>(

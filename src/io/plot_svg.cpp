@@ -33,27 +33,6 @@ constexpr std::string_view kFont = "DejaVu Sans, Liberation Sans, Arial, sans-se
 
 // ---- text ---------------------------------------------------------------------------------
 
-std::string xml_escape(std::string_view s) {
-    std::string out;
-    out.reserve(s.size());
-    for (char c : s) {
-        switch (c) {
-            case '&': out += "&amp;"; break;
-            case '<': out += "&lt;"; break;
-            case '>': out += "&gt;"; break;
-            case '"': out += "&quot;"; break;
-            case '\'': out += "&apos;"; break;
-            default:
-                // Control characters are not allowed in XML 1.0 (tab is; it becomes a space).
-                if (static_cast<unsigned char>(c) < 0x20) {
-                    if (c == '\t') out += ' ';
-                } else {
-                    out += c;
-                }
-        }
-    }
-    return out;
-}
 
 // Number of code points in UTF-8 text (continuation bytes are not counted).
 std::size_t code_points(std::string_view s) {
@@ -545,6 +524,30 @@ std::string line_plot_svg(const LinePlot& plot) {
     }
     o += "</svg>\n";
     return o;
+}
+
+// Escapes XML special characters; control characters are dropped (tab and newline become a
+// space). Shared by the plot and diagram writers.
+std::string xml_escape(std::string_view s) {
+    std::string out;
+    out.reserve(s.size());
+    for (char c : s) {
+        switch (c) {
+            case '&': out += "&amp;"; break;
+            case '<': out += "&lt;"; break;
+            case '>': out += "&gt;"; break;
+            case '"': out += "&quot;"; break;
+            case '\'': out += "&apos;"; break;
+            default:
+                // Control characters are not allowed in XML 1.0 (tab is; it becomes a space).
+                if (static_cast<unsigned char>(c) < 0x20) {
+                    if (c == '\t' || c == '\n') out += ' ';
+                } else {
+                    out += c;
+                }
+        }
+    }
+    return out;
 }
 
 }  // namespace deltag::io
