@@ -1194,6 +1194,13 @@ TEST_CASE("errors: sweeps") {
     SUBCASE("the base case reads") {
         CHECK(parse_case(sweep_with(factor_sweep + outputs), "test.toml").sweeps.size() == 1);
     }
+    SUBCASE("at: a later step is read, an earlier one refused") {
+        const auto c = parse_case(sweep_with(factor_sweep + "at = \"lime\"\n" + outputs), "test.toml");
+        CHECK(c.sweeps.front().at == "lime");
+        CHECK(c.sweeps.front().at_where.line == sw + 4);
+        check_error(sweep_with(factor_sweep + "at = \"heat\"\n" + outputs), "sweep[1].at", sw + 4,
+                    "'heat' is not the varied step or a step after it; expected one of: cycles, mix, lime");
+    }
     SUBCASE("an empty label") {
         check_error(sweep_with("label = \"\"\n" + factor_sweep + outputs), "sweep[1].label", sw,
                     "expected a label for the sweep, found an empty string");

@@ -528,3 +528,56 @@ kind = "equilibrate"
 headspace = { volume_l_per_kgw = 1, gases = { "CO2(g)" = -2 }, volume = 3 }
 )toml"), doctest::Contains("unknown key"), InputError);
 }
+
+TEST_CASE("run_sweep refuses sweeps it cannot run (built in code; the case reader checks these earlier)") {
+    const io::Case c = io::parse_case(water + R"toml(
+[[step]]
+water = "raw"
+label = "hot"
+kind = "temperature"
+temperature_c = 40
+
+[[step]]
+label = "mix"
+kind = "blend"
+waters = { raw = 0.5, soft = 0.5 }
+)toml", "test.toml");
+    std::vector<WaterState> waters;
+    for (const auto& w : c.waters) {
+        const auto in = to_speciation_input(w, core(), c.activity_model);
+        waters.push_back(state_from_result(equilibrium::speciate(core(), in), in, core()));
+    }
+    Sweep s;
+    s.step = "hot";
+    s.variable = Sweep::Variable::temperature_c;
+    s.from = 10;
+    s.to = 20;
+    s.points = 2;
+    s.outputs = {"pH"};
+    auto refused = [&](const Sweep& sw, const char* fragment) {
+        CHECK_THROWS_WITH_AS(run_sweep(core(), waters, c.steps, sw), doctest::Contains(fragment), InputError);
+    };
+    Sweep a = s;
+    a.step = "hott";
+    refused(a, "no step is labelled 'hott'");
+    a = s;
+    a.at = "nowhere";
+    refused(a, "no step is labelled 'nowhere'");
+    a = s;
+    a.step = "mix";
+    a.variable = Sweep::Variable::fraction;
+    a.fraction_of = "raw";
+    a.at = "hot";
+    refused(a, "comes before the varied step");
+    a.at.clear();
+    a.fraction_of = "river";
+    refused(a, "is not one of the blended waters");
+    a = s;
+    a.variable = Sweep::Variable::factor;
+    refused(a, "has no such input to vary");
+    a = s;
+    a.outputs = {"transfer:Calcit"};
+    refused(a, "did you mean 'Calcite'");
+    a.outputs = {"colour"};
+    refused(a, "unknown output");
+}
