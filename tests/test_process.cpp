@@ -274,9 +274,15 @@ TEST_CASE("reagents split onto the components") {
         CHECK_THROWS_WITH_AS(split_reagent(core(), formula, at), doctest::Contains(fragment), InputError);
     };
     refused("LiOH", "no component of the database 'core' carries Li");
-    refused("KMnO4", "redox state");  // Mn(VII) onto Mn^2+
-    refused("Na2SO3", "redox state");
-    refused("H2O2", "brings nothing but water");
+    // Redox reagents carry electrons: NaOCl -> Na+ + Cl- + H2O - 2 H+ - 2 e- (Cl(+1) to Cl(-1));
+    // KMnO4 -> K+ + Mn^2+ + 4 H2O - 8 H+ - 5 e- (Mn(VII) to Mn(II)); Na2SO3 gives 2 e- (S(IV)
+    // to S(VI)); H2O2 -> 2 H2O - 2 H+ - 2 e-.
+    CHECK(split_reagent(core(), "NaOCl", at).electrons == -2.0);
+    CHECK(split_reagent(core(), "KMnO4", at).electrons == -5.0);
+    CHECK(split_reagent(core(), "Na2SO3", at).electrons == 2.0);
+    CHECK(split_reagent(core(), "H2O2", at).electrons == -2.0);
+    CHECK(split_reagent(core(), "HCl", at).electrons == 0.0);
+    refused("H2O", "brings nothing but water");
     refused("Na+", "neutral substance");
     refused("Xq2", "cannot read the reagent formula");
 }
@@ -580,4 +586,39 @@ waters = { raw = 0.5, soft = 0.5 }
     refused(a, "did you mean 'Calcite'");
     a.outputs = {"colour"};
     refused(a, "unknown output");
+}
+
+TEST_CASE("an oxidant dose takes electrons from an aerated water; a water without a redox level refuses it") {
+    const Run r = run(R"toml(
+[water.w]
+pH = 7.5
+dissolved_oxygen_mg_per_l = 8
+units = "mg/L"
+[water.w.analytes]
+Ca = 40
+Na = 10
+Cl = 15
+Alkalinity = { value = 100, as = "CaCO3" }
+
+[[step]]
+label = "hypochlorite"
+kind = "dose"
+reagent = "NaOCl"
+amount = { value = 0.05, unit = "mmol/kgw" }
+)toml");
+    const WaterState& before = r.waters.front();
+    const WaterState& after = step(r, "hypochlorite").state;
+    REQUIRE(before.basis.electron_total.has_value());
+    REQUIRE(after.basis.electron_total.has_value());
+    // Two electrons taken per NaOCl; chloride and sodium rise by the dose.
+    CHECK(*after.basis.electron_total == doctest::Approx(*before.basis.electron_total - 2 * 0.05e-3).epsilon(1e-9));
+    check_relative(total(after, "Cl"), total(before, "Cl") + 0.05e-3, 1e-10);
+    CHECK(*after.result.pe > *before.result.pe);
+    CHECK_THROWS_WITH_AS(run(water + R"toml(
+[[step]]
+water = "raw"
+kind = "dose"
+reagent = "NaOCl"
+amount = { value = 0.05, unit = "mmol/kgw" }
+)toml"), doctest::Contains("is an oxidant: give the water a redox level"), InputError);
 }

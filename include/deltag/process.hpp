@@ -162,12 +162,13 @@ WaterState state_from_result(const equilibrium::SpeciationResult& r, const equil
 Indices water_treatment_indices(const thermo::Database& db, const WaterState& w);
 
 // How a reagent formula splits into database components (per mole of reagent), plus the
-// protons and water it brings. Throws InputError when it cannot (unknown element, charged,
-// a redox state the database does not have).
+// protons, water and electrons it brings. Throws InputError when it cannot (unknown
+// element, a charged formula, nothing but water).
 struct ReagentSplit {
     std::vector<std::pair<std::size_t, double>> components;
     double protons = 0.0;
     double water = 0.0;
+    double electrons = 0.0;   // e- per mole: < 0 an oxidant, > 0 a reductant
     double molar_mass_g = 0.0;
 };
 ReagentSplit split_reagent(const thermo::Database& db, const std::string& formula, const SourceLocation& where);

@@ -1,7 +1,7 @@
 // A reagent formula as database components: CaCl2 -> Ca^2+ + 2 Cl-; NaOH -> Na+ + H2O - H+;
 // CO2 -> HCO3- + H+ - H2O. Each element other than H and O goes to the component that
-// carries it; O and H balance with water and protons; the charge must then balance, which
-// fails for a reagent whose element is at a redox state the database does not hold.
+// carries it; O and H balance with water and protons; electrons balance the charge, which
+// makes NaOCl -> Na+ + Cl- + H2O - 2 H+ - 2 e- an oxidant.
 #include <cmath>
 #include <sstream>
 
@@ -10,12 +10,6 @@
 namespace deltag::process {
 
 namespace {
-std::string fmt_num(double v) {
-    std::ostringstream o;
-    o.precision(6);
-    o << v;
-    return o.str();
-}
 }  // namespace
 
 ReagentSplit split_reagent(const thermo::Database& db, const std::string& text, const SourceLocation& where) {
@@ -55,18 +49,14 @@ ReagentSplit split_reagent(const thermo::Database& db, const std::string& text, 
         h_left -= k * c.formula.atoms("H");
         charge += k * c.formula.charge;
     }
-    if (out.components.empty())
-        throw InputError(where, "reagent", "'" + text + "' brings nothing but water, hydrogen and oxygen");
     out.water = o_left;               // H2O units
     out.protons = h_left - 2.0 * o_left;  // H+ units
-    charge += out.protons;
-    if (std::abs(charge) > 1e-9) {
-        std::string comps;
-        for (const auto& [j, k] : out.components) comps += (comps.empty() ? "" : ", ") + db.species()[j].name;
-        throw InputError(where, "reagent",
-                         "'" + text + "' does not split onto the components " + comps + " without " + fmt_num(charge) +
-                             " electrons: an element is at a redox state the database does not hold");
-    }
+    // What the charge still lacks is carried by electrons (e- has charge -1): an oxidant
+    // (NaOCl, KMnO4, H2O2) takes electrons from the water, a reductant (Na2SO3) gives them.
+    out.electrons = charge + out.protons;
+    if (std::abs(out.electrons) < 1e-9) out.electrons = 0.0;
+    if (out.components.empty() && out.electrons == 0.0)
+        throw InputError(where, "reagent", "'" + text + "' brings nothing but water, hydrogen and oxygen");
     return out;
 }
 

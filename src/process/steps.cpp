@@ -188,12 +188,18 @@ WaterState dosed(const thermo::Database& db, const Step& s, const WaterState& fr
     equilibrium::SpeciationInput in = from.basis;
     in.label = s.label;
     for (const auto& [j, k] : split.components) add_total(in, j, k * mol_per_kgw);
+    if (split.electrons != 0.0) *in.electron_total += split.electrons * mol_per_kgw;
     equilibrium::SpeciationResult r = solve(db, in, &from.result);
     return finish(db, s.label, in, std::move(r));
 }
 
 StepOutcome do_dose(const thermo::Database& db, const Step& s, const DoseStep& d, const WaterState& from) {
     const ReagentSplit split = split_reagent(db, d.reagent, d.reagent_where);
+    if (split.electrons != 0.0 && !from.basis.electron_total)
+        throw InputError(d.reagent_where, "reagent",
+                         "'" + d.reagent + "' is " + (split.electrons < 0 ? "an oxidant" : "a reductant") +
+                             ": give the water a redox level (pe, eh_mv or dissolved_oxygen_mg_per_l) so its electrons "
+                             "can be counted");
     StepOutcome out;
     DoseOutcome dose;
     dose.reagent = d.reagent;
