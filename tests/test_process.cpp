@@ -622,3 +622,15 @@ reagent = "NaOCl"
 amount = { value = 0.05, unit = "mmol/kgw" }
 )toml"), doctest::Contains("is an oxidant: give the water a redox level"), InputError);
 }
+
+TEST_CASE("a dose amount in a unit the library does not know is refused (built in code)") {
+    const Run r = run(water);
+    Step s;
+    s.label = "odd unit";
+    s.water = "raw";
+    DoseStep d;
+    d.reagent = "HCl";
+    d.amount = Amount{1.0, "kg/ton", SourceLocation{"code", 7, 1}};
+    s.action = d;
+    CHECK_THROWS_WITH_AS(run_steps(core(), r.waters, {s}), doctest::Contains("unknown unit 'kg/ton' for an amount"), InputError);
+}

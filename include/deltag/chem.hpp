@@ -77,6 +77,9 @@ Reaction parse_reaction(std::string_view text);
 // so an empty map means balanced. Throws ParseError if a term's formula cannot be read.
 std::map<std::string, double> imbalance(const Reaction& reaction, double tolerance = 1e-9);
 
+// The imbalance for a message: "H +1, charge +1".
+std::string imbalance_text(const std::map<std::string, double>& imbalance);
+
 // Unicode form for text reports: "Ca^2+" -> "Ca²⁺", "SO4^2-" -> "SO₄²⁻".
 std::string pretty(std::string_view ascii_formula);
 

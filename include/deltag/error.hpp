@@ -59,6 +59,12 @@ private:
     std::string hint_;
 };
 
+// A number for a message: 6 significant digits, no trailing zeros (7.85, 120, 0.0001).
+std::string message_number(double v);
+
+// Names joined for a message: "a, b, c".
+std::string name_list(const std::vector<std::string>& names);
+
 // Levenshtein distance, case-insensitive.
 std::size_t edit_distance(std::string_view a, std::string_view b);
 

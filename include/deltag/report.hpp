@@ -56,6 +56,10 @@ std::string cell_text(const electro::CellResult& c);
 std::string cells_json(const std::vector<electro::CellResult>& cells);
 std::string csv_report(const thermo::Database& db, const ReportContext& ctx, const std::vector<ReportItem>& items);
 
+// A transfer in mg per litre of the water (mol/kgw x molar mass x kg of water per litre).
+double transfer_mg_per_l(const thermo::Database& db, const equilibrium::SpeciationResult& r,
+                         const equilibrium::PhaseTransfer& t);
+
 // Converts plain results (waters) to report items.
 std::vector<ReportItem> items_of(const std::vector<equilibrium::SpeciationResult>& results);
 

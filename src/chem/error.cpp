@@ -52,6 +52,19 @@ ConvergenceError::ConvergenceError(std::string what_was_solved, double residual_
       reason_(std::move(reason)),
       hint_(std::move(hint)) {}
 
+std::string message_number(double v) {
+    std::ostringstream out;
+    out.precision(6);
+    out << v;
+    return out.str();
+}
+
+std::string name_list(const std::vector<std::string>& names) {
+    std::string s;
+    for (const auto& n : names) s += (s.empty() ? "" : ", ") + n;
+    return s;
+}
+
 std::size_t edit_distance(std::string_view a, std::string_view b) {
     std::vector<std::size_t> prev(b.size() + 1), cur(b.size() + 1);
     for (std::size_t j = 0; j <= b.size(); ++j) prev[j] = j;

@@ -5,6 +5,7 @@
 #include <utility>
 
 #include "deltag/chem.hpp"
+#include "deltag/error.hpp"
 
 namespace deltag::chem {
 
@@ -335,6 +336,12 @@ std::map<std::string, double> imbalance(const Reaction& reaction, double toleran
         else ++it;
     }
     return sum;
+}
+
+std::string imbalance_text(const std::map<std::string, double>& imbalance) {
+    std::string what;
+    for (const auto& [k, v] : imbalance) what += (what.empty() ? "" : ", ") + k + " " + (v > 0 ? "+" : "") + message_number(v);
+    return what;
 }
 
 std::string pretty(std::string_view s) {

@@ -12,13 +12,6 @@ namespace deltag::electro {
 
 namespace {
 
-std::string fmt_num(double v) {
-    std::ostringstream o;
-    o.precision(6);
-    o << v;
-    return o.str();
-}
-
 bool ends_with(const std::string& s, std::string_view tail) {
     return s.size() >= tail.size() && s.compare(s.size() - tail.size(), tail.size(), tail) == 0;
 }
@@ -106,9 +99,7 @@ HalfCell parse_half_reaction(const thermo::Database& db, const std::string& text
     h.electrons = std::abs(electrons_left);
     const auto bad = chem::imbalance(rx);
     if (!bad.empty()) {
-        std::string what;
-        for (const auto& [k, v] : bad) what += (what.empty() ? "" : ", ") + k + " " + (v > 0 ? "+" : "") + fmt_num(v);
-        throw InputError(where, key, "'" + text + "' is not balanced (right minus left: " + what + ")");
+        throw InputError(where, key, "'" + text + "' is not balanced (right minus left: " + chem::imbalance_text(bad) + ")");
     }
     std::map<std::string, double> mine;  // canonical name -> coefficient, electrons included
     std::vector<std::string> unknown;

@@ -725,7 +725,7 @@ void check_phase_rule(const thermo::Database& db, const ChemicalSystem& sys, con
 }
 
 // Attempts (first start, then the fallback) on one layout. Updates u and the summary.
-AttemptOutcome solve_layout(const thermo::Database& db, ChemicalSystem& sys, const SpeciationInput& input,
+AttemptOutcome solve_layout(ChemicalSystem& sys, const SpeciationInput& input,
                             const Problem& p, std::vector<double>& u, const SolverOptions& options, SolveSummary& summary,
                             const std::function<std::vector<double>(double)>& default_start) {
     AttemptOutcome outcome = run_kinsol(p, u, options);
@@ -762,7 +762,6 @@ AttemptOutcome solve_layout(const thermo::Database& db, ChemicalSystem& sys, con
             break;
         }
     }
-    (void)db;
     return outcome;
 }
 
@@ -866,7 +865,7 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
             if (L.mineral_unknown[a] >= 0) u[static_cast<std::size_t>(L.mineral_unknown[a])] = mineral_xi[a];
         for (std::size_t a = 0; a < gas_xi.size(); ++a) u[static_cast<std::size_t>(L.gas_unknown[a])] = gas_xi[a];
 
-        outcome = solve_layout(db, sys, input, p, u, options, summary, default_start);
+        outcome = solve_layout(sys, input, p, u, options, summary, default_start);
         if (!outcome.converged) break;
 
         // Carry the solution forward.

@@ -76,19 +76,6 @@ std::optional<UnitInfo> unit_info(std::string_view u) {
     return std::nullopt;
 }
 
-std::string show(double v) {
-    std::ostringstream out;
-    out.precision(6);
-    out << v;
-    return out.str();
-}
-
-std::string list_of(const std::vector<std::string>& names) {
-    std::string s;
-    for (const auto& n : names) s += (s.empty() ? "" : ", ") + n;
-    return s;
-}
-
 std::string water_key(const WaterAnalysis& w) {
     // Same quoting as the case reader: bare words stay bare.
     const bool bare = !w.name.empty() && std::all_of(w.name.begin(), w.name.end(), [](char c) {
@@ -143,7 +130,7 @@ Converted convert(const WaterAnalysis& w, const AnalyteValue& a, const thermo::A
     if (!info)
         throw InputError(a.where, key,
                          "unknown concentration unit '" + unit + "'; expected one of: " +
-                             list_of(concentration_units()),
+                             name_list(concentration_units()),
                          nearest_name(unit, concentration_units()));
 
     const thermo::Species& comp = db.species()[an.component];
@@ -170,7 +157,7 @@ Converted convert(const WaterAnalysis& w, const AnalyteValue& a, const thermo::A
         if (std::find(allowed.begin(), allowed.end(), a.as) == allowed.end())
             throw InputError(a.where, key + ".as",
                              "analyte " + a.name + " cannot be given as '" + a.as +
-                                 "'; expected one of: " + list_of(allowed),
+                                 "'; expected one of: " + name_list(allowed),
                              nearest_name(a.as, allowed));
         if (info->measure == Measure::equivalents && a.as != "CaCO3")
             throw InputError(a.where, key + ".as",
@@ -229,7 +216,7 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
         if (!ai)
             throw InputError(a.where, analyte_key(water, a),
                              "unknown analyte '" + a.name + "'; it is not an analyte of the database '" +
-                                 db.name() + "' (its analytes: " + list_of(db.analyte_names()) + ")",
+                                 db.name() + "' (its analytes: " + name_list(db.analyte_names()) + ")",
                              nearest_name(a.name, db.analyte_names()));
         const thermo::Analyte& an = db.analytes()[*ai];
         const auto [it, fresh] = by_component.emplace(an.component, &a);
@@ -262,8 +249,8 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
     if (!(water_per_litre > 0.0))
         throw InputError(water.where, wkey,
                          "the analytes add up to more dissolved mass than the solution holds (" +
-                             show(mass_per_litre * 1000.0) + " g per litre, mass fraction " +
-                             show(mass_fraction) + ", against a density of " + show(rho) +
+                             message_number(mass_per_litre * 1000.0) + " g per litre, mass fraction " +
+                             message_number(mass_fraction) + ", against a density of " + message_number(rho) +
                              " kg/L); check the units");
 
     equilibrium::SpeciationInput in;
@@ -335,7 +322,7 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
     if (cb == "pH") {
         if (water.ph)
             throw InputError(water.charge_balance_where, cb_key,
-                             "charge_balance = \"pH\" contradicts the measured pH = " + show(*water.ph) +
+                             "charge_balance = \"pH\" contradicts the measured pH = " + message_number(*water.ph) +
                                  "; give the measured pH, or leave it out and balance on pH, not both");
         in.ph.reset();
         // Alkalinity is the charge excess of the conservative ions, so with an alkalinity
@@ -354,7 +341,7 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
             names.insert(names.begin(), "pH");
             throw InputError(water.charge_balance_where, cb_key,
                              "cannot balance the charge on '" + cb + "': expected \"pH\" or an analyte of the database '" +
-                                 db.name() + "' (" + list_of(db.analyte_names()) + ")",
+                                 db.name() + "' (" + name_list(db.analyte_names()) + ")",
                              nearest_name(cb, names));
         }
         const thermo::Analyte& an = db.analytes()[*ai];

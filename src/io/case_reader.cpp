@@ -46,20 +46,6 @@ namespace deltag::io {
 
 namespace {
 
-// Plain number for messages: 7.85, 120, 0.0001.
-std::string show(double v) {
-    std::ostringstream out;
-    out.precision(6);
-    out << v;
-    return out.str();
-}
-
-std::string list_of(const std::vector<std::string>& names) {
-    std::string s;
-    for (const auto& n : names) s += (s.empty() ? "" : ", ") + n;
-    return s;
-}
-
 bool is_one_of(std::string_view name, const std::vector<std::string>& names) {
     return std::find(names.begin(), names.end(), name) != names.end();
 }
@@ -80,8 +66,8 @@ std::optional<double> ranged(tomlu::TableReader& r, std::string_view key, double
                              const std::string& why = {}) {
     auto v = r.number(key);
     if (v && (*v < lo || *v > hi))
-        r.fail(key, "expected " + what + " from " + show(lo) + " to " + show(hi) + unit + why +
-                        ", found " + show(*v));
+        r.fail(key, "expected " + what + " from " + message_number(lo) + " to " + message_number(hi) + unit + why +
+                        ", found " + message_number(*v));
     return v;
 }
 
@@ -90,7 +76,7 @@ std::string checked_unit(tomlu::TableReader& r, std::string_view key) {
     const std::string u = *r.string(key);
     const auto& units = concentration_units();
     if (std::find(units.begin(), units.end(), u) == units.end())
-        r.fail(key, "unknown concentration unit '" + u + "'; expected one of: " + list_of(units),
+        r.fail(key, "unknown concentration unit '" + u + "'; expected one of: " + name_list(units),
                nearest_name(u, units));
     return u;
 }
@@ -152,7 +138,7 @@ AnalyteValue read_analyte(const std::string& name, const toml::node& node, const
     }
     if (a.value < 0.0)
         throw InputError(a.where, a.key,
-                         "expected a concentration of zero or more, found " + show(a.value));
+                         "expected a concentration of zero or more, found " + message_number(a.value));
     return a;
 }
 
@@ -182,7 +168,7 @@ void read_redox(tomlu::TableReader& r, WaterAnalysis& w) {
                                     r.prefix() + "] has no eh_mv; add eh_mv = ... (mV) or remove reference");
         const auto names = electro::reference_names();
         if (!is_one_of(*ref, names))
-            r.fail("reference", "unknown reference electrode '" + *ref + "'; expected one of: " + list_of(names),
+            r.fail("reference", "unknown reference electrode '" + *ref + "'; expected one of: " + name_list(names),
                    nearest_name(*ref, names));
         w.eh_reference = *ref;
     }
@@ -234,7 +220,7 @@ WaterAnalysis read_water(const std::string& name, const toml::node& node, const 
         w.charge_balance_where = w.where;
     } else if (w.charge_balance == "pH" && w.ph) {
         r.fail("charge_balance",
-               "charge_balance = \"pH\" contradicts the measured pH = " + show(*w.ph) + " (line " +
+               "charge_balance = \"pH\" contradicts the measured pH = " + message_number(*w.ph) + " (line " +
                    std::to_string(r.location("pH").line) +
                    "); give the measured pH, or leave it out and balance on pH, not both");
     } else if (!w.charge_balance.empty() && w.charge_balance != "pH") {
@@ -249,7 +235,7 @@ WaterAnalysis read_water(const std::string& name, const toml::node& node, const 
             for (const auto& a : w.analytes) names.push_back(a.name);
             r.fail("charge_balance",
                    "charge balance on " + w.charge_balance + ", which is not among the analytes of this water" +
-                       (names.empty() ? std::string(" (it has none)") : " (" + list_of(names) + ")") +
+                       (names.empty() ? std::string(" (it has none)") : " (" + name_list(names) + ")") +
                        "; list it under [" + prefix + ".analytes], with 0 if it was not measured",
                    nearest_name(w.charge_balance, names));
         }
@@ -301,7 +287,7 @@ std::string kind_of(const process::Step& s) {
 void check_range(tomlu::TableReader& r, std::string_view key, double v, double lo, double hi,
                  const std::string& what, const std::string& unit = {}) {
     if (v < lo || v > hi)
-        r.fail(key, "expected " + what + " from " + show(lo) + " to " + show(hi) + unit + ", found " + show(v));
+        r.fail(key, "expected " + what + " from " + message_number(lo) + " to " + message_number(hi) + unit + ", found " + message_number(v));
 }
 
 // An array of tables ([[step]] or [[sweep]]), in file order.
@@ -379,7 +365,7 @@ void check_source(const StepContext& c, std::size_t n, const std::string& name, 
     for (const auto& w : c.waters) names.push_back(w.name);
     for (const auto& s : c.done) names.push_back(s.label);
     throw InputError(at, key,
-                     "no water or earlier step is called '" + name + "'; expected one of: " + list_of(names),
+                     "no water or earlier step is called '" + name + "'; expected one of: " + name_list(names),
                      nearest_name(name, names));
 }
 
@@ -405,7 +391,7 @@ void reject_unknown_keys(const toml::table& t, const std::vector<std::string>& a
     for (const auto& e : in_file_order(t, file))
         if (!is_one_of(e.name, allowed))
             throw InputError(e.key_where, tomlu::join_key(prefix, e.name),
-                             "unknown key; expected one of: " + list_of(allowed), nearest_name(e.name, allowed));
+                             "unknown key; expected one of: " + name_list(allowed), nearest_name(e.name, allowed));
 }
 
 // Every key of the step must belong to its kind; the first stray key in the file is named.
@@ -417,11 +403,11 @@ void check_step_keys(const toml::table& t, const std::string& kind, const std::s
         std::vector<std::string> owners;
         for (const auto& k : step_kinds)
             if (is_one_of(e.name, keys_of_kind(k))) owners.push_back("'" + k + "'");
-        const std::string takes = "; a step of kind '" + kind + "' takes: " + list_of(allowed);
+        const std::string takes = "; a step of kind '" + kind + "' takes: " + name_list(allowed);
         const std::string message =
             owners.empty() ? "unknown key for a step of kind '" + kind + "'" + takes
                            : "'" + e.name + "' does not belong to a step of kind '" + kind + "' (it is a key of " +
-                                 list_of(owners) + " steps)" + takes;
+                                 name_list(owners) + " steps)" + takes;
         throw InputError(e.key_where, tomlu::join_key(prefix, e.name), message, nearest_name(e.name, allowed));
     }
 }
@@ -439,7 +425,7 @@ process::MineralSpec read_mineral(const Entry& e, const std::string& file, const
         const SourceLocation at = tomlu::where(e.node->source(), file);
         if (!std::isfinite(v)) throw InputError(at, key, "expected a finite number");
         if (v < -20.0 || v > 20.0)
-            throw InputError(at, key, "expected a target saturation index from -20 to 20, found " + show(v));
+            throw InputError(at, key, "expected a target saturation index from -20 to 20, found " + message_number(v));
         m.target_si = v;
         return m;
     }
@@ -459,7 +445,7 @@ process::MineralSpec read_mineral(const Entry& e, const std::string& file, const
     if (mol || mmol) {
         const std::string k = mol ? "amount_mol_per_kgw" : "amount_mmol_per_kgw";
         const double v = mol ? *mol : *mmol;
-        if (v < 0.0) r.fail(k, "expected an amount of solid of zero or more, found " + show(v));
+        if (v < 0.0) r.fail(k, "expected an amount of solid of zero or more, found " + message_number(v));
         m.amount_mol_per_kgw = mol ? v : v * 1e-3;
     }
     if (auto only = r.string("only")) {
@@ -541,11 +527,11 @@ process::Amount read_amount(tomlu::TableReader& r, std::string_view key, bool ab
     tomlu::TableReader ar(*t, r.file(), r.dotted(key));
     a.value = ar.require_number("value", "the amount, a number (value = ...)");
     if (above_zero && a.value <= 0.0)
-        ar.fail("value", "expected a largest dose above zero, found " + show(a.value));
-    if (a.value < 0.0) ar.fail("value", "expected an amount of zero or more, found " + show(a.value));
-    a.unit = ar.require_string("unit", "the unit of the amount, one of: " + list_of(dose_units));
+        ar.fail("value", "expected a largest dose above zero, found " + message_number(a.value));
+    if (a.value < 0.0) ar.fail("value", "expected an amount of zero or more, found " + message_number(a.value));
+    a.unit = ar.require_string("unit", "the unit of the amount, one of: " + name_list(dose_units));
     if (!is_one_of(a.unit, dose_units))
-        ar.fail("unit", "unknown unit of amount '" + a.unit + "'; expected one of: " + list_of(dose_units),
+        ar.fail("unit", "unknown unit of amount '" + a.unit + "'; expected one of: " + name_list(dose_units),
                 nearest_name(a.unit, dose_units));
     return a;
 }
@@ -637,7 +623,7 @@ process::BlendStep read_blend(const StepContext& c, std::size_t n, tomlu::TableR
     double sum = 0.0;
     for (const auto& p : parts) {
         const double f = *wr.number(p.name);
-        if (f <= 0.0) wr.fail(p.name, "expected a fraction above zero, found " + show(f));
+        if (f <= 0.0) wr.fail(p.name, "expected a fraction above zero, found " + message_number(f));
         check_source(c, n, p.name, p.key_where, wr.dotted(p.name));
         b.parts.emplace_back(p.name, f);
         b.part_where.push_back(p.key_where);
@@ -666,12 +652,12 @@ process::ConcentrateStep read_concentrate(tomlu::TableReader& r) {
                          "or more) or recovery = ... (the fraction of the water removed, from 0 to below 1)");
     if (factor) {
         k.factor = *r.number("factor");
-        if (k.factor < 1.0) r.fail("factor", "expected a concentration factor of 1 or more, found " + show(k.factor));
+        if (k.factor < 1.0) r.fail("factor", "expected a concentration factor of 1 or more, found " + message_number(k.factor));
     } else {
         const double v = *r.number("recovery");
         if (v < 0.0 || v >= 1.0)
             r.fail("recovery", "expected a recovery (the fraction of the water removed) from 0 to below 1, found " +
-                                   show(v));
+                                   message_number(v));
         k.factor = 1.0 / (1.0 - v);
     }
     if (const toml::array* minerals = r.array("precipitate")) {
@@ -713,9 +699,9 @@ process::Step read_step(const StepContext& c, std::size_t n, const toml::table& 
     const auto kind = r.string("kind");
     if (!kind)
         throw InputError(s.where, r.dotted("kind"),
-                         "missing: expected the kind of step, one of: " + list_of(step_kinds));
+                         "missing: expected the kind of step, one of: " + name_list(step_kinds));
     if (!is_one_of(*kind, step_kinds))
-        r.fail("kind", "unknown kind of step '" + *kind + "'; expected one of: " + list_of(step_kinds),
+        r.fail("kind", "unknown kind of step '" + *kind + "'; expected one of: " + name_list(step_kinds),
                nearest_name(*kind, step_kinds));
     check_step_keys(t, *kind, c.file, prefix);
 
@@ -739,7 +725,7 @@ process::Step read_step(const StepContext& c, std::size_t n, const toml::table& 
         for (const auto& w : c.waters) names.push_back(w.name);
         throw InputError(s.where, r.dotted("water"),
                          "missing: the first step has no earlier step to start from and the case has " +
-                             std::to_string(names.size()) + " waters (" + list_of(names) +
+                             std::to_string(names.size()) + " waters (" + name_list(names) +
                              "); name the one it starts from: water = \"" + names.front() + "\"");
     }
 
@@ -754,7 +740,7 @@ process::Step read_step(const StepContext& c, std::size_t n, const toml::table& 
 // An output of a sweep: "pH", ..., "si:NAME", "transfer:NAME", "total:ELEMENT". Only the form
 // is checked here; the names are the database's.
 void check_output(const std::string& out, const SourceLocation& at, const std::string& key) {
-    const std::string expected = "expected " + list_of(plain_outputs) +
+    const std::string expected = "expected " + name_list(plain_outputs) +
                                  ", si:NAME, transfer:NAME or total:ELEMENT";
     const auto colon = out.find(':');
     if (colon == std::string::npos) {
@@ -810,7 +796,7 @@ process::Sweep read_sweep(const std::string& file, std::size_t n, const toml::ta
         if (labels.empty())
             r.fail("step", "no step is labelled '" + sw.step + "': the case has no [[step]]; a sweep varies an "
                            "input of a step");
-        r.fail("step", "no step is labelled '" + sw.step + "'; expected one of: " + list_of(labels),
+        r.fail("step", "no step is labelled '" + sw.step + "'; expected one of: " + name_list(labels),
                nearest_name(sw.step, labels));
     }
 
@@ -826,13 +812,13 @@ process::Sweep read_sweep(const std::string& file, std::size_t n, const toml::ta
         }
         for (std::size_t k = varied; k < steps.size(); ++k) later.push_back(steps[k].label);
         if (recorded == steps.size() || recorded < varied)
-            r.fail("at", "'" + sw.at + "' is not the varied step or a step after it; expected one of: " + list_of(later),
+            r.fail("at", "'" + sw.at + "' is not the varied step or a step after it; expected one of: " + name_list(later),
                    nearest_name(sw.at, later));
     }
-    const std::string variable = r.require_string("variable", "what the sweep varies, one of: " + list_of(sweep_variables));
+    const std::string variable = r.require_string("variable", "what the sweep varies, one of: " + name_list(sweep_variables));
     sw.variable_where = r.location("variable");
     if (!is_one_of(variable, sweep_variables))
-        r.fail("variable", "unknown variable '" + variable + "'; expected one of: " + list_of(sweep_variables),
+        r.fail("variable", "unknown variable '" + variable + "'; expected one of: " + name_list(sweep_variables),
                nearest_name(variable, sweep_variables));
     // Each variable is an input of one kind of step.
     const std::string needs = variable == "temperature_c" ? "temperature"
@@ -867,16 +853,16 @@ process::Sweep read_sweep(const std::string& file, std::size_t n, const toml::ta
         switch (sw.variable) {
             case Variable::temperature_c: check_range(r, key, v, 0.0, 100.0, "a temperature", " °C"); break;
             case Variable::dose:
-                if (v < 0.0) r.fail(key, "expected a dose of zero or more in" + unit + ", found " + show(v));
+                if (v < 0.0) r.fail(key, "expected a dose of zero or more in" + unit + ", found " + message_number(v));
                 break;
             case Variable::factor:
-                if (v < 1.0) r.fail(key, "expected a concentration factor of 1 or more, found " + show(v));
+                if (v < 1.0) r.fail(key, "expected a concentration factor of 1 or more, found " + message_number(v));
                 break;
             case Variable::fraction: check_range(r, key, v, 0.0, 1.0, "a fraction"); break;
         }
     }
     if (sw.from == sw.to)
-        r.fail("to", "expected a value other than from = " + show(sw.from) + "; a sweep needs a range");
+        r.fail("to", "expected a value other than from = " + message_number(sw.from) + "; a sweep needs a range");
 
     if (const toml::node* p = r.node("points")) {
         if (!p->is_integer())
@@ -895,7 +881,7 @@ process::Sweep read_sweep(const std::string& file, std::size_t n, const toml::ta
         if (!is_one_of(sw.fraction_of, parts))
             r.fail("fraction_of",
                    "'" + sw.fraction_of + "' is not among the waters of the blend '" + step->label + "' (" +
-                       list_of(parts) + ")",
+                       name_list(parts) + ")",
                    nearest_name(sw.fraction_of, parts));
     } else if (r.has("fraction_of")) {
         r.fail("fraction_of", "fraction_of only goes with variable = \"fraction\"");
@@ -946,7 +932,7 @@ void check_result_name(const std::vector<WaterAnalysis>& waters, const std::vect
     for (const auto& w : waters) names.push_back(w.name);
     for (const auto& s : steps) names.push_back(s.label);
     if (is_one_of(name, names)) return;
-    throw InputError(at, key, "no water or step is called '" + name + "'; expected one of: " + list_of(names),
+    throw InputError(at, key, "no water or step is called '" + name + "'; expected one of: " + name_list(names),
                      nearest_name(name, names));
 }
 
@@ -1005,7 +991,7 @@ std::vector<ActivityEntry> read_activities(tomlu::TableReader& r) {
             ar.fail(e.name, "expected the activity of the species (a number; for a gas its fugacity in atm), found " +
                                 tomlu::type_name(*e.node));
         const double v = *ar.number(e.name);
-        if (v <= 0.0) ar.fail(e.name, "expected an activity above zero, found " + show(v));
+        if (v <= 0.0) ar.fail(e.name, "expected an activity above zero, found " + message_number(v));
         out.push_back({e.name, v, e.key_where, ar.dotted(e.name)});
     }
     return out;
@@ -1050,7 +1036,7 @@ CellElectrode read_electrode(tomlu::TableReader& r, const std::string& which, co
         if (!among(a.species, species))
             throw InputError(a.where, a.key,
                              "'" + a.species + "' does not take part in the " + which + "'s half-reaction \"" +
-                                 e.half_reaction + "\" (" + list_of(species) + ")",
+                                 e.half_reaction + "\" (" + name_list(species) + ")",
                              nearest_name(a.species, species));
         e.activities.emplace_back(a.species, a.value);
         e.activity_where.push_back(a.where);
@@ -1101,7 +1087,7 @@ CellSpec read_cell(const std::string& file, const Case& c, std::size_t n, const 
                 if (!among(s, both)) both.push_back(s);
             throw InputError(a.where, a.key,
                              "'" + a.species + "' takes part in neither half-reaction of the cell (cathode: " +
-                                 list_of(cathode_species) + "; anode: " + list_of(anode_species) + ")",
+                                 name_list(cathode_species) + "; anode: " + name_list(anode_species) + ")",
                              nearest_name(a.species, both));
         }
 
@@ -1133,9 +1119,9 @@ std::optional<std::pair<double, double>> read_range(tomlu::TableReader& r, std::
     const auto v = r.numbers(key, 2);
     if (!v) return std::nullopt;
     const double a = (*v)[0], b = (*v)[1];
-    const std::string found = ", found [" + show(a) + ", " + show(b) + "]";
+    const std::string found = ", found [" + message_number(a) + ", " + message_number(b) + "]";
     if (a < lo || b > hi || a > hi || b < lo)
-        r.fail(key, "expected " + what + " [min, max] within " + show(lo) + " to " + show(hi) + found);
+        r.fail(key, "expected " + what + " [min, max] within " + message_number(lo) + " to " + message_number(hi) + found);
     if (!(a < b)) r.fail(key, "expected " + what + " [min, max] with min below max" + found);
     return std::pair{a, b};
 }
@@ -1175,7 +1161,7 @@ DiagramCase read_diagram(const std::string& file, const Case& c, std::size_t n, 
     if (auto a = r.number("activity")) {
         if (!(*a >= 1e-12 && *a <= 1.0))
             r.fail("activity", "expected an activity of the dissolved species from 1e-12 to 1 (log_activity from -12 "
-                               "to 0), found " + show(*a));
+                               "to 0), found " + message_number(*a));
         d.log_activity = std::log10(*a);
     }
 
@@ -1232,7 +1218,7 @@ Case parse_case(std::string_view toml_text, const std::string& origin) {
         if (!activity::parse_model_name(*model, c.activity_model)) {
             const auto names = activity::model_names();
             r.fail("activity_model",
-                   "unknown activity model '" + *model + "'; expected one of: " + list_of(names),
+                   "unknown activity model '" + *model + "'; expected one of: " + name_list(names),
                    nearest_name(*model, names));
         }
     }

@@ -61,15 +61,9 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
     j["saturation"] = sat;
     ordered_json transfers = ordered_json::array();
     for (const auto& t : r.transfers) {
-        double molar_mass = 0.0;
-        if (t.is_gas) {
-            if (auto g = db.find_gas(t.phase)) molar_mass = db.gases()[*g].formula.molar_mass();
-        } else if (auto m = db.find_mineral(t.phase)) {
-            molar_mass = db.minerals()[*m].formula.molar_mass();
-        }
         transfers.push_back({{"phase", t.phase},
                              {"moles", finite(t.moles, t.phase)},
-                             {"mg_per_l", finite(t.moles * molar_mass * 1000.0 * r.kg_water_per_litre, t.phase)},
+                             {"mg_per_l", finite(transfer_mg_per_l(db, r, t), t.phase)},
                              {"at_target", t.at_target},
                              {"exhausted", t.exhausted},
                              {"blocked", t.blocked},

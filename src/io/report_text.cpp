@@ -187,13 +187,7 @@ std::string transfers_block(const thermo::Database& db, const equilibrium::Speci
     std::string out = "Transfers (positive: into the water)\n";
     out += "  " + pad("phase", 20) + fmt::format("{:>14}{:>12}  {}\n", "mmol/kgw", "mg/L", "state");
     for (const auto& t : r.transfers) {
-        double molar_mass = 0.0;
-        if (t.is_gas) {
-            if (auto g = db.find_gas(t.phase)) molar_mass = db.gases()[*g].formula.molar_mass();
-        } else if (auto m = db.find_mineral(t.phase)) {
-            molar_mass = db.minerals()[*m].formula.molar_mass();
-        }
-        const double mg_per_l = t.moles * molar_mass * 1000.0 * r.kg_water_per_litre;
+        const double mg_per_l = transfer_mg_per_l(db, r, t);
         const std::string state = t.headspace ? fmt::format("closed headspace, {:.4g} mmol/kgw left in the gas", t.gas_moles_per_kgw * 1000.0)
                                   : t.exhausted ? "exhausted"
                                   : t.blocked   ? "held back by its allowed direction"
@@ -206,6 +200,17 @@ std::string transfers_block(const thermo::Database& db, const equilibrium::Speci
 }
 
 }  // namespace
+
+double transfer_mg_per_l(const thermo::Database& db, const equilibrium::SpeciationResult& r,
+                         const equilibrium::PhaseTransfer& t) {
+    double molar_mass = 0.0;
+    if (t.is_gas) {
+        if (auto g = db.find_gas(t.phase)) molar_mass = db.gases()[*g].formula.molar_mass();
+    } else if (auto m = db.find_mineral(t.phase)) {
+        molar_mass = db.minerals()[*m].formula.molar_mass();
+    }
+    return t.moles * molar_mass * 1000.0 * r.kg_water_per_litre;
+}
 
 std::vector<ReportItem> items_of(const std::vector<equilibrium::SpeciationResult>& results) {
     std::vector<ReportItem> items;

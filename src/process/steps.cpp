@@ -18,13 +18,6 @@ namespace deltag::process {
 
 namespace {
 
-std::string num(double v) {
-    std::ostringstream o;
-    o.precision(6);
-    o << v;
-    return o.str();
-}
-
 // Kg of water per litre of a derived water: the density of pure water at its temperature,
 // less the dissolved mass (the same approximation as for a lab analysis without a density).
 double kg_water_per_litre(const equilibrium::SpeciationResult& r, const thermo::Database& db) {
@@ -119,8 +112,7 @@ double amount_in_mol_per_kgw(const Amount& a, double molar_mass_g, double kg_wat
     }
     std::vector<std::string> names;
     for (const auto& u : units) names.emplace_back(u.name);
-    std::string list;
-    for (const auto& n : names) list += (list.empty() ? "" : ", ") + n;
+    const std::string list = name_list(names);
     throw InputError(a.where, "unit", "unknown unit '" + a.unit + "' for an amount; expected one of: " + list,
                      nearest_name(a.unit, names));
 }
@@ -236,10 +228,10 @@ StepOutcome do_dose(const thermo::Database& db, const Step& s, const DoseStep& d
             if ((ghi > 0) == (g0 > 0) && std::abs(ghi) > tolerance) {
                 const double start_value = g0 + t.value, end_value = ghi + t.value;
                 const bool wrong_way = std::abs(ghi) >= std::abs(g0);
-                std::string msg = "adding " + d.reagent + " moves " + target_name(t) + " from " + num(start_value) +
-                                  " to " + num(end_value) + " at " + num(max_mol * 1000.0) + " mmol/kgw; ";
-                msg += wrong_way ? "it cannot bring it to " + num(t.value)
-                                 : "the target " + num(t.value) + " is not reached within that dose (raise max_amount)";
+                std::string msg = "adding " + d.reagent + " moves " + target_name(t) + " from " + message_number(start_value) +
+                                  " to " + message_number(end_value) + " at " + message_number(max_mol * 1000.0) + " mmol/kgw; ";
+                msg += wrong_way ? "it cannot bring it to " + message_number(t.value)
+                                 : "the target " + message_number(t.value) + " is not reached within that dose (raise max_amount)";
                 throw InputError(t.where, "until", msg);
             }
             const RootResult root = brent(g, lo, hi, glo, ghi, tolerance, 1e-16);

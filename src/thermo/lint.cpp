@@ -7,17 +7,6 @@
 
 namespace deltag::thermo {
 
-namespace {
-
-std::string fmt_number(double v) {
-    std::ostringstream o;
-    o.precision(6);
-    o << v;
-    return o.str();
-}
-
-}  // namespace
-
 std::vector<LintFinding> Database::lint() const {
     std::vector<LintFinding> out;
     auto error = [&](const Entry& e, const std::string& table, const std::string& msg) {
@@ -41,11 +30,8 @@ std::vector<LintFinding> Database::lint() const {
         if (!has_reaction) return;
         try {
             const auto bad = chem::imbalance(chem::parse_reaction(e.reaction_text));
-            if (!bad.empty()) {
-                std::string what;
-                for (const auto& [k, v] : bad) what += (what.empty() ? "" : ", ") + k + " " + (v > 0 ? "+" : "") + fmt_number(v);
-                error(e, table, "reaction '" + e.reaction_text + "' is not balanced (right minus left: " + what + ")");
-            }
+            if (!bad.empty())
+                error(e, table, "reaction '" + e.reaction_text + "' is not balanced (right minus left: " + chem::imbalance_text(bad) + ")");
         } catch (const chem::ParseError& ex) {
             error(e, table, std::string("reaction cannot be read: ") + ex.what());
         }
@@ -55,13 +41,13 @@ std::vector<LintFinding> Database::lint() const {
         } else if (m.form == LogKModel::Form::analytic || m.form == LogKModel::Form::water_ionization) {
             const double at25 = m.log_k(25.0);
             if (!std::isfinite(at25) || std::abs(at25 - m.log_k_25) > 0.02)
-                error(e, table, "the temperature function gives log K = " + fmt_number(at25) +
-                                    " at 25 degC but log_k is " + fmt_number(m.log_k_25) + " (allowed difference 0.02)");
+                error(e, table, "the temperature function gives log K = " + message_number(at25) +
+                                    " at 25 degC but log_k is " + message_number(m.log_k_25) + " (allowed difference 0.02)");
         }
         if (m.range) {
             for (double t : {m.range->min_c, 0.5 * (m.range->min_c + m.range->max_c), m.range->max_c})
                 if (!std::isfinite(m.log_k(t)))
-                    error(e, table, "log K is not finite at " + fmt_number(t) + " degC");
+                    error(e, table, "log K is not finite at " + message_number(t) + " degC");
         }
     };
 
@@ -98,11 +84,7 @@ std::vector<LintFinding> Database::lint() const {
         if (!e.range) err("no temperature_range_c: give the range where E°(T) holds");
         try {
             const auto bad = chem::imbalance(e.reaction);
-            if (!bad.empty()) {
-                std::string what;
-                for (const auto& [k, v] : bad) what += (what.empty() ? "" : ", ") + k + " " + (v > 0 ? "+" : "") + fmt_number(v);
-                err("reaction '" + e.reaction_text + "' is not balanced (right minus left: " + what + ")");
-            }
+            if (!bad.empty()) err("reaction '" + e.reaction_text + "' is not balanced (right minus left: " + chem::imbalance_text(bad) + ")");
         } catch (const chem::ParseError& ex) {
             err(std::string("reaction cannot be read: ") + ex.what());
         }

@@ -29,8 +29,7 @@ std::vector<std::string> reference_names() {
 double reference_v(const std::string& name, double temperature_c, const SourceLocation& where) {
     for (const auto& r : reference_electrodes())
         if (r.name == name) return r.e_25_v + r.de_dt_v_per_k * (temperature_c - 25.0);
-    std::string list;
-    for (const auto& n : reference_names()) list += (list.empty() ? "" : ", ") + n;
+    const std::string list = name_list(reference_names());
     throw InputError(where, "reference electrode", "unknown reference electrode '" + name + "'; expected one of: " + list,
                      nearest_name(name, reference_names()));
 }

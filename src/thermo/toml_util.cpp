@@ -137,8 +137,7 @@ void TableReader::finish(const std::vector<std::string>& allowed) const {
     for (const auto& [k, v] : table_) {
         const std::string_view key = k.str();
         if (std::find(used_.begin(), used_.end(), key) != used_.end()) continue;
-        std::string list;
-        for (const auto& a : allowed) list += (list.empty() ? "" : ", ") + a;
+        const std::string list = name_list(allowed);
         throw InputError(where(k.source(), file_), dotted(key),
                          "unknown key; expected one of: " + list, nearest_name(key, allowed));
     }
