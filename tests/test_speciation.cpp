@@ -337,9 +337,11 @@ TEST_CASE("speciate rejects input it cannot set up") {
     expect_input_error(in, "the pH cannot come from the charge balance when the alkalinity is given");
 }
 
-TEST_CASE("a charge balance that needs a negative amount ends in ConvergenceError") {
+TEST_CASE("a charge balance that needs a negative amount is refused as having no solution") {
     // Much calcium, little chloride, neutral pH: closing the balance on Na+ would need a
-    // negative sodium total (about 1e-3 - 2e-2 mol/kgw), which no log-space solution gives.
+    // negative sodium total. By hand: cations 2 x 10 mmol Ca, anions 1 mmol Cl, so without
+    // sodium the water has about 19 meq/kgw more cations (less what CaOH+ and ion pairs
+    // change, nothing at pH 7 with chloride), and Na+ carries +1 per mole: about -19 mmol/kgw.
     SpeciationInput in;
     in.label = "impossible";
     in.ph = 7.0;
@@ -347,10 +349,29 @@ TEST_CASE("a charge balance that needs a negative amount ends in ConvergenceErro
     in.charge_balance_component = comp("Na+");
     try {
         (void)speciate(core(), in);
-        FAIL("expected a ConvergenceError");
-    } catch (const ConvergenceError& e) {
-        CHECK(std::string(e.what()).find("water 'impossible'") != std::string::npos);
-        CHECK(std::string(e.what()).find("negative amount") != std::string::npos);
+        FAIL("expected a NoSolutionError");
+    } catch (const NoSolutionError& e) {
+        CHECK(e.where().file == "impossible");
+        CHECK(e.key() == "charge_balance");
+        CHECK(e.message().find("negative amount (-19") != std::string::npos);
+        CHECK(e.message().find("more cations than anions") != std::string::npos);
+    }
+}
+
+TEST_CASE("an alkalinity below what hydroxide alone carries at the measured pH is refused as having no solution") {
+    // pH 12 at 25 degC: a(OH-) = 10^(12 - 13.995) = 1.01e-2 (Bandura & Lvov 2006 pKw, value
+    // from memory), so the hydroxide alone is about 10 meq/kgw; an alkalinity of 2 meq/kgw
+    // would need negative carbonate.
+    SpeciationInput in;
+    in.label = "caustic";
+    in.ph = 12.0;
+    in.components = {total("Na+", 2e-2), total("Cl-", 1e-2), ComponentInput{comp("HCO3-"), ComponentInput::Kind::alkalinity, 2e-3}};
+    try {
+        (void)speciate(core(), in);
+        FAIL("expected a NoSolutionError");
+    } catch (const NoSolutionError& e) {
+        CHECK(e.key() == "Alkalinity");
+        CHECK(e.message().find("no amount of carbonate fits") != std::string::npos);
     }
 }
 

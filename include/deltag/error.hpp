@@ -40,6 +40,15 @@ private:
     std::string suggestion_;
 };
 
+// Bad input of a particular kind: a water (or a trial water inside a search) for which no
+// solution exists, found when a solve fails (a charge balance that would need a negative
+// amount, an alkalinity below what the water's other bases carry). A search over trial
+// waters catches it as "no answer here"; at the command line it is bad input (exit 2).
+class NoSolutionError : public InputError {
+public:
+    using InputError::InputError;
+};
+
 // A calculation that did not converge. Carries what was being solved, the residual reached
 // and a hint on what to try.
 class ConvergenceError : public std::runtime_error {

@@ -56,6 +56,12 @@ struct Problem {
     std::vector<int> column_of_unknown;    // -1 for I, w and phases
     std::vector<int> phase_of_unknown;     // index into phases, or -1
     std::vector<int> species_of_column;    // index into sys->species of each column's own species (-1)
+    // The species whose log10 molality is a component column's unknown: its own species, or
+    // (switched basis) the species of the same element that dominates, e.g. NH4+ for nitrate
+    // at a low pe. Only species made of that one component (once), H+, e-, H2O and the
+    // element's own electrons qualify, so a switched column depends on unswitched ones only.
+    std::vector<int> basis_of_column;
+    std::vector<std::vector<int>> basis_candidates;  // per column: the species that qualify
     int i_unknown = -1, w_unknown = -1, h_unknown = -1;
     double log_a_h_fixed = 0.0, log_a_e_fixed = 0.0;
     MatrixXd weights;                      // species x unknowns, for mass/alkalinity/charge rows
@@ -68,8 +74,10 @@ struct Problem {
     // Work arrays.
     mutable VectorXd log_m, m, lg, dlg, la, dla;
     mutable MatrixXd g;                    // d log10 m / d u
+    mutable MatrixXd dla_du;               // d log10 a(column) / d u
     mutable std::vector<double> lg_buf, dlg_buf;
 
+    bool switched(std::size_t c) const { return basis_of_column[c] != species_of_column[c]; }
     void evaluate(const double* u, double* f, double* jac) const;
 };
 
@@ -83,21 +91,26 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
         lg(k) = lg_buf[static_cast<std::size_t>(k)];
         dlg(k) = dlg_buf[static_cast<std::size_t>(k)];
     }
-    // Log activity of each column and its d/dI part.
+    // Log activity of each column, its d/dI part and (for the Jacobian) its d/du. Unswitched
+    // columns first; a switched column follows from its basis species and the others.
     const Index nc = static_cast<Index>(s.columns.size());
+    if (jac) dla_du.setZero();
     for (Index c = 0; c < nc; ++c) {
         const ComponentColumn& col = s.columns[c];
         const int k = species_of_column[c];
         switch (col.role) {
             case ComponentColumn::Role::unknown:
             case ComponentColumn::Role::proton_unknown:
+                if (switched(static_cast<std::size_t>(c))) continue;
                 la(c) = u[col.unknown] + lg(k);
                 dla(c) = dlg(k);
+                if (jac) dla_du(c, col.unknown) = 1.0;
                 break;
             case ComponentColumn::Role::electron_unknown:
             case ComponentColumn::Role::split_electron:
                 la(c) = u[col.unknown];
                 dla(c) = 0.0;
+                if (jac) dla_du(c, col.unknown) = 1.0;
                 break;
             case ComponentColumn::Role::proton_fixed:
                 la(c) = log_a_h_fixed;
@@ -106,12 +119,30 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
             case ComponentColumn::Role::water:
                 la(c) = u[w_unknown];
                 dla(c) = 0.0;
+                if (jac) dla_du(c, w_unknown) = 1.0;
                 break;
             case ComponentColumn::Role::electron_fixed:
                 la(c) = log_a_e_fixed;
                 dla(c) = 0.0;
                 break;
         }
+    }
+    for (Index c = 0; c < nc; ++c) {
+        if (!switched(static_cast<std::size_t>(c))) continue;
+        const int k = basis_of_column[static_cast<std::size_t>(c)];
+        const double self = s.nu(k, c);
+        double v = u[s.columns[c].unknown] + lg(k) - s.log_k(k), dv = dlg(k);
+        if (jac) dla_du(c, s.columns[c].unknown) = 1.0;
+        for (Index c2 = 0; c2 < nc; ++c2) {
+            const double w = s.nu(k, c2);
+            if (c2 == c || w == 0.0) continue;
+            v -= w * la(c2);
+            dv -= w * dla(c2);
+            if (jac) dla_du.row(c) -= w * dla_du.row(c2);
+        }
+        la(c) = v / self;
+        dla(c) = dv / self;
+        if (jac) dla_du.row(c) /= self;
     }
     log_m = s.log_k + s.nu * la - lg;
     for (Index k = 0; k < ns; ++k) m(k) = std::exp(ln10 * std::clamp(log_m(k), -300.0, 50.0));
@@ -151,14 +182,7 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
     if (!jac) return;
     // G = d log m / d u.
     const VectorXd dlogm_di = s.nu * dla - dlg;  // per unit I
-    g.setZero();
-    for (Index c = 0; c < nc; ++c) {
-        const ComponentColumn& col = s.columns[c];
-        if (col.free())
-            g.col(col.unknown) += s.nu.col(c);
-        else if (col.role == ComponentColumn::Role::water)
-            g.col(w_unknown) += s.nu.col(c);
-    }
+    g.noalias() = s.nu * dla_du;
     g.col(i_unknown) += dlogm_di * (ionic * ln10);
     // Species outside the clamp do not move.
     for (Index k = 0; k < ns; ++k)
@@ -180,13 +204,7 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
                     if (w == 0.0) continue;
                     // d n/du = n ln10 d(log p)/du, with d(log p)/du as for a phase row.
                     const double k = w * gas_moles(static_cast<Index>(q)) * ln10;
-                    for (Index c = 0; c < nc; ++c) {
-                        const ComponentColumn& col = s.columns[c];
-                        if (col.free())
-                            J(r, col.unknown) += k * closed[q].nu(c);
-                        else if (col.role == ComponentColumn::Role::water)
-                            J(r, w_unknown) += k * closed[q].nu(c);
-                    }
+                    J.row(r) += k * (closed[q].nu * dla_du);
                     J(r, i_unknown) += k * closed[q].nu.dot(dla) * ionic * ln10;
                 }
                 break;
@@ -200,14 +218,7 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
                 break;
             case Equation::phase: {
                 const PhaseUnknown& ph = phases[static_cast<std::size_t>(phase_of_unknown[e])];
-                J.row(r).setZero();
-                for (Index c = 0; c < nc; ++c) {
-                    const ComponentColumn& col = s.columns[c];
-                    if (col.free())
-                        J(r, col.unknown) += ph.nu(c);
-                    else if (col.role == ComponentColumn::Role::water)
-                        J(r, w_unknown) += ph.nu(c);
-                }
+                J.row(r) = ph.nu * dla_du;
                 J(r, i_unknown) += ph.nu.dot(dla) * ionic * ln10;
                 break;
             }
@@ -324,6 +335,14 @@ AttemptOutcome run_kinsol(const Problem& p, std::vector<double>& u, const Solver
         KINSetMaxNewtonStep(mem, opt.max_step_log10 * std::sqrt(static_cast<double>(p.n)));
         KINSetPrintLevel(mem, 0);
         flag = KINSol(mem, x, KIN_LINESEARCH, scale, scale);
+        // KINSOL's norm can meet its tolerance while a balance, judged against the size of its
+        // own terms, does not yet: tighten and go on from there.
+        for (int tighten = 0; tighten < 2 && (flag == KIN_SUCCESS || flag == KIN_INITIAL_GUESS_OK); ++tighten) {
+            const double* xv0 = N_VGetArrayPointer(x);
+            if (max_abs_residual(p, std::vector<double>(xv0, xv0 + p.n)) <= std::max(opt.tolerance, 1e-300) * 10.0) break;
+            KINSetFuncNormTol(mem, opt.tolerance * std::pow(1e-4, tighten + 1));
+            flag = KINSol(mem, x, KIN_LINESEARCH, scale, scale);
+        }
         long nni = 0, nfe = 0;
         KINGetNumNonlinSolvIters(mem, &nni);
         KINGetNumFuncEvals(mem, &nfe);
@@ -335,6 +354,8 @@ AttemptOutcome run_kinsol(const Problem& p, std::vector<double>& u, const Solver
     const double r = max_abs_residual(p, candidate);
     out.residual = r;
     out.reason = kinsol_flag_text(flag);
+    if ((flag == KIN_SUCCESS || flag == KIN_INITIAL_GUESS_OK) && !(std::isfinite(r) && r <= std::max(opt.tolerance, 1e-300) * 10.0))
+        out.reason = "the Newton residual met its tolerance but a balance, against the size of its own terms, did not";
     // Accept on our own measure: KINSOL may stop on a tiny step with the residual already met.
     out.converged = std::isfinite(r) && r <= std::max(opt.tolerance, 1e-300) * 10.0;
     if (out.converged || std::isfinite(r)) u = candidate;
@@ -677,6 +698,20 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
     p.la.resize(static_cast<Index>(ncol));
     p.dla.resize(static_cast<Index>(ncol));
     p.g.resize(ns, nu);
+    p.dla_du.resize(static_cast<Index>(ncol), nu);
+    p.basis_of_column = p.species_of_column;
+    p.basis_candidates.assign(ncol, {});
+    for (std::size_t c = 0; c < ncol; ++c) {
+        if (sys.columns[c].role != ComponentColumn::Role::unknown || p.species_of_column[c] < 0) continue;
+        for (Index k = 0; k < ns; ++k) {
+            if (sys.nu(k, static_cast<Index>(c)) != 1.0 || k == p.species_of_column[c]) continue;
+            bool only_this_element = true;
+            for (std::size_t c2 = 0; c2 < ncol; ++c2)
+                if (c2 != c && sys.nu(k, static_cast<Index>(c2)) != 0.0 && sys.columns[c2].role == ComponentColumn::Role::unknown)
+                    only_this_element = false;
+            if (only_this_element) p.basis_candidates[c].push_back(static_cast<int>(k));
+        }
+    }
     p.lg_buf.resize(static_cast<std::size_t>(ns));
     p.dlg_buf.resize(static_cast<std::size_t>(ns));
     return L;
@@ -724,37 +759,219 @@ void check_phase_rule(const thermo::Database& db, const ChemicalSystem& sys, con
             p.phases[static_cast<std::size_t>(p.phase_of_unknown[static_cast<std::size_t>(L.gas_unknown[a])])]);
 }
 
-// Attempts (first start, then the fallback) on one layout. Updates u and the summary.
-AttemptOutcome solve_layout(ChemicalSystem& sys, const SpeciationInput& input,
-                            const Problem& p, std::vector<double>& u, const SolverOptions& options, SolveSummary& summary,
-                            const std::function<std::vector<double>(double)>& default_start) {
-    AttemptOutcome outcome = run_kinsol(p, u, options);
+// What the solver knows between attempts and layouts, independent of the basis: per column
+// the log10 molality of the component's own species (log10 a(e-) for electron columns),
+// log10 I and log10 a_w. NaN where nothing is known yet.
+struct CarriedState {
+    std::vector<double> column;
+    double log_i = std::numeric_limits<double>::quiet_NaN();
+    double log_w = std::numeric_limits<double>::quiet_NaN();
+    std::vector<double> phase;  // per unknown: the amount of a phase unknown (NaN elsewhere or unknown)
+};
+
+bool is_component_column(const ComponentColumn& col) {
+    return col.role == ComponentColumn::Role::unknown || col.role == ComponentColumn::Role::proton_unknown;
+}
+
+// Log activities of the columns that are not components (H+, e-, water, an element's own
+// electrons): from the state where known, else from the guesses. Component columns: NaN.
+VectorXd guessed_log_activities(const Problem& p, const CarriedState& st, double ph_guess, double pe_guess) {
+    const ChemicalSystem& s = *p.sys;
+    const Index nc = static_cast<Index>(s.columns.size());
+    VectorXd la = VectorXd::Constant(nc, std::numeric_limits<double>::quiet_NaN());
+    for (Index c = 0; c < nc; ++c) {
+        const double known = st.column[static_cast<std::size_t>(c)];
+        switch (s.columns[c].role) {
+            case ComponentColumn::Role::proton_fixed: la(c) = p.log_a_h_fixed; break;
+            case ComponentColumn::Role::electron_fixed: la(c) = p.log_a_e_fixed; break;
+            case ComponentColumn::Role::water: la(c) = std::isfinite(st.log_w) ? st.log_w : 0.0; break;
+            case ComponentColumn::Role::proton_unknown: la(c) = std::isfinite(known) ? known : -ph_guess; break;
+            case ComponentColumn::Role::electron_unknown: la(c) = std::isfinite(known) ? known : -pe_guess; break;
+            // pe 8: between the Fe(II)- and Fe(III)-dominated ranges of natural waters.
+            case ComponentColumn::Role::split_electron: la(c) = std::isfinite(known) ? known : -8.0; break;
+            case ComponentColumn::Role::unknown: break;
+        }
+    }
+    return la;
+}
+
+// Basis choice: for each component column, the species that holds most of the element at the
+// given activities of H+, e- and water (its own species unless another is ahead by more
+// than a decade, so the basis does not flip back and forth near a boundary).
+void choose_basis(Problem& p, const VectorXd& la) {
+    const ChemicalSystem& s = *p.sys;
+    const Index nc = static_cast<Index>(s.columns.size());
+    for (Index c = 0; c < nc; ++c) {
+        const auto cu = static_cast<std::size_t>(c);
+        if (s.columns[c].role != ComponentColumn::Role::unknown || p.species_of_column[cu] < 0) continue;
+        auto score = [&](int k) {
+            double v = s.log_k(k);
+            for (Index c2 = 0; c2 < nc; ++c2)
+                if (c2 != c && s.nu(k, c2) != 0.0) v += s.nu(k, c2) * la(c2);
+            return v;
+        };
+        int best = p.basis_of_column[cu];
+        const double current = score(best);
+        double best_score = current;
+        for (const int k : p.basis_candidates[cu]) {
+            const double v = score(k);
+            if (v > best_score) {
+                best_score = v;
+                best = k;
+            }
+        }
+        if (best_score > current + 1.0) p.basis_of_column[cu] = best;
+    }
+}
+
+// The unknowns for the current basis from a carried state; where the state knows nothing,
+// the basis species of a component holds its whole total. Phase amounts are left at 0.
+std::vector<double> to_unknowns(const Problem& p, const SpeciationInput& input, const CarriedState& st,
+                                double ph_guess, double pe_guess) {
+    const ChemicalSystem& s = *p.sys;
+    const thermo::Database& db = *s.db;
+    std::vector<double> u(p.n, 0.0);
+    const VectorXd la_fixed = guessed_log_activities(p, st, ph_guess, pe_guess);
+    // Ionic strength and water activity: known, or estimated from the totals.
+    double i_est = 0.0, sum = 0.0;
+    std::vector<double> own_guess(s.columns.size(), std::numeric_limits<double>::quiet_NaN());
+    for (std::size_t e = 0; e < p.n; ++e) {
+        const int c = p.column_of_unknown[e];
+        if (c < 0 || !is_component_column(s.columns[static_cast<std::size_t>(c)])) continue;
+        const std::size_t comp = s.columns[static_cast<std::size_t>(c)].component;
+        double guess = 1e-7;
+        if (static_cast<int>(e) == p.h_unknown) guess = std::pow(10.0, -ph_guess);
+        else if (p.equation[e] == Equation::mass) guess = p.target[e] > 0 ? p.target[e] : 1e-5;  // 1e-5: brought in by a phase
+        else if (p.equation[e] == Equation::alkalinity) guess = std::max(std::abs(p.target[e]), 1e-6);
+        else {
+            for (const auto& x : input.components)
+                if (x.component == comp && x.value > 0) guess = x.value;
+            if (guess <= 1e-7) guess = 1e-4;
+        }
+        own_guess[static_cast<std::size_t>(c)] = std::log10(guess);
+        const int z = db.species()[comp].formula.charge;
+        i_est += 0.5 * z * z * guess;
+        sum += guess;
+    }
+    const double log_i = std::isfinite(st.log_i) ? st.log_i : std::log10(std::max(i_est, 1e-7));
+    u[static_cast<std::size_t>(p.i_unknown)] = log_i;
+    u[static_cast<std::size_t>(p.w_unknown)] =
+        std::isfinite(st.log_w) ? st.log_w : -constants::water_molar_mass_kg * sum / ln10;
+    // Activity coefficients at that ionic strength convert between own and basis species.
+    s.model->log_gamma(std::exp(ln10 * std::clamp(log_i, -20.0, 2.0)), s.params, p.lg_buf, p.dlg_buf);
+    const auto lg = [&](int k) { return p.lg_buf[static_cast<std::size_t>(k)]; };
+    for (std::size_t e = 0; e < p.n; ++e) {
+        const int ci = p.column_of_unknown[e];
+        if (ci < 0) continue;
+        const auto c = static_cast<std::size_t>(ci);
+        const ComponentColumn& col = s.columns[c];
+        if (!is_component_column(col)) {
+            u[e] = la_fixed(ci);
+            continue;
+        }
+        const double known = st.column[c];
+        if (!p.switched(c)) {
+            u[e] = std::isfinite(known) ? known : own_guess[c];
+            continue;
+        }
+        const int k = p.basis_of_column[c];
+        if (!std::isfinite(known)) {
+            u[e] = own_guess[c];  // the basis species holds the total
+            continue;
+        }
+        // log m(basis) = log K + nu_c la(c) + sum nu la(others) - lg(basis).
+        double v = s.log_k(k) + s.nu(k, ci) * (known + lg(p.species_of_column[c])) - lg(k);
+        for (Index c2 = 0; c2 < static_cast<Index>(s.columns.size()); ++c2)
+            if (c2 != ci && s.nu(k, c2) != 0.0) v += s.nu(k, c2) * la_fixed(c2);
+        u[e] = v;
+    }
+    return u;
+}
+
+// The carried state at the unknowns u of the current basis.
+CarriedState from_unknowns(const Problem& p, const std::vector<double>& u) {
+    const ChemicalSystem& s = *p.sys;
+    std::vector<double> f(p.n);
+    p.evaluate(u.data(), f.data(), nullptr);
+    CarriedState st;
+    st.column.assign(s.columns.size(), std::numeric_limits<double>::quiet_NaN());
+    for (std::size_t c = 0; c < s.columns.size(); ++c) {
+        const ComponentColumn& col = s.columns[c];
+        const Index ci = static_cast<Index>(c);
+        if (is_component_column(col)) st.column[c] = p.la(ci) - p.lg(p.species_of_column[c]);
+        else if (col.role == ComponentColumn::Role::electron_unknown || col.role == ComponentColumn::Role::split_electron)
+            st.column[c] = p.la(ci);
+    }
+    st.log_i = u[static_cast<std::size_t>(p.i_unknown)];
+    st.log_w = u[static_cast<std::size_t>(p.w_unknown)];
+    st.phase.assign(p.n, std::numeric_limits<double>::quiet_NaN());
+    for (std::size_t e = 0; e < p.n; ++e)
+        if (p.phase_of_unknown[e] >= 0) st.phase[e] = u[e];
+    return st;
+}
+
+void count(SolveSummary& summary, const AttemptOutcome& o) {
     summary.attempts += 1;
-    summary.iterations += static_cast<int>(outcome.iterations);
-    summary.residual_evaluations += static_cast<int>(outcome.evaluations);
+    summary.iterations += static_cast<int>(o.iterations);
+    summary.residual_evaluations += static_cast<int>(o.evaluations);
+}
+
+// One attempt: choose the basis at the state, start from it, and run KINSOL; when it stops
+// short with a finite residual (too many long steps, iteration limit, a stalled line
+// search), take the point it reached as the new state, choose the basis again there and
+// carry on, while that keeps reducing the residual. `st` and `u` hold the last point.
+AttemptOutcome attempt(Problem& p, const SpeciationInput& input, CarriedState& st, std::vector<double>& u,
+                       double ph_guess, double pe_guess, const std::vector<double>& phase_start,
+                       const SolverOptions& options, SolveSummary& summary) {
+    AttemptOutcome best;
+    std::vector<int> best_basis = p.basis_of_column;
+    for (int leg = 0; leg < 6; ++leg) {
+        choose_basis(p, guessed_log_activities(p, st, ph_guess, pe_guess));
+        std::vector<double> trial = to_unknowns(p, input, st, ph_guess, pe_guess);
+        for (std::size_t e = 0; e < p.n; ++e)
+            if (p.phase_of_unknown[e] >= 0)
+                trial[e] = e < st.phase.size() && std::isfinite(st.phase[e]) ? st.phase[e] : phase_start[e];
+        AttemptOutcome o = run_kinsol(p, trial, options);
+        count(summary, o);
+        const bool better = o.converged || (std::isfinite(o.residual) && o.residual < 0.5 * best.residual);
+        if (!better) break;
+        best = o;
+        u = trial;
+        best_basis = p.basis_of_column;
+        st = from_unknowns(p, u);
+        if (o.converged) break;
+    }
+    p.basis_of_column = best_basis;  // u belongs to this basis
+    return best;
+}
+
+// Attempts on one layout: from the carried state; then (fallback) from default starts at
+// several pH guesses, each through an ideal-solution solve continued to the activity model.
+AttemptOutcome solve_layout(ChemicalSystem& sys, const SpeciationInput& input, Problem& p, CarriedState& st,
+                            std::vector<double>& u, const std::vector<double>& phase_start, double pe_guess,
+                            const SolverOptions& options, SolveSummary& summary) {
+    const double ph0 = input.ph.value_or(7.0);
+    AttemptOutcome outcome = attempt(p, input, st, u, ph0, pe_guess, phase_start, options, summary);
     if (outcome.converged || !options.allow_fallback) return outcome;
-    // Fallback: solve the ideal solution first, then continue to the activity model.
     const std::vector<double> ph_guesses =
-        input.ph ? std::vector<double>{*input.ph} : std::vector<double>{7.0, 4.0, 10.0};
+        input.ph ? std::vector<double>{*input.ph} : std::vector<double>{7.0, 4.0, 10.0, 2.0, 12.5};
     for (double ph_guess : ph_guesses) {
-        std::vector<double> v = default_start(ph_guess);
+        CarriedState fresh;
+        fresh.column.assign(sys.columns.size(), std::numeric_limits<double>::quiet_NaN());
+        std::vector<double> v;
         std::unique_ptr<activity::ActivityModel> real = std::move(sys.model);
         sys.model = activity::make_model(activity::ModelKind::ideal, input.temperature_c);
         SolverOptions loose = options;
         loose.max_step_log10 = 1.0;
-        AttemptOutcome ideal = run_kinsol(p, v, loose);
+        AttemptOutcome ideal = attempt(p, input, fresh, v, ph_guess, pe_guess, phase_start, loose, summary);
         sys.model = std::move(real);
-        summary.attempts += 1;
-        summary.iterations += static_cast<int>(ideal.iterations);
-        summary.residual_evaluations += static_cast<int>(ideal.evaluations);
         if (!std::isfinite(ideal.residual)) continue;
-        AttemptOutcome full = run_kinsol(p, v, loose);
-        summary.attempts += 1;
-        summary.iterations += static_cast<int>(full.iterations);
-        summary.residual_evaluations += static_cast<int>(full.evaluations);
+        fresh.log_i = std::isfinite(fresh.log_i) ? fresh.log_i : st.log_i;
+        AttemptOutcome full = attempt(p, input, fresh, v, ph_guess, pe_guess, phase_start, loose, summary);
         if (full.converged || full.residual < outcome.residual) {
             outcome = full;
             u = v;
+            st = fresh;
         }
         if (outcome.converged) {
             if (summary.method.find("fallback") == std::string::npos)
@@ -763,6 +980,78 @@ AttemptOutcome solve_layout(ChemicalSystem& sys, const SpeciationInput& input,
         }
     }
     return outcome;
+}
+
+// When a solve fails, some inputs have no solution at all; say so as bad input (with what
+// to change) instead of a convergence failure. Two such cases are checked, each by one more
+// solve of a simpler water:
+// - a charge balance on an analyte that would need a negative amount of it (the water
+//   with that analyte at a trace shows a charge excess of the analyte's own sign);
+// - a measured pH with a total alkalinity smaller than what the water's other bases
+//   (hydroxide, silicate, hydroxo complexes) carry at that pH, so carbonate would be negative.
+void explain_no_solution(const thermo::Database& db, const SpeciationInput& input, const SolverOptions& options) {
+    const SourceLocation here{input.label.empty() ? std::string("speciation input") : input.label, 0, 0};
+    SolverOptions quiet = options;
+    quiet.allow_fallback = true;
+    if (input.charge_balance_component) {
+        const std::size_t j = *input.charge_balance_component;
+        SpeciationInput trial = input;
+        trial.charge_balance_component.reset();
+        for (auto& c : trial.components)
+            if (c.component == j) c.value = 1e-12;
+        SpeciationResult r;
+        try {
+            r = speciate(db, trial, quiet);
+        } catch (const std::exception&) {
+            return;
+        }
+        // Charge per mole of the element at this pH and redox level, and the excess to close.
+        double charge_per_mol = 0.0, total = 0.0;
+        for (const auto& sr : r.species) {
+            const auto& sp = db.species()[sr.species];
+            for (const auto& [k, v] : sp.formation)
+                if (k == j) {
+                    charge_per_mol += v * sr.molality * sp.formula.charge;
+                    total += v * sr.molality;
+                }
+        }
+        if (!(total > 0)) return;
+        charge_per_mol /= total;
+        const double excess_eq = (r.cations_meq - r.anions_meq) / 1000.0 - input.charge_imbalance_eq;
+        const double needed = -excess_eq / charge_per_mol;
+        if (needed < 0 && std::isfinite(needed)) {
+            std::ostringstream o;
+            o.precision(3);
+            o << "closing the charge balance on '" << component_name(db, j) << "' would need a negative amount ("
+              << needed * 1000.0 << " mmol/kgw): without it the water has " << std::abs(excess_eq) * 1000.0 << " meq/kgw more "
+              << (excess_eq > 0 ? "cations" : "anions") << " than " << (excess_eq > 0 ? "anions" : "cations")
+              << ", and at this pH and redox level it carries a charge of " << charge_per_mol
+              << " per mole; balance on an ion of the other charge, or check the analysis";
+            throw NoSolutionError(here, "charge_balance", o.str());
+        }
+        return;
+    }
+    if (!input.ph) return;
+    for (const auto& c : input.components) {
+        if (c.kind != ComponentInput::Kind::alkalinity) continue;
+        SpeciationInput trial = input;
+        std::erase_if(trial.components, [&](const ComponentInput& x) { return x.component == c.component; });
+        SpeciationResult r;
+        try {
+            r = speciate(db, trial, quiet);
+        } catch (const std::exception&) {
+            return;
+        }
+        if (r.alkalinity_eq >= c.value) {
+            std::ostringstream o;
+            o.precision(4);
+            o << "the total alkalinity given (" << c.value * 1000.0 << " meq/kgw) is not more than the "
+              << r.alkalinity_eq * 1000.0 << " meq/kgw that hydroxide and the water's other bases carry at pH " << *input.ph
+              << " without any carbonate, so no amount of carbonate fits: check the pH and the alkalinity";
+            throw NoSolutionError(here, "Alkalinity", o.str());
+        }
+        return;
+    }
 }
 
 }  // namespace
@@ -785,32 +1074,35 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
 
     // Values carried from one layout to the next (by column, and per phase).
     const std::size_t ncol = sys.columns.size();
-    std::vector<double> col_value(ncol, std::numeric_limits<double>::quiet_NaN());
-    double log_i = std::numeric_limits<double>::quiet_NaN(), log_w = std::numeric_limits<double>::quiet_NaN();
+    CarriedState carried;
+    carried.column.assign(ncol, std::numeric_limits<double>::quiet_NaN());
     std::vector<double> mineral_xi(minerals.size(), 0.0), gas_xi(input.gases.size(), 0.0);
+    // log10 a(e-) = -pe; with the electrons conserved, start from the earlier pe or a
+    // moderately oxidising one.
+    const double pe_guess = start && start->pe ? *start->pe : 4.0;
     if (start) {
         for (std::size_t c = 0; c < ncol; ++c) {
             if (sys.columns[c].role == ComponentColumn::Role::electron_unknown) {
-                if (start->pe) col_value[c] = -*start->pe;
+                if (start->pe) carried.column[c] = -*start->pe;
                 continue;
             }
             if (sys.columns[c].role == ComponentColumn::Role::split_electron) {
                 for (const auto& [k, la] : start->split_electron_log_activity)
-                    if (k == sys.columns[c].split_of) col_value[c] = la;
+                    if (k == sys.columns[c].split_of) carried.column[c] = la;
                 continue;
             }
             if (const SpeciesResult* sr = start->find(db.species()[sys.columns[c].component].name); sr && sr->molality > 0)
-                col_value[c] = std::log10(sr->molality);
+                carried.column[c] = std::log10(sr->molality);
         }
-        log_i = std::log10(std::max(start->ionic_strength, 1e-7));
-        log_w = std::log10(std::max(start->water_activity, 1e-3));
+        carried.log_i = std::log10(std::max(start->ionic_strength, 1e-7));
+        carried.log_w = std::log10(std::max(start->water_activity, 1e-3));
         for (std::size_t a = 0; a < minerals.size(); ++a)
             for (const auto& t : start->transfers)
                 if (t.phase == db.minerals()[minerals[a].spec.mineral].name) mineral_xi[a] = t.moles;
     }
 
     SolveSummary summary;
-    summary.method = "KINSOL Newton with line search, analytic Jacobian";
+    summary.method = "KINSOL Newton with line search, analytic Jacobian, dominant-species basis";
     Layout L;
     std::vector<double> u;
     AttemptOutcome outcome;
@@ -820,59 +1112,17 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
         L = make_layout(db, sys, input, minerals);
         if (round == 0) check_phase_rule(db, sys, input, L);
         Problem& p = L.p;
-        auto default_start = [&](double ph_guess) {
-            std::vector<double> v(p.n, 0.0);
-            double i_est = 0.0, sum = 0.0;
-            for (std::size_t e = 0; e < p.n; ++e) {
-                const int c = p.column_of_unknown[e];
-                if (c < 0) continue;
-                const std::size_t comp = sys.columns[c].component;
-                const int z = db.species()[comp].formula.charge;
-                double guess = 1e-7;
-                if (sys.columns[c].role == ComponentColumn::Role::split_electron) {
-                    v[e] = -8.0;  // pe 8: between the Fe(II)- and Fe(III)-dominated ranges
-                    continue;
-                }
-                if (sys.columns[c].role == ComponentColumn::Role::electron_unknown) {
-                    // log10 a(e-) = -pe; start from a moderately oxidising pe.
-                    v[e] = start && start->pe ? -*start->pe : -4.0;
-                    continue;
-                }
-                if (static_cast<int>(e) == p.h_unknown) guess = std::pow(10.0, -ph_guess);
-                else if (p.equation[e] == Equation::mass) guess = p.target[e] > 0 ? p.target[e] : 1e-5;  // 1e-5: brought in by a phase
-                else if (p.equation[e] == Equation::alkalinity) guess = std::max(std::abs(p.target[e]), 1e-6);
-                else {
-                    for (const auto& x : input.components)
-                        if (x.component == comp && x.value > 0) guess = x.value;
-                    if (guess <= 1e-7) guess = 1e-4;
-                }
-                v[e] = std::log10(guess);
-                i_est += 0.5 * z * z * guess;
-                sum += guess;
-            }
-            v[static_cast<std::size_t>(p.i_unknown)] = std::log10(std::max(i_est, 1e-7));
-            v[static_cast<std::size_t>(p.w_unknown)] = -constants::water_molar_mass_kg * sum / ln10;
-            return v;
-        };
-        // Start: the default, overwritten by whatever earlier rounds (or a warm start) know.
-        u = default_start(input.ph.value_or(7.0));
-        for (std::size_t e = 0; e < p.n; ++e)
-            if (const int c = p.column_of_unknown[e]; c >= 0 && std::isfinite(col_value[static_cast<std::size_t>(c)]))
-                u[e] = col_value[static_cast<std::size_t>(c)];
-        if (std::isfinite(log_i)) u[static_cast<std::size_t>(p.i_unknown)] = log_i;
-        if (std::isfinite(log_w)) u[static_cast<std::size_t>(p.w_unknown)] = log_w;
+        // Phase amounts: what earlier rounds (or a warm start) know.
+        std::vector<double> phase_start(p.n, 0.0);
         for (std::size_t a = 0; a < minerals.size(); ++a)
-            if (L.mineral_unknown[a] >= 0) u[static_cast<std::size_t>(L.mineral_unknown[a])] = mineral_xi[a];
-        for (std::size_t a = 0; a < gas_xi.size(); ++a) u[static_cast<std::size_t>(L.gas_unknown[a])] = gas_xi[a];
+            if (L.mineral_unknown[a] >= 0) phase_start[static_cast<std::size_t>(L.mineral_unknown[a])] = mineral_xi[a];
+        for (std::size_t a = 0; a < gas_xi.size(); ++a) phase_start[static_cast<std::size_t>(L.gas_unknown[a])] = gas_xi[a];
+        carried.phase.clear();
 
-        outcome = solve_layout(sys, input, p, u, options, summary, default_start);
+        outcome = solve_layout(sys, input, p, carried, u, phase_start, pe_guess, options, summary);
         if (!outcome.converged) break;
 
         // Carry the solution forward.
-        for (std::size_t e = 0; e < p.n; ++e)
-            if (const int c = p.column_of_unknown[e]; c >= 0) col_value[static_cast<std::size_t>(c)] = u[e];
-        log_i = u[static_cast<std::size_t>(p.i_unknown)];
-        log_w = u[static_cast<std::size_t>(p.w_unknown)];
         for (std::size_t a = 0; a < minerals.size(); ++a)
             if (L.mineral_unknown[a] >= 0) mineral_xi[a] = u[static_cast<std::size_t>(L.mineral_unknown[a])];
         for (std::size_t a = 0; a < gas_xi.size(); ++a) gas_xi[a] = u[static_cast<std::size_t>(L.gas_unknown[a])];
@@ -930,6 +1180,7 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
     summary.residual_norm = std::isfinite(outcome.residual) ? outcome.residual : -1.0;
     summary.stop_reason = outcome.reason;
     if (!outcome.converged) {
+        if (options.allow_fallback) explain_no_solution(db, input, options);
         std::string subject = input.label.empty() ? std::string("speciation") : "water '" + input.label + "'";
         std::string hint = "check the analysis (units, charge balance, pH) or try another activity_model";
         if (input.charge_balance_component)

@@ -60,6 +60,8 @@ Indices water_treatment_indices(const thermo::Database& db, const WaterState& w)
                 fn = si_at(next);
             } catch (const ConvergenceError&) {
                 return;
+            } catch (const NoSolutionError&) {  // this alkalinity cannot exist at that pH
+                return;
             }
             x = next;
             fx = fn;
