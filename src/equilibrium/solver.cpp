@@ -14,10 +14,12 @@
 #include <cstring>
 #include <functional>
 #include <limits>
+#include <memory>
 #include <sstream>
 
 #include "deltag/constants.hpp"
 #include "deltag/speciation.hpp"
+#include "equilibrium/probe.hpp"
 #include "equilibrium/system.hpp"
 
 namespace deltag::equilibrium {
@@ -1056,11 +1058,15 @@ void explain_no_solution(const thermo::Database& db, const SpeciationInput& inpu
 
 }  // namespace
 
-SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& input,
-                          const SolverOptions& options, const SpeciationResult* start) {
+namespace {
+
+// The whole solve; `probe` (tests only) receives the final problem at the solution.
+SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput& input, const SolverOptions& options,
+                               const SpeciationResult* start, internal::EquationProbe* probe) {
     const auto t_begin = std::chrono::steady_clock::now();
     validate_input(db, input);
-    ChemicalSystem sys = build_system(db, input);
+    const auto sys_holder = std::make_shared<ChemicalSystem>(build_system(db, input));
+    ChemicalSystem& sys = *sys_holder;
 
     std::vector<MineralState> minerals;
     for (const auto& m : input.minerals) {
@@ -1195,6 +1201,33 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
     const Problem& p = L.p;
     std::vector<double> f(p.n);
     p.evaluate(u.data(), f.data(), nullptr);
+    if (probe) {
+        static const char* const names[] = {"mass", "alkalinity", "charge", "ionic strength", "water", "phase"};
+        probe->n = p.n;
+        probe->solution = u;
+        probe->closed_gases = p.closed.size();
+        for (std::size_t e = 0; e < p.n; ++e) {
+            std::string k = names[static_cast<int>(p.equation[e])];
+            bool sw = false;
+            if (const int c = p.column_of_unknown[e]; c >= 0) {
+                const auto role = sys.columns[static_cast<std::size_t>(c)].role;
+                if (role == ComponentColumn::Role::electron_unknown) k = "electrons";
+                if (role == ComponentColumn::Role::split_electron) k = "split electrons";
+                sw = p.switched(static_cast<std::size_t>(c));
+            }
+            if (p.phase_of_unknown[e] >= 0) {
+                k = "gas";
+                for (const int mu : L.mineral_unknown)
+                    if (mu == static_cast<int>(e)) k = "mineral";
+            }
+            probe->kind.push_back(k);
+            probe->switched.push_back(sw);
+        }
+        auto problem = std::make_shared<Problem>(p);
+        probe->evaluate = [problem, sys_holder](const double* x, double* fx, double* jac) {
+            problem->evaluate(x, fx, jac);
+        };
+    }
     const Index ns = static_cast<Index>(sys.species.size());
     SpeciationResult res;
     res.label = input.label;
@@ -1317,5 +1350,23 @@ SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& inp
     }
     return res;
 }
+
+}  // namespace
+
+SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& input,
+                          const SolverOptions& options, const SpeciationResult* start) {
+    return speciate_impl(db, input, options, start, nullptr);
+}
+
+namespace internal {
+
+EquationProbe probe_equations(const thermo::Database& db, const SpeciationInput& input,
+                              const SolverOptions& options) {
+    EquationProbe probe;
+    (void)speciate_impl(db, input, options, nullptr, &probe);
+    return probe;
+}
+
+}  // namespace internal
 
 }  // namespace deltag::equilibrium
