@@ -408,3 +408,35 @@ TEST_CASE("solver summary texts") {
     CHECK(r.summary.iterations > 0);
     CHECK(r.summary.residual_norm <= 1e-11);
 }
+
+TEST_CASE("a redox level beyond the stability of water: warned past 1 atm, refused past 100 atm") {
+    // The lines of water stability at 25 degC (Stumm & Morgan, Aquatic Chemistry, 3rd ed.,
+    // 1996, ch. 8): O2(g) + 4 H+ + 4 e- = 2 H2O with log K = 83.1, so
+    // pe = 20.78 - pH + 0.25 log p(O2); 2 H+ + 2 e- = H2(g) with log K = 0, so
+    // pe = -pH - 0.5 log p(H2). At pH 7: pe 14 -> log p(O2) = 0.9; pe 20 -> 24.9;
+    // pe -7.5 -> log p(H2) = 1; pe -9 -> 4.
+    auto water_at = [](double pe) {
+        SpeciationInput in = hard_water();
+        in.label = "redox";
+        in.ph = 7.0;
+        in.pe = pe;
+        in.charge_balance_component = comp("Cl-");
+        return in;
+    };
+    auto warning_with = [](const SpeciationResult& r, const char* text) {
+        for (const auto& w : r.warnings)
+            if (w.find(text) != std::string::npos) return true;
+        return false;
+    };
+    const SpeciationResult ok = speciate(core(), water_at(8.0));
+    CHECK_FALSE(warning_with(ok, "stability"));
+    const SpeciationResult high = speciate(core(), water_at(14.0));
+    CHECK(warning_with(high, "above the O2/H2O line"));
+    CHECK(warning_with(high, "give off oxygen"));
+    const SpeciationResult low = speciate(core(), water_at(-7.5));
+    CHECK(warning_with(low, "below the H2O/H2 line"));
+    CHECK_THROWS_WITH_AS((void)speciate(core(), water_at(20.0)), doctest::Contains("above the O2/H2O line"),
+                         NoSolutionError);
+    CHECK_THROWS_WITH_AS((void)speciate(core(), water_at(-9.0)), doctest::Contains("below the H2O/H2 line"),
+                         NoSolutionError);
+}

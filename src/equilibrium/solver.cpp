@@ -1060,6 +1060,34 @@ void explain_no_solution(const thermo::Database& db, const SpeciationInput& inpu
 
 namespace {
 
+// A fixed redox level beyond the stability of water: the O2 (or H2) pressure it implies.
+// Above 1 atm the water would give off the gas (a warning); above 100 atm no water is at
+// that level (boilers and oxygenation stay well below), so the level is refused: a pe of 20
+// at pH 7 would put 10^25 atm of oxygen and hundreds of mol/kg of O2(aq) in the answer. ORP
+// electrodes in chlorinated water read the oxidant, not the O2/H2O couple; pe and Eh
+// readings beyond the lines are usually a wrong sign, unit or reference electrode.
+void check_redox_level(const SpeciationInput& input, SpeciationResult& res) {
+    constexpr double warn_log_atm = 0.0, refuse_log_atm = 2.0;
+    for (const auto& sat : res.saturation) {
+        if (!sat.is_gas || (sat.phase != "O2(g)" && sat.phase != "H2(g)")) continue;
+        const bool oxygen = sat.phase == "O2(g)";
+        if (sat.si <= warn_log_atm) continue;
+        std::ostringstream o;
+        o.precision(3);
+        o << "the redox level pe " << *input.pe << " at pH " << res.ph << " lies "
+          << (oxygen ? "above the O2/H2O line" : "below the H2O/H2 line") << " of water stability: it implies "
+          << (oxygen ? "an oxygen" : "a hydrogen") << " partial pressure of 10^" << sat.si << " atm";
+        if (sat.si > refuse_log_atm) {
+            o << ", which no water holds; check the reading's sign, unit and reference electrode (an ORP electrode "
+                 "in chlorinated water reads the oxidant, not the water's O2/H2O level)";
+            const SourceLocation here{input.label.empty() ? std::string("speciation input") : input.label, 0, 0};
+            throw NoSolutionError(here, "pe", o.str());
+        }
+        o << "; the water would give off " << (oxygen ? "oxygen" : "hydrogen");
+        res.warnings.push_back(o.str());
+    }
+}
+
 // The whole solve; `probe` (tests only) receives the final problem at the solution.
 SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput& input, const SolverOptions& options,
                                const SpeciationResult* start, internal::EquationProbe* probe) {
@@ -1332,6 +1360,7 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
     summary.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t_begin).count();
     res.summary = summary;
     res.saturation = saturation_indices(db, res);
+    if (input.pe) check_redox_level(input, res);
     for (const auto& t : res.transfers) {
         if (!t.exhausted && !t.blocked) continue;
         double si = 0.0;
