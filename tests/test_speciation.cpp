@@ -375,6 +375,30 @@ TEST_CASE("an alkalinity below what hydroxide alone carries at the measured pH i
     }
 }
 
+TEST_CASE("an alkalinity below what aluminate carries is refused, naming the base, also with a charge balance") {
+    // Hand calculation: Al 5 umol/kgw at pH 7.3 is mostly Al(OH)4- (the Al hydrolysis
+    // constants of Nordstrom et al. 1990 put the Al(OH)4-/Al(OH)3 boundary near pH 6.7 and
+    // Al3+ far below), and a titration to the carbonic-acid end point (about pH 4.5, where
+    // Al3+ dominates) takes up 4 H+ per Al(OH)4-: about 16-20 ueq/kgw of alkalinity from the
+    // aluminium alone, more than the 7 ueq/kgw given. Invented soft water.
+    SpeciationInput in;
+    in.label = "soft with aluminium";
+    in.temperature_c = 32.0;
+    in.ph = 7.3;
+    in.components = {total("Ca^2+", 2.2e-5), total("Mg^2+", 8.7e-6), total("Na+", 3e-6), total("K+", 1e-6),
+                     total("Cl-", 6.1e-5),   total("SO4^2-", 6.3e-6), total("Al^3+", 5.0e-6),
+                     ComponentInput{comp("HCO3-"), ComponentInput::Kind::alkalinity, 7.3e-6}};
+    in.charge_balance_component = comp("K+");
+    try {
+        (void)speciate(core(), in);
+        FAIL("expected a NoSolutionError");
+    } catch (const NoSolutionError& e) {
+        CHECK(e.key() == "Alkalinity");
+        CHECK(e.message().find("no amount of carbonate fits") != std::string::npos);
+        CHECK(e.message().find("Al(OH)4-") != std::string::npos);
+    }
+}
+
 TEST_CASE("the fallback rescues a first attempt that cannot finish") {
     // A warm start nine decades away from the answer, with steps capped at 0.001 log units,
     // cannot get there in 200 iterations; the fallback (ideal solution from the default

@@ -995,6 +995,39 @@ void explain_no_solution(const thermo::Database& db, const SpeciationInput& inpu
     const SourceLocation here{input.label.empty() ? std::string("speciation input") : input.label, 0, 0};
     SolverOptions quiet = options;
     quiet.allow_fallback = true;
+    if (input.ph) {
+        for (const auto& c : input.components) {
+            if (c.kind != ComponentInput::Kind::alkalinity) continue;
+            // The water without its carbonate (and without closing the charge balance, which
+            // does not change what the other bases carry at a fixed pH).
+            SpeciationInput trial = input;
+            std::erase_if(trial.components, [&](const ComponentInput& x) { return x.component == c.component; });
+            trial.charge_balance_component.reset();
+            SpeciationResult r;
+            try {
+                r = speciate(db, trial, quiet);
+            } catch (const std::exception&) {
+                break;
+            }
+            if (r.alkalinity_eq >= c.value) {
+                // Name the bases that carry most of it.
+                std::vector<std::pair<double, std::string>> bases;
+                for (const auto& sr : r.species)
+                    if (const double a = db.species()[sr.species].alkalinity * sr.molality; a > 0) bases.emplace_back(a, sr.name);
+                std::sort(bases.begin(), bases.end(), std::greater<>());
+                std::ostringstream o;
+                o.precision(3);
+                o << "the total alkalinity given (" << c.value * 1000.0 << " meq/kgw) is not more than the "
+                  << r.alkalinity_eq * 1000.0 << " meq/kgw that the water's other bases carry at pH " << *input.ph
+                  << " without any carbonate (";
+                for (std::size_t b = 0; b < std::min<std::size_t>(bases.size(), 3); ++b)
+                    o << (b ? ", " : "") << bases[b].second << " " << bases[b].first * 1000.0 << " meq/kgw";
+                o << "), so no amount of carbonate fits: check the pH, the alkalinity and those analytes";
+                throw NoSolutionError(here, "Alkalinity", o.str());
+            }
+            break;
+        }
+    }
     if (input.charge_balance_component) {
         const std::size_t j = *input.charge_balance_component;
         SpeciationInput trial = input;
@@ -1030,27 +1063,6 @@ void explain_no_solution(const thermo::Database& db, const SpeciationInput& inpu
               << ", and at this pH and redox level it carries a charge of " << charge_per_mol
               << " per mole; balance on an ion of the other charge, or check the analysis";
             throw NoSolutionError(here, "charge_balance", o.str());
-        }
-        return;
-    }
-    if (!input.ph) return;
-    for (const auto& c : input.components) {
-        if (c.kind != ComponentInput::Kind::alkalinity) continue;
-        SpeciationInput trial = input;
-        std::erase_if(trial.components, [&](const ComponentInput& x) { return x.component == c.component; });
-        SpeciationResult r;
-        try {
-            r = speciate(db, trial, quiet);
-        } catch (const std::exception&) {
-            return;
-        }
-        if (r.alkalinity_eq >= c.value) {
-            std::ostringstream o;
-            o.precision(4);
-            o << "the total alkalinity given (" << c.value * 1000.0 << " meq/kgw) is not more than the "
-              << r.alkalinity_eq * 1000.0 << " meq/kgw that hydroxide and the water's other bases carry at pH " << *input.ph
-              << " without any carbonate, so no amount of carbonate fits: check the pH and the alkalinity";
-            throw NoSolutionError(here, "Alkalinity", o.str());
         }
         return;
     }
