@@ -399,6 +399,31 @@ TEST_CASE("an alkalinity below what aluminate carries is refused, naming the bas
     }
 }
 
+TEST_CASE("a charge balance whose analyte eats the alkalinity before the balance closes is refused") {
+    // Hand reasoning (invented caustic rinse water, 50 degC, pH 12.4, Davies): pKw 13.26
+    // (Bandura & Lvov 2006) and gamma(OH-) about 0.75 at I 0.2 put about 0.18 mol/kgw of OH-
+    // in the water, so carbonate holds only about 13 of the 193.5 meq/kgw of alkalinity.
+    // Without magnesium the anions exceed the cations by about 30 meq/kgw. Magnesium at this
+    // pH lives as MgOH+ (log K -11.44, Nordstrom et al. 1990): each mmol closes at most 2 meq
+    // of the gap (its charge and the carbonate it displaces) but takes 1 meq of the
+    // alkalinity, so at most about 13 mmol fit, closing about 26 meq: short of 30.
+    SpeciationInput in;
+    in.label = "caustic rinse";
+    in.temperature_c = 50.0;
+    in.ph = 12.4;
+    in.components = {total("Na+", 0.192),     total("Cl-", 0.0318), total("Ca^2+", 7.9e-4), total("SO4^2-", 1.7e-4),
+                     total("Mg^2+", 6e-5),
+                     ComponentInput{comp("HCO3-"), ComponentInput::Kind::alkalinity, 0.1935}};
+    in.charge_balance_component = comp("Mg^2+");
+    try {
+        (void)speciate(core(), in);
+        FAIL("expected a NoSolutionError");
+    } catch (const NoSolutionError& e) {
+        CHECK(e.key() == "charge_balance");
+        CHECK(e.message().find("has no solution at this pH and alkalinity") != std::string::npos);
+    }
+}
+
 TEST_CASE("the fallback rescues a first attempt that cannot finish") {
     // A warm start nine decades away from the answer, with steps capped at 0.001 log units,
     // cannot get there in 200 iterations; the fallback (ideal solution from the default

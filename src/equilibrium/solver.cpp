@@ -1064,6 +1064,47 @@ void explain_no_solution(const thermo::Database& db, const SpeciationInput& inpu
               << " per mole; balance on an ion of the other charge, or check the analysis";
             throw NoSolutionError(here, "charge_balance", o.str());
         }
+        // At a fixed pH and alkalinity, the analyte's own hydroxo species (MgOH+ at a high pH)
+        // count as alkalinity and leave less room for carbonate: find the most of it the
+        // alkalinity allows (bisection on the water without carbonate), and whether the
+        // balance closes before that.
+        const ComponentInput* alk = nullptr;
+        for (const auto& c : input.components)
+            if (c.kind == ComponentInput::Kind::alkalinity) alk = &c;
+        if (!input.ph || !alk || !(needed > 0) || !std::isfinite(needed)) return;
+        auto water_with = [&](double amount, bool carbonate) {
+            SpeciationInput t = input;
+            t.charge_balance_component.reset();
+            for (auto& c : t.components)
+                if (c.component == j) c.value = amount;
+            if (!carbonate)
+                std::erase_if(t.components, [&](const ComponentInput& x) { return x.component == alk->component; });
+            return speciate(db, t, quiet);
+        };
+        try {
+            auto room = [&](double amount) { return water_with(amount, false).alkalinity_eq < alk->value; };
+            double lo = 0.0, hi = 2.0 * needed;
+            if (room(hi)) return;  // the alkalinity is no limit here
+            for (int it = 0; it < 30; ++it) {
+                const double mid = 0.5 * (lo + hi);
+                (room(mid) ? lo : hi) = mid;
+            }
+            const SpeciationResult at_most = water_with(lo, true);
+            const double left = (at_most.cations_meq - at_most.anions_meq) / 1000.0 - input.charge_imbalance_eq;
+            if (left * excess_eq > 0) {
+                std::ostringstream o;
+                o.precision(3);
+                o << "closing the charge balance on '" << component_name(db, j) << "' has no solution at this pH and "
+                  << "alkalinity: its species count as alkalinity, so at most " << lo * 1000.0
+                  << " mmol/kgw of it leave room for any carbonate, and with that much the water still has "
+                  << std::abs(left) * 1000.0 << " meq/kgw more " << (left > 0 ? "cations" : "anions")
+                  << "; balance on another ion, or check the pH and the alkalinity";
+                throw NoSolutionError(here, "charge_balance", o.str());
+            }
+        } catch (const NoSolutionError&) {
+            throw;
+        } catch (const std::exception&) {
+        }
         return;
     }
 }
