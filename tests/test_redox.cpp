@@ -186,3 +186,49 @@ temperature_c = 60
     // The indices of an aerated water solve too (pHs with the electrons conserved).
     CHECK(waters[0].indices.available);
 }
+
+TEST_CASE("a gas that brings electrons (oxygen) changes the electrons the water carries on") {
+    // An invented anoxic well (pe -3: its nitrogen lives as ammonium) aerated with air
+    // (O2 at 0.21 atm, log -0.68; CO2 at -3.4), then carried on at the same temperature with
+    // no gas. The water after aeration sits on the O2/H2O line (Stumm & Morgan 1996:
+    // pe = 20.78 - pH + 0.25 log p(O2) at 25 degC) and its ammonium is oxidised to nitrate;
+    // the next step must find the same water: the oxygen taken up (4 e- per O2) is part of
+    // the electrons it carries, or the step would put the nitrogen back as ammonium.
+    const io::Case c = io::parse_case(R"toml(
+[water.well]
+pH = 7.05
+pe = -3.0
+units = "mg/L"
+[water.well.analytes]
+Ca = 142
+Mg = 31
+Na = 18.5
+Cl = 42
+SO4 = 96
+Alkalinity = { value = 372, as = "CaCO3" }
+NO3 = { value = 0.8, as = "N" }
+
+[[step]]
+label = "aerate"
+kind = "equilibrate"
+gases = { "O2(g)" = -0.68, "CO2(g)" = -3.4 }
+
+[[step]]
+label = "carried on"
+kind = "temperature"
+temperature_c = 25
+)toml", "redox.toml");
+    const auto in = to_speciation_input(c.waters[0], core(), c.activity_model);
+    std::vector<process::WaterState> waters{process::state_from_result(equilibrium::speciate(core(), in), in, core())};
+    const auto steps = process::run_steps(core(), waters, c.steps);
+    REQUIRE(steps.size() == 2);
+    const auto& aerated = steps[0].state.result;
+    const auto& after = steps[1].state.result;
+    REQUIRE(aerated.pe.has_value());
+    REQUIRE(after.pe.has_value());
+    CHECK(*aerated.pe == doctest::Approx(20.78 - aerated.ph + 0.25 * -0.68).epsilon(0.002));
+    CHECK(aerated.find("NO3-")->molality > 1e3 * aerated.find("NH4+")->molality);
+    CHECK(*after.pe == doctest::Approx(*aerated.pe).epsilon(1e-6));
+    CHECK(after.ph == doctest::Approx(aerated.ph).epsilon(1e-9));
+    CHECK(after.find("O2(aq)")->molality == doctest::Approx(aerated.find("O2(aq)")->molality).epsilon(1e-6));
+}

@@ -72,6 +72,9 @@ WaterState finish(const thermo::Database& db, const std::string& label, equilibr
     w.label = label;
     r.label = label;
     take_totals(db, r, in);
+    // The electrons too: a gas held at its pressure (O2 takes 4 per mole) or a redox mineral
+    // moved them.
+    if (in.electron_total && db.electron()) in.electron_total = r.component_totals[*db.electron()];
     // Solids in contact: those at their target, with what is left of a finite amount.
     for (std::size_t a = 0; a < in.minerals.size(); ++a) {
         equilibrium::MineralTarget m = in.minerals[a];
@@ -370,9 +373,11 @@ WaterState state_from_result(const equilibrium::SpeciationResult& r, const equil
     w.basis.gases.clear();
     take_totals(db, r, w.basis);
     // The charge imbalance of the analysis, in eq/kgw, is what the steps conserve; and with a
-    // redox level, its electrons (oxygen, ferric iron, ...) rather than its pe.
+    // redox level, its electrons (oxygen, ferric iron, ...) rather than its pe. A step that
+    // held a gas which brings electrons (O2 takes 4 per mole) changed them: count them from
+    // the species, as for a water given at a fixed pe.
     w.basis.charge_imbalance_eq = (r.cations_meq - r.anions_meq) / 1000.0;
-    if (input.pe && db.electron()) {
+    if ((input.pe || input.electron_total) && db.electron()) {
         w.basis.pe.reset();
         w.basis.electron_total = r.component_totals[*db.electron()];
     }
