@@ -142,14 +142,24 @@ std::string saturation_block(const equilibrium::SpeciationResult& r) {
 }
 
 std::string indices_block(const process::Indices& ix) {
-    if (!ix.available) return "  " + pad("indices (LSI, RSI)", 22) + "not available: " + ix.why_not + "\n";
     std::string out;
-    out += "  " + pad("Langelier index", 22) +
-           fmt::format("{:+.2f} (pHs {:.2f}; Standard Methods 2330, pHs from the speciation)\n", ix.langelier, ix.ph_s);
-    out += "  " + pad("Ryznar index", 22) + fmt::format("{:.2f}\n", ix.ryznar);
-    out += "  " + pad("CCPP", 22) +
-           fmt::format("{:+.2f} mg/L as CaCO3 ({})\n", ix.ccpp_mg_per_l,
-                       ix.ccpp_mg_per_l > 0 ? "would precipitate" : ix.ccpp_mg_per_l < 0 ? "would dissolve" : "at equilibrium");
+    if (ix.available) {
+        out += "  " + pad("Langelier index", 22) +
+               fmt::format("{:+.2f} (pHs {:.2f} at Ca {:.4g} mmol/kgw and carbonate alkalinity {:.4g} meq/kgw; "
+                           "Standard Methods 2330, pHs from the speciation)\n",
+                           ix.langelier, ix.ph_s, ix.calcium_mol_per_kgw * 1000.0, ix.carbonate_alkalinity_eq * 1000.0);
+        out += "  " + pad("Ryznar index", 22) + fmt::format("{:.2f}\n", ix.ryznar);
+    } else {
+        out += "  " + pad("Langelier, Ryznar", 22) + "unavailable, because " + ix.why_not + "\n";
+    }
+    if (ix.ccpp_available)
+        out += "  " + pad("CCPP", 22) +
+               fmt::format("{:+.2f} mg/L as CaCO3 ({}; closed system)\n", ix.ccpp_mg_per_l,
+                           ix.ccpp_mg_per_l > 0   ? "would precipitate"
+                           : ix.ccpp_mg_per_l < 0 ? "would dissolve"
+                                                  : "at equilibrium");
+    else
+        out += "  " + pad("CCPP", 22) + "unavailable, because " + ix.ccpp_why_not + "\n";
     return out;
 }
 
@@ -264,6 +274,10 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx, co
             for (const auto& [name, v] : sw.sweep.series)
                 out += std::isfinite(v[i]) ? fmt::format("{:>16.4f}", v[i]) : fmt::format("{:>16}", "n/a");
             out += "\n";
+        }
+        if (!sw.sweep.notes.empty()) {
+            out += "  n/a: no value at that point:\n";
+            for (const auto& n : sw.sweep.notes) out += "  - " + n + "\n";
         }
         if (!sw.csv_path.empty()) out += "  table written to " + sw.csv_path + "\n";
         if (!sw.svg_path.empty()) out += "  plot written to " + sw.svg_path + "\n";

@@ -218,12 +218,39 @@ StepOutcome do_dose(const thermo::Database& db, const Step& s, const DoseStep& d
                 return v;
             };
             // Bracket: doses growing by 4x from 1e-7 mol/kgw up to the largest allowed.
-            double lo = 0.0, glo = g0, hi = std::min(1e-7, max_mol), ghi = g(hi);
+            double lo = 0.0, glo = g0, hi = 0.0, ghi = g0;
+            // A trial dose at which a Langelier target has no value (no pHs there) is not the
+            // end of the search: bisect between the last dose with a value and it, until the
+            // target is bracketed or the doses with a value run out (then its reason stands).
+            auto trial = [&](double x) {
+                hi = x;
+                try {
+                    ghi = g(hi);
+                    return;
+                } catch (const InputError& e) {
+                    if (e.key() != "until.langelier") throw;
+                    double bad = hi;
+                    for (int k = 0; k < 60; ++k) {
+                        hi = 0.5 * (lo + bad);
+                        try {
+                            ghi = g(hi);
+                        } catch (const InputError& again) {
+                            if (again.key() != "until.langelier") throw;
+                            bad = hi;
+                            continue;
+                        }
+                        if ((ghi > 0) != (g0 > 0) || std::abs(ghi) <= tolerance) return;
+                        lo = hi;
+                        glo = ghi;
+                    }
+                    throw;
+                }
+            };
+            trial(std::min(1e-7, max_mol));
             while ((ghi > 0) == (g0 > 0) && std::abs(ghi) > tolerance && hi < max_mol) {
                 lo = hi;
                 glo = ghi;
-                hi = std::min(hi * 4.0, max_mol);
-                ghi = g(hi);
+                trial(std::min(hi * 4.0, max_mol));
             }
             if ((ghi > 0) == (g0 > 0) && std::abs(ghi) > tolerance) {
                 const double start_value = g0 + t.value, end_value = ghi + t.value;
