@@ -34,6 +34,21 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
     j["charge_balance_error_percent"] = finite(r.charge_balance_error_percent, "charge-balance error");
     j["cations_meq_per_kgw"] = finite(r.cations_meq, "cation sum");
     j["anions_meq_per_kgw"] = finite(r.anions_meq, "anion sum");
+    if (r.charge_balance_adjustment) {
+        const auto& a = *r.charge_balance_adjustment;
+        j["charge_balance_adjustment"] = {{"analyte", a.analyte},
+                                          {"unit", a.unit},
+                                          {"as", a.as.empty() ? ordered_json(nullptr) : ordered_json(a.as)},
+                                          {"given", finite(a.given, "given analyte")},
+                                          {"adjusted", finite(a.adjusted, "adjusted analyte")},
+                                          {"given_mmol_per_kgw", finite(a.given_mmol_per_kgw, "given analyte")},
+                                          {"adjusted_mmol_per_kgw", finite(a.adjusted_mmol_per_kgw, "adjusted analyte")},
+                                          {"change_meq_per_kgw", finite(a.change_meq_per_kgw, "charge change")},
+                                          {"error_percent_as_given", finite(a.error_percent_as_given, "balance as given")},
+                                          {"within_standard_methods_1030e", a.within_acceptance}};
+    } else {
+        j["charge_balance_adjustment"] = nullptr;
+    }
     j["activity_model"] = std::string(activity::model_name(r.activity_model));
     ordered_json totals = ordered_json::object();
     for (const auto& [el, m] : r.element_totals) totals[el] = finite(m, "total of " + el);

@@ -52,6 +52,15 @@ std::string summary_block(const thermo::Database& db, const equilibrium::Speciat
     line("total alkalinity", fmt::format("{:.4g} meq/kgw", r.alkalinity_eq * 1000.0));
     line("charge balance", fmt::format("{:+.2f} % (cations {:.4g}, anions {:.4g} meq/kgw; Standard Methods 1030 E)",
                                        r.charge_balance_error_percent, r.cations_meq, r.anions_meq));
+    if (r.charge_balance_adjustment) {
+        const auto& a = *r.charge_balance_adjustment;
+        const std::string unit = a.unit + (a.as.empty() ? "" : " as " + a.as);
+        line("balanced on " + a.analyte,
+             fmt::format("{} adjusted from {:.4g} to {:.4g} {} ({:.4g} to {:.4g} mmol/kgw) to close the balance; "
+                         "as given the balance was {:+.2f} %, {} the Standard Methods 1030 E acceptance",
+                         a.analyte, a.given, a.adjusted, unit, a.given_mmol_per_kgw, a.adjusted_mmol_per_kgw,
+                         a.error_percent_as_given, a.within_acceptance ? "within" : "OUTSIDE"));
+    }
     line("activity model", std::string(activity::model_name(r.activity_model)));
     line("solver", r.summary.brief());
     // Verdicts in one line each.
