@@ -403,6 +403,10 @@ Alkalinity = { value = 3, unit = "meq/L" }
     CHECK(std::abs(ix.ph_s - phs_hand) < 0.05);
     CHECK(std::abs(ix.langelier - (7.8 - phs_hand)) < 0.05);
     CHECK(ix.ryznar == doctest::Approx(2 * ix.ph_s - 7.8).epsilon(1e-12));
+    // The formula cross-check uses free-ion activity coefficients and the carbonate
+    // alkalinity, so it matches the hand calculation closely.
+    REQUIRE(ix.formula_available);
+    CHECK(std::abs(ix.formula_ph_s - phs_hand) < 0.02);
 }
 
 TEST_CASE("CCPP of a water already at calcite equilibrium is 0; LSI is 0 too") {
@@ -1026,6 +1030,37 @@ Cl = 1.5
 Alkalinity = { value = 0.5, as = "CaCO3" }
 )toml";
 
+TEST_CASE("a dose until a Langelier target starts from a water whose calcite saturation is out of reach") {
+    // Invented reservoir water: Ca 3.1 mg/L, alkalinity 5.5 mg/L as CaCO3, pH 6.5. Even
+    // with all its carbonate alkalinity as CO3^2- it stays below calcite saturation (no
+    // pHs); the 2330 B formula value (about -3.9) stands in at the start, and lime brings
+    // it to a real LSI of -1.
+    const Run r = run(R"toml(
+[water.reservoir]
+temperature_c = 25
+pH = 6.5
+units = "mg/L"
+[water.reservoir.analytes]
+Ca = 3.1
+Na = 4.0
+Cl = 7.5
+Alkalinity = { value = 5.5, as = "CaCO3" }
+
+[[step]]
+label = "lime to LSI -1"
+kind = "dose"
+reagent = "Ca(OH)2"
+until = { langelier = -1.0 }
+)toml");
+    const Indices& start = r.waters.front().indices;
+    REQUIRE_FALSE(start.available);
+    REQUIRE(start.formula_available);
+    CHECK(start.formula_langelier < -3.0);
+    const WaterState& w = step(r, "lime to LSI -1").state;
+    REQUIRE(w.indices.available);
+    CHECK(std::abs(w.indices.langelier + 1.0) < 1e-6);
+}
+
 TEST_CASE("an RO permeate: pHs does not exist, the reason is given, the CCPP is still computed") {
     // Even with all of its carbonate alkalinity as CO3^2- (0.005 mmol) and all of its calcium
     // free (0.0025 mmol), Ca x CO3 = 1.2e-11 stays far below Ks = 10^-8.48 = 3.3e-9
@@ -1035,6 +1070,14 @@ TEST_CASE("an RO permeate: pHs does not exist, the reason is given, the CCPP is 
     CHECK_FALSE(ix.available);
     CHECK(ix.why_not.find("pHs does not exist") != std::string::npos);
     CHECK(ix.why_not.find("calcium") != std::string::npos);
+    // The simplified Standard Methods 2330 B formula still gives a number, reported beside
+    // the reason. By hand: Ca 0.1 mg/L / 40.078 = 2.495e-6 mol/L (p 5.603); carbonate
+    // alkalinity at pH 6 = alkalinity + [H+] = 1.0e-5 + 1.0e-6 = 1.1e-5 (p 4.959, a per-litre
+    // figure; per kg of water it is 0.3 % more); I ~ 4e-5, 5 pfm = 0.016 (Davies);
+    // pK2 - pKs = 1.849 (Plummer & Busenberg 1982): pHs = 12.43, LSI = 6.0 - 12.43 = -6.43.
+    REQUIRE(ix.formula_available);
+    CHECK(std::abs(ix.formula_ph_s - 12.43) < 0.02);
+    CHECK(std::abs(ix.formula_langelier + 6.43) < 0.02);
     // It still dissolves calcite: the closed-system solubility of calcite in CO2-free pure
     // water is about 0.12-0.14 mmol/kgw (12-14 mg/L as CaCO3; Stumm & Morgan, Aquatic
     // Chemistry, ch. 7, value from memory). The permeate's own bit of acidity (pH 6)
@@ -1106,4 +1149,20 @@ outputs = ["langelier", "ccpp", "pH"]
     // The sweep says which points had no value and why.
     REQUIRE_FALSE(s.notes.empty());
     CHECK(s.notes.front().find("pHs does not exist") != std::string::npos);
+}
+
+TEST_CASE("a dose until a Langelier target on a water without calcium is refused with the reason") {
+    CHECK_THROWS_WITH_AS(run(R"toml(
+[water.condensate]
+pH = 7.0
+units = "mg/L"
+[water.condensate.analytes]
+Na = 0.1
+Cl = 0.154
+
+[[step]]
+kind = "dose"
+reagent = "NaOH"
+until = { langelier = 0.0 }
+)toml"), doctest::Contains("the Langelier index is not available: the water has no calcium"), InputError);
 }

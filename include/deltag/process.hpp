@@ -128,6 +128,13 @@ struct Indices {
     double ryznar = 0.0;           // RSI = 2 pHs - pH
     double calcium_mol_per_kgw = 0.0;       // held for pHs: the water's calcium total
     double carbonate_alkalinity_eq = 0.0;   // held for pHs: HCO3- + 2 CO3^2- and their ion pairs, eq/kgw
+    // The Standard Methods 2330 B simplified formula, pHs = pK2 - pKs - log a(Ca) - log a(HCO3)
+    // with all of the calcium and all of the carbonate alkalinity taken as free Ca2+ and HCO3-
+    // (activity coefficients of the water): a cross-check, and the only number there is when
+    // calcite saturation is out of reach. It is off by several tenths once pHs nears pK2.
+    bool formula_available = false;
+    double formula_ph_s = 0.0;
+    double formula_langelier = 0.0;
     bool ccpp_available = false;
     std::string ccpp_why_not;      // when the CCPP is not available: the reason
     double ccpp_mg_per_l = 0.0;    // mg/L as CaCO3 that would precipitate (+) or dissolve (-)

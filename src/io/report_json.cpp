@@ -118,6 +118,8 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
                         {"ccpp_available", ix.ccpp_available},
                         {"ccpp_unavailable_because",
                          ix.ccpp_available ? ordered_json(nullptr) : ordered_json(ix.ccpp_why_not)},
+                        {"langelier_formula", value(ix.formula_available, ix.formula_langelier, "formula LSI")},
+                        {"ph_s_formula", value(ix.formula_available, ix.formula_ph_s, "formula pHs")},
                         {"ph_s_calcium_mol_per_kgw", value(ix.available, ix.calcium_mol_per_kgw, "pHs calcium")},
                         {"ph_s_carbonate_alkalinity_eq_per_kgw",
                          value(ix.available, ix.carbonate_alkalinity_eq, "pHs carbonate alkalinity")}};

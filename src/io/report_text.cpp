@@ -160,6 +160,11 @@ std::string indices_block(const process::Indices& ix) {
         out += "  " + pad("Ryznar index", 22) + fmt::format("{:.2f}\n", ix.ryznar);
     } else {
         out += "  " + pad("Langelier, Ryznar", 22) + "unavailable, because " + ix.why_not + "\n";
+        if (ix.formula_available)
+            out += "  " + pad("LSI, 2330 B formula", 22) +
+                   fmt::format("{:+.2f} (pHs {:.2f} with all the carbonate alkalinity as bicarbonate; a rough guide "
+                               "only where pHs nears pK2)\n",
+                               ix.formula_langelier, ix.formula_ph_s);
     }
     if (ix.ccpp_available)
         out += "  " + pad("CCPP", 22) +

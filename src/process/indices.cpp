@@ -244,6 +244,28 @@ void find_ph_s(const thermo::Database& db, const WaterState& w, std::size_t ca, 
     ix.available = true;
 }
 
+// The Standard Methods 2330 B simplified formula: at saturation a(Ca) a(CO3) = Ks and
+// a(CO3) = K2 a(HCO3) / a(H), so pHs = pK2 - pKs - log(gamma_Ca Ca_total) - log(gamma_HCO3 Ac),
+// with the water's own activity coefficients (5 pfm in the Davies form of the formula).
+void formula_ph_s(const thermo::Database& db, const WaterState& w, std::size_t calcite, std::size_t ca,
+                  std::size_t carbonate, Indices& ix) {
+    const auto& r = w.result;
+    const auto co3 = db.find_species("CO3^2-");
+    const double ca_total = r.component_present[ca] ? r.component_totals[ca] : 0.0;
+    if (!co3 || !(ca_total > 0) || !r.component_present[carbonate]) return;
+    const double ac = carbonate_alkalinity_of(db, r, carbonate);
+    const auto* ca_free = r.find("Ca^2+");
+    const auto* hco3_free = r.find("HCO3-");
+    if (!(ac > 0) || !ca_free || !hco3_free) return;
+    const double pk2 = -db.species()[*co3].log_k(r.temperature_c);
+    const double pks = -db.minerals()[calcite].log_k_as_written(r.temperature_c);
+    const double phs = pk2 - pks - std::log10(ca_total) - ca_free->log_gamma - std::log10(ac) - hco3_free->log_gamma;
+    if (!std::isfinite(phs)) return;
+    ix.formula_available = true;
+    ix.formula_ph_s = phs;
+    ix.formula_langelier = r.ph - phs;
+}
+
 // CCPP, or the reason it has none.
 void find_ccpp(const thermo::Database& db, const WaterState& w, std::size_t calcite, std::size_t ca,
                std::size_t carbonate, Indices& ix) {
@@ -299,6 +321,7 @@ Indices water_treatment_indices(const thermo::Database& db, const WaterState& w)
         return ix;
     }
     find_ph_s(db, w, *ca, *hco3, ix);
+    formula_ph_s(db, w, *calcite, *ca, *hco3, ix);
     if (ix.available) {
         ix.langelier = w.result.ph - ix.ph_s;
         ix.ryznar = 2.0 * ix.ph_s - w.result.ph;

@@ -158,9 +158,11 @@ double target_quantity(const DoseTarget& t, const WaterState& w) {
             throw InputError(t.where, "until.si." + t.mineral,
                              "the saturation of '" + t.mineral + "' is not defined for this water (its components are absent)");
         case DoseTarget::Kind::langelier:
-            if (!w.indices.available)
-                throw InputError(t.where, "until.langelier", "the Langelier index is not available: " + w.indices.why_not);
-            return w.indices.langelier;
+            // Where calcite saturation is out of reach (no pHs), the Standard Methods 2330 B
+            // formula value stands in, so a dose can start from a very soft water.
+            if (w.indices.available) return w.indices.langelier;
+            if (w.indices.formula_available) return w.indices.formula_langelier;
+            throw InputError(t.where, "until.langelier", "the Langelier index is not available: " + w.indices.why_not);
     }
     return 0.0;
 }
@@ -218,39 +220,12 @@ StepOutcome do_dose(const thermo::Database& db, const Step& s, const DoseStep& d
                 return v;
             };
             // Bracket: doses growing by 4x from 1e-7 mol/kgw up to the largest allowed.
-            double lo = 0.0, glo = g0, hi = 0.0, ghi = g0;
-            // A trial dose at which a Langelier target has no value (no pHs there) is not the
-            // end of the search: bisect between the last dose with a value and it, until the
-            // target is bracketed or the doses with a value run out (then its reason stands).
-            auto trial = [&](double x) {
-                hi = x;
-                try {
-                    ghi = g(hi);
-                    return;
-                } catch (const InputError& e) {
-                    if (e.key() != "until.langelier") throw;
-                    double bad = hi;
-                    for (int k = 0; k < 60; ++k) {
-                        hi = 0.5 * (lo + bad);
-                        try {
-                            ghi = g(hi);
-                        } catch (const InputError& again) {
-                            if (again.key() != "until.langelier") throw;
-                            bad = hi;
-                            continue;
-                        }
-                        if ((ghi > 0) != (g0 > 0) || std::abs(ghi) <= tolerance) return;
-                        lo = hi;
-                        glo = ghi;
-                    }
-                    throw;
-                }
-            };
-            trial(std::min(1e-7, max_mol));
+            double lo = 0.0, glo = g0, hi = std::min(1e-7, max_mol), ghi = g(hi);
             while ((ghi > 0) == (g0 > 0) && std::abs(ghi) > tolerance && hi < max_mol) {
                 lo = hi;
                 glo = ghi;
-                trial(std::min(hi * 4.0, max_mol));
+                hi = std::min(hi * 4.0, max_mol);
+                ghi = g(hi);
             }
             if ((ghi > 0) == (g0 > 0) && std::abs(ghi) > tolerance) {
                 const double start_value = g0 + t.value, end_value = ghi + t.value;
