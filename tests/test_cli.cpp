@@ -473,3 +473,56 @@ points = ["a"]
     CHECK(bad.code == 2);
     CHECK(has(bad.err, "has no redox level"));
 }
+
+TEST_CASE("a case whose pHs cannot exist runs to the end (exit 0) with the reason shown, sweep included") {
+    // Invented RO permeate (Ca 0.1 mg/L, alkalinity 0.01 meq/L): no pH saturates it with
+    // calcite. Before, its pHs search aborted the whole run.
+    const std::string text = R"toml(title = "RO permeate and a blend sweep (invented)"
+[water.hard]
+pH = 7.8
+[water.hard.analytes]
+Ca = 100
+Na = 20
+Cl = 40
+Alkalinity = { value = 200, as = "CaCO3" }
+
+[water.permeate]
+pH = 6.0
+[water.permeate.analytes]
+Ca = 0.1
+Na = 1.0
+Cl = 1.5
+Alkalinity = { value = 0.01, unit = "meq/L" }
+
+[[step]]
+label = "mix"
+kind = "blend"
+waters = { hard = 0.5, permeate = 0.5 }
+
+[[sweep]]
+label = "share"
+step = "mix"
+variable = "fraction"
+fraction_of = "permeate"
+from = 0.0
+to = 1.0
+points = 3
+outputs = ["langelier", "ccpp"]
+csv = "share.csv"
+svg = "share.svg"
+)toml";
+    const fs::path c = write("permeate.toml", text);
+    const Run r = deltag("run '" + c.string() + "'");
+    CHECK(r.code == 0);
+    CHECK(has(r.out, "unavailable, because calcite saturation cannot be reached"));
+    CHECK(has(r.out, "n/a"));
+    CHECK_FALSE(has(r.out, "nan"));
+    const Run j = deltag("run '" + c.string() + "' --format json");
+    CHECK(j.code == 0);
+    const auto doc = nlohmann::json::parse(j.out);
+    CHECK(doc["results"][1]["indices"]["langelier"].is_null());
+    CHECK(doc["sweeps"][0]["series"]["Langelier index"][2].is_null());
+    CHECK_FALSE(doc["sweeps"][0]["notes"].empty());
+    const std::string csv = slurp(scratch() / "share.csv");
+    CHECK_FALSE(has(csv, "nan"));
+}

@@ -8,6 +8,7 @@
 #include <stdexcept>
 
 #include "deltag/report.hpp"
+#include "deltag/water.hpp"
 
 using namespace deltag;
 using namespace deltag::equilibrium;
@@ -121,4 +122,146 @@ TEST_CASE("writers refuse to print a number that is not finite") {
     r.ionic_strength = std::numeric_limits<double>::quiet_NaN();
     CHECK_THROWS_AS(io::json_report(core(), context(), {r}), std::logic_error);
     CHECK_THROWS_AS(io::csv_report(core(), context(), {r}), std::logic_error);
+}
+
+// --- a charge balance that changed an analyte; indices without an answer -----------------
+
+namespace {
+
+// Invented analysis, per litre: Na 22.99 mg/L (1.000 mmol/L), Ca 40.078 (1.000 mmol/L),
+// NO3 4.092 (0.066 mmol/L), Cl 40 (1.128 mmol/L), pH 7, balanced on Cl. By hand (IUPAC 2021
+// atomic weights; no ion pairs of these ions; H+ and OH- at 1e-7 are negligible): chloride
+// must carry 2 x 1.000 + 1.000 - 0.066 = 2.934 meq/L, i.e. 2.934 x 35.45 = 104.0 mg/L. As
+// given the anions were 1.128 + 0.066 = 1.194 meq/L against 3.000 meq/L of cations, 1.806
+// meq/L apart: beyond the 0.2 meq/L that Standard Methods 1030 E accepts for anion sums
+// up to 3 meq/L.
+WaterAnalysis lab(double cl_mg_per_l) {
+    WaterAnalysis w;
+    w.name = "lab";
+    w.ph = 7.0;
+    w.units = "mg/L";
+    w.charge_balance = "Cl";
+    w.charge_balance_where = SourceLocation{"t.toml", 4, 18};
+    for (auto [name, v] : std::vector<std::pair<const char*, double>>{
+             {"Na", 22.99}, {"Ca", 40.078}, {"NO3", 4.092}, {"Cl", cl_mg_per_l}}) {
+        AnalyteValue a;
+        a.name = name;
+        a.value = v;
+        a.where = SourceLocation{"t.toml", 8, 1};
+        w.analytes.push_back(a);
+    }
+    return w;
+}
+
+SpeciationResult balanced(const WaterAnalysis& w) {
+    const SpeciationInput in = to_speciation_input(w, core(), activity::ModelKind::davies);
+    SpeciationResult r = speciate(core(), in);
+    describe_charge_balance_adjustment(in, r, core());
+    return r;
+}
+
+}  // namespace
+
+TEST_CASE("a charge-balance adjustment is reported: analyte, from, to, and the 1030 E verdict") {
+    const SpeciationResult r = balanced(lab(40.0));
+    REQUIRE(r.charge_balance_adjustment.has_value());
+    const auto& a = *r.charge_balance_adjustment;
+    CHECK(a.analyte == "Cl");
+    CHECK(a.unit == "mg/L");
+    CHECK(a.given == doctest::Approx(40.0));
+    CHECK(a.adjusted == doctest::Approx(104.0).epsilon(0.002));  // hand: 104.0 mg/L
+    CHECK(a.adjusted_mmol_per_kgw == doctest::Approx(2.934 / r.kg_water_per_litre).epsilon(0.002));
+    CHECK(a.given_mmol_per_kgw == doctest::Approx(40.0 / 35.45 / r.kg_water_per_litre).epsilon(1e-6));
+    CHECK(a.change_meq_per_kgw == doctest::Approx(-1.806 / r.kg_water_per_litre).epsilon(0.003));
+    CHECK_FALSE(a.within_acceptance);
+    bool warned = false;
+    for (const auto& w : r.warnings) warned = warned || w.find("beyond the Standard Methods 1030 E acceptance") != std::string::npos;
+    CHECK(warned);
+
+    const std::string t = io::text_report(core(), context(), {r});
+    CHECK(t.find("balanced on Cl") != std::string::npos);
+    CHECK(t.find("Cl adjusted from 40 to 104") != std::string::npos);
+    CHECK(t.find("mmol/kgw) to close the balance") != std::string::npos);
+    CHECK(t.find("OUTSIDE the Standard Methods 1030 E acceptance") != std::string::npos);
+
+    const auto j = nlohmann::json::parse(io::json_report(core(), context(), {r}));
+    const auto& x = j["results"][0];
+    // The contract's core keys stay.
+    for (const char* key : {"label", "temperature_c", "pH", "pe", "ionic_strength", "charge_balance_error_percent",
+                            "totals", "species", "saturation", "transfers", "gases", "warnings"})
+        CHECK(x.contains(key));
+    const auto& adj = x["charge_balance_adjustment"];
+    CHECK(adj["analyte"] == "Cl");
+    CHECK(adj["unit"] == "mg/L");
+    CHECK(adj["as"].is_null());
+    CHECK(adj["given"].get<double>() == doctest::Approx(40.0));
+    CHECK(adj["adjusted"].get<double>() == doctest::Approx(104.0).epsilon(0.002));
+    CHECK(adj["adjusted_mmol_per_kgw"].get<double>() == doctest::Approx(a.adjusted_mmol_per_kgw));
+    CHECK(adj["within_standard_methods_1030e"] == false);
+
+    // Chloride given close to what the balance needs: the change is within 1030 E.
+    const SpeciationResult near = balanced(lab(103.0));
+    REQUIRE(near.charge_balance_adjustment.has_value());
+    CHECK(near.charge_balance_adjustment->within_acceptance);
+    CHECK(io::text_report(core(), context(), {near}).find("within the Standard Methods 1030 E acceptance") != std::string::npos);
+    // A water not balanced on an analyte has no adjustment, and the JSON says null.
+    CHECK(nlohmann::json::parse(io::json_report(core(), context(), {sample()}))["results"][0]["charge_balance_adjustment"].is_null());
+}
+
+TEST_CASE("indices without an answer: the reason in text and JSON, null values, empty CSV cells") {
+    // Invented RO permeate: Ca 0.1 mg/L, alkalinity 0.01 meq/L, pH 6; no pH saturates it
+    // with calcite (see test_process.cpp), so LSI and RSI have no value; the CCPP has one.
+    WaterAnalysis w;
+    w.name = "permeate";
+    w.ph = 6.0;
+    w.units = "mg/L";
+    for (auto [name, v] : std::vector<std::pair<const char*, double>>{{"Ca", 0.1}, {"Na", 1.0}, {"Cl", 1.5}}) {
+        AnalyteValue a;
+        a.name = name;
+        a.value = v;
+        w.analytes.push_back(a);
+    }
+    AnalyteValue alk;
+    alk.name = "Alkalinity";
+    alk.value = 0.01;
+    alk.unit = "meq/L";
+    w.analytes.push_back(alk);
+    const SpeciationInput in = to_speciation_input(w, core(), activity::ModelKind::davies);
+    const process::WaterState s = process::state_from_result(speciate(core(), in), in, core());
+    REQUIRE_FALSE(s.indices.available);
+    REQUIRE(s.indices.ccpp_available);
+    const io::ReportItem item{"water", s.result, s.indices, std::nullopt};
+    const std::string t = io::text_report(core(), context(), {item});
+    CHECK(t.find("Langelier, Ryznar     unavailable, because calcite saturation cannot be reached") != std::string::npos);
+    CHECK(t.find("so pHs does not exist") != std::string::npos);
+    CHECK(t.find("mg/L as CaCO3 (would dissolve") != std::string::npos);
+    CHECK(t.find("nan") == std::string::npos);
+    const auto j = nlohmann::json::parse(io::json_report(core(), context(), {item}));
+    const auto& ix = j["results"][0]["indices"];
+    CHECK(ix["langelier"].is_null());
+    CHECK(ix["ryznar"].is_null());
+    CHECK(ix["langelier_available"] == false);
+    CHECK(ix["langelier_unavailable_because"].get<std::string>().find("pHs does not exist") != std::string::npos);
+    CHECK(ix["ccpp_mg_per_l_as_caco3"].get<double>() < 0);
+    const std::string csv = io::csv_report(core(), context(), {item});
+    CHECK(csv.find("permeate,water,") != std::string::npos);
+    CHECK(csv.find(",,,") != std::string::npos);  // langelier, ryznar empty; ccpp present
+}
+
+TEST_CASE("a sweep's points without a value are null in JSON, n/a in text, and noted") {
+    process::SweepOutcome sw;
+    sw.label = "share";
+    sw.x_label = "fraction of permeate (-)";
+    sw.x = {0.0, 1.0};
+    sw.series = {{"Langelier index", {0.5, std::numeric_limits<double>::quiet_NaN()}}};
+    sw.notes = {"no Langelier index at fraction of permeate (-) = 1: pHs does not exist"};
+    const std::vector<io::SweepReport> sweeps{{sw, "", ""}};
+    const auto j = nlohmann::json::parse(io::json_report(core(), context(), {}, sweeps));
+    CHECK(j["sweeps"][0]["series"]["Langelier index"][1].is_null());
+    CHECK(j["sweeps"][0]["notes"][0].get<std::string>().find("pHs does not exist") != std::string::npos);
+    const std::string t = io::text_report(core(), context(), {}, sweeps);
+    CHECK(t.find("n/a") != std::string::npos);
+    CHECK(t.find("pHs does not exist") != std::string::npos);
+    CHECK(t.find("nan") == std::string::npos);
+    CHECK(io::sweep_csv(sw).find("nan") == std::string::npos);
 }

@@ -574,3 +574,18 @@ TEST_CASE("keys are built from the names when the water was not read from a file
         CHECK(contains(e.what(), "samples.csv:3:5"));
     }
 }
+
+TEST_CASE("Standard Methods 1030 E acceptance of a charge balance") {
+    // Standard Methods 1030 E: |cations - anions| <= 0.2 meq/L for anion sums 0-3 meq/L;
+    // |100 (c - a)/(c + a)| <= 2 % for 3-10 meq/L; <= 5 % for 10-800 meq/L.
+    using deltag::equilibrium::charge_balance_acceptable;
+    using deltag::equilibrium::charge_balance_error_percent;
+    CHECK(charge_balance_acceptable(2.9, 2.75));        // 0.15 meq apart
+    CHECK_FALSE(charge_balance_acceptable(3.0, 1.194)); // 1.8 meq apart
+    CHECK(charge_balance_acceptable(5.0, 5.15));        // -1.48 %
+    CHECK_FALSE(charge_balance_acceptable(5.0, 5.3));   // -2.91 %
+    CHECK(charge_balance_acceptable(20.0, 21.0));       // -2.44 %
+    CHECK_FALSE(charge_balance_acceptable(20.0, 23.0)); // -6.98 %
+    CHECK(charge_balance_error_percent(5.0, 5.3) == doctest::Approx(100.0 * -0.3 / 10.3));
+    CHECK(charge_balance_error_percent(0.0, 0.0) == 0.0);
+}

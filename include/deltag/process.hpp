@@ -117,13 +117,26 @@ struct Sweep {
 
 // --- execution ------------------------------------------------------------------------
 
-// Water-treatment indices of one water (Standard Methods 2330; Ryznar 1944).
+// Water-treatment indices of one water (Standard Methods 2330; Ryznar 1944). The Langelier
+// and Ryznar indices need a pHs; the CCPP does not, so each has its own availability. An
+// index without an answer carries the reason and never fails a run.
 struct Indices {
-    bool available = false;        // needs calcium and carbonate
-    std::string why_not;           // when not available
-    double ph_s = 0.0;             // pH of calcite saturation at the water's Ca and alkalinity
+    bool available = false;        // LSI and RSI: a pHs exists
+    std::string why_not;           // when not available: the reason
+    double ph_s = 0.0;             // pH of calcite saturation at the water's Ca and carbonate alkalinity
     double langelier = 0.0;        // LSI = pH - pHs
     double ryznar = 0.0;           // RSI = 2 pHs - pH
+    double calcium_mol_per_kgw = 0.0;       // held for pHs: the water's calcium total
+    double carbonate_alkalinity_eq = 0.0;   // held for pHs: HCO3- + 2 CO3^2- and their ion pairs, eq/kgw
+    // The Standard Methods 2330 B simplified formula, pHs = pK2 - pKs - log a(Ca) - log a(HCO3)
+    // with all of the calcium and all of the carbonate alkalinity taken as free Ca2+ and HCO3-
+    // (activity coefficients of the water): a cross-check, and the only number there is when
+    // calcite saturation is out of reach. It is off by several tenths once pHs nears pK2.
+    bool formula_available = false;
+    double formula_ph_s = 0.0;
+    double formula_langelier = 0.0;
+    bool ccpp_available = false;
+    std::string ccpp_why_not;      // when the CCPP is not available: the reason
     double ccpp_mg_per_l = 0.0;    // mg/L as CaCO3 that would precipitate (+) or dissolve (-)
 };
 
@@ -156,9 +169,9 @@ struct StepOutcome {
 WaterState state_from_result(const equilibrium::SpeciationResult& r, const equilibrium::SpeciationInput& input,
                              const thermo::Database& db);
 
-// Langelier (pHs from the speciation: the pH at which the water, with its calcium and total
-// alkalinity, is saturated with calcite), Ryznar and the CCPP (closed-system equilibrium
-// with calcite).
+// Langelier (pHs from the speciation: the pH at which the water, with its calcium and its
+// carbonate alkalinity, is saturated with calcite), Ryznar and the CCPP (closed-system
+// equilibrium with calcite). Never throws for a water: see Indices.
 Indices water_treatment_indices(const thermo::Database& db, const WaterState& w);
 
 // How a reagent formula splits into database components (per mole of reagent), plus the
@@ -181,7 +194,11 @@ struct SweepOutcome {
     std::string label;
     std::string x_label;
     std::vector<double> x;
-    std::vector<std::pair<std::string, std::vector<double>>> series;  // output -> values
+    // output -> values, one per x. NaN marks a point without a value (an index with no
+    // answer there); writers print it as null (JSON), an empty cell (CSV), "n/a" (text) or a
+    // gap (SVG), never as a number.
+    std::vector<std::pair<std::string, std::vector<double>>> series;
+    std::vector<std::string> notes;  // one per point without a value: which output, where, why
 };
 
 SweepOutcome run_sweep(const thermo::Database& db, const std::vector<WaterState>& waters,

@@ -102,7 +102,40 @@ struct SpeciationInput {
     // Not used by the solver: kg of water per litre of solution, carried into the result so
     // reports can give mg/L.
     double kg_water_per_litre = 1.0;
+    // Not used by the solver: the analyte a lab water's charge balance adjusts, as the lab
+    // gave it (filled by to_speciation_input), so the report can say what was changed.
+    struct ChargeBalanceAnalyte {
+        std::string analyte;               // as the lab wrote it: "Cl"
+        std::string unit;                  // the lab's unit: "mg/L"
+        std::string as;                    // "CaCO3", an element, or empty
+        double given = 0.0;                // in that unit
+        double mol_per_kgw_per_unit = 0.0; // one unit of it, in mol/kgw of the component
+    };
+    std::optional<ChargeBalanceAnalyte> charge_balance_analyte;
 };
+
+// A lab analyte adjusted to close the charge balance: what was given, what the balance
+// needed, and whether the analysis as given met the Standard Methods 1030 E acceptance.
+struct ChargeBalanceAdjustment {
+    std::string analyte;
+    std::string unit;                     // the lab's unit
+    std::string as;                       // "CaCO3", an element, or empty
+    double given = 0.0;                   // in the lab's unit
+    double adjusted = 0.0;                // in the lab's unit
+    double given_mmol_per_kgw = 0.0;
+    double adjusted_mmol_per_kgw = 0.0;
+    double change_meq_per_kgw = 0.0;      // charge added: z x (adjusted - given), meq/kgw
+    double error_percent_as_given = 0.0;  // Standard Methods 1030 E, before the adjustment
+    bool within_acceptance = true;        // the analysis as given met 1030 E
+};
+
+// Standard Methods 1030 E acceptance of an anion-cation balance: |cations - anions| <= 0.2
+// meq for anion sums up to 3 meq, |error| <= 2 % for 3-10 meq, 5 % above (per kg of water
+// here). The one place this criterion lives.
+bool charge_balance_acceptable(double cations_meq, double anions_meq);
+
+// 100 (cations - anions) / (cations + anions), Standard Methods 1030 E; 0 for no ions.
+double charge_balance_error_percent(double cations_meq, double anions_meq);
 
 // What moved between the water and a phase during a solve.
 struct PhaseTransfer {
@@ -166,6 +199,9 @@ struct SpeciationResult {
     std::vector<PhaseTransfer> transfers;
     std::vector<std::string> warnings;
     SolveSummary summary;
+    // A lab water whose charge balance adjusted an analyte: what changed (filled by
+    // deltag::describe_charge_balance_adjustment, not by the solver).
+    std::optional<ChargeBalanceAdjustment> charge_balance_adjustment;
 
     const SpeciesResult* find(std::string_view name) const;
 };

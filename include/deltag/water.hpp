@@ -52,4 +52,11 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water,
                                                  const thermo::Database& db,
                                                  activity::ModelKind model);
 
+// After the solve of a lab water whose charge balance adjusts an analyte: records in the
+// result what was given and what the balance needed (in the lab's unit and in mmol/kgw),
+// and whether the analysis as given met the Standard Methods 1030 E acceptance; a change
+// beyond it also adds a warning. Does nothing for other waters.
+void describe_charge_balance_adjustment(const equilibrium::SpeciationInput& input, equilibrium::SpeciationResult& result,
+                                        const thermo::Database& db);
+
 }  // namespace deltag

@@ -363,6 +363,17 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
             throw InputError(water.charge_balance_where, cb_key,
                              "charge balance on " + cb + " needs a measured pH; give pH or set charge_balance = \"pH\"");
         in.charge_balance_component = an.component;
+        // What the lab gave, for the report of the adjustment: one unit of it in mol/kgw.
+        const AnalyteValue& given = *std::find_if(water.analytes.begin(), water.analytes.end(),
+                                                  [&](const AnalyteValue& a) { return a.name == cb; });
+        AnalyteValue one = given;
+        one.value = 1.0;
+        const Converted unit = convert(water, one, an, db);
+        double per_unit = unit.amount;
+        if (unit.basis == Basis::per_litre) per_unit = unit.amount / water_per_litre;
+        if (unit.basis == Basis::per_kg_solution) per_unit = unit.amount * rho / water_per_litre;
+        in.charge_balance_analyte = equilibrium::SpeciationInput::ChargeBalanceAnalyte{
+            given.name, given.unit.empty() ? water.units : given.unit, given.as, given.value, per_unit};
         const bool present = std::any_of(in.components.begin(), in.components.end(),
                                          [&](const ComponentInput& c) { return c.component == an.component; });
         // A starting value for an analyte reported as 0: the solver adjusts it.
@@ -370,5 +381,59 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
     }
     return in;
 }
+
+void describe_charge_balance_adjustment(const equilibrium::SpeciationInput& input, equilibrium::SpeciationResult& result,
+                                        const thermo::Database& db) {
+    if (!input.charge_balance_component || !input.charge_balance_analyte) return;
+    const auto& a = *input.charge_balance_analyte;
+    const std::size_t j = *input.charge_balance_component;
+    if (j >= result.component_totals.size() || !(a.mol_per_kgw_per_unit > 0)) return;
+    const int z = db.species()[j].formula.charge;
+    equilibrium::ChargeBalanceAdjustment adj;
+    adj.analyte = a.analyte;
+    adj.unit = a.unit;
+    adj.as = a.as;
+    adj.given = a.given;
+    adj.given_mmol_per_kgw = a.given * a.mol_per_kgw_per_unit * 1000.0;
+    adj.adjusted_mmol_per_kgw = result.component_totals[j] * 1000.0;
+    adj.adjusted = result.component_totals[j] / a.mol_per_kgw_per_unit;
+    adj.change_meq_per_kgw = z * (adj.adjusted_mmol_per_kgw - adj.given_mmol_per_kgw);
+    // The sums as given: the balanced sums less the charge the adjustment added (from the
+    // speciated molalities, so ion pairs count as the solver speciates them).
+    double cations = result.cations_meq, anions = result.anions_meq;
+    if (z > 0) cations -= adj.change_meq_per_kgw;
+    else anions += adj.change_meq_per_kgw;  // change < 0 for an anion raised
+    cations = std::max(cations, 0.0);
+    anions = std::max(anions, 0.0);
+    adj.error_percent_as_given = equilibrium::charge_balance_error_percent(cations, anions);
+    adj.within_acceptance = equilibrium::charge_balance_acceptable(cations, anions);
+    if (!adj.within_acceptance) {
+        std::ostringstream o;
+        o.precision(4);
+        o << "the charge balance changed " << a.analyte << " from " << adj.given << " to " << adj.adjusted << " " << a.unit
+          << (a.as.empty() ? "" : " as " + a.as) << ": the analysis as given was off by "
+          << std::abs(adj.change_meq_per_kgw) << " meq/kgw (" << adj.error_percent_as_given
+          << " %), beyond the Standard Methods 1030 E acceptance; check the analysis before trusting the adjusted value";
+        result.warnings.push_back(o.str());
+    }
+    result.charge_balance_adjustment = adj;
+}
+
+namespace equilibrium {
+
+bool charge_balance_acceptable(double cations_meq, double anions_meq) {
+    const double diff = std::abs(cations_meq - anions_meq);
+    if (anions_meq <= 3.0) return diff <= 0.2;
+    const double error = std::abs(charge_balance_error_percent(cations_meq, anions_meq));
+    if (anions_meq <= 10.0) return error <= 2.0;
+    return error <= 5.0;
+}
+
+double charge_balance_error_percent(double cations_meq, double anions_meq) {
+    const double sum = cations_meq + anions_meq;
+    return sum > 0 ? 100.0 * (cations_meq - anions_meq) / sum : 0.0;
+}
+
+}  // namespace equilibrium
 
 }  // namespace deltag

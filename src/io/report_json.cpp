@@ -34,6 +34,21 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
     j["charge_balance_error_percent"] = finite(r.charge_balance_error_percent, "charge-balance error");
     j["cations_meq_per_kgw"] = finite(r.cations_meq, "cation sum");
     j["anions_meq_per_kgw"] = finite(r.anions_meq, "anion sum");
+    if (r.charge_balance_adjustment) {
+        const auto& a = *r.charge_balance_adjustment;
+        j["charge_balance_adjustment"] = {{"analyte", a.analyte},
+                                          {"unit", a.unit},
+                                          {"as", a.as.empty() ? ordered_json(nullptr) : ordered_json(a.as)},
+                                          {"given", finite(a.given, "given analyte")},
+                                          {"adjusted", finite(a.adjusted, "adjusted analyte")},
+                                          {"given_mmol_per_kgw", finite(a.given_mmol_per_kgw, "given analyte")},
+                                          {"adjusted_mmol_per_kgw", finite(a.adjusted_mmol_per_kgw, "adjusted analyte")},
+                                          {"change_meq_per_kgw", finite(a.change_meq_per_kgw, "charge change")},
+                                          {"error_percent_as_given", finite(a.error_percent_as_given, "balance as given")},
+                                          {"within_standard_methods_1030e", a.within_acceptance}};
+    } else {
+        j["charge_balance_adjustment"] = nullptr;
+    }
     j["activity_model"] = std::string(activity::model_name(r.activity_model));
     ordered_json totals = ordered_json::object();
     for (const auto& [el, m] : r.element_totals) totals[el] = finite(m, "total of " + el);
@@ -88,12 +103,26 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
         redox["couples"] = couples;
         j["redox"] = redox;
     }
-    if (item.indices && item.indices->available) {
+    if (item.indices) {
+        // Always an object; an index without an answer is null with its reason beside it.
         const auto& ix = *item.indices;
-        j["indices"] = {{"langelier", finite(ix.langelier, "Langelier index")},
-                        {"ph_s", finite(ix.ph_s, "pHs")},
-                        {"ryznar", finite(ix.ryznar, "Ryznar index")},
-                        {"ccpp_mg_per_l_as_caco3", finite(ix.ccpp_mg_per_l, "CCPP")}};
+        auto value = [](bool ok, double v, std::string_view what) {
+            return ok ? ordered_json(finite(v, what)) : ordered_json(nullptr);
+        };
+        j["indices"] = {{"langelier", value(ix.available, ix.langelier, "Langelier index")},
+                        {"ph_s", value(ix.available, ix.ph_s, "pHs")},
+                        {"ryznar", value(ix.available, ix.ryznar, "Ryznar index")},
+                        {"ccpp_mg_per_l_as_caco3", value(ix.ccpp_available, ix.ccpp_mg_per_l, "CCPP")},
+                        {"langelier_available", ix.available},
+                        {"langelier_unavailable_because", ix.available ? ordered_json(nullptr) : ordered_json(ix.why_not)},
+                        {"ccpp_available", ix.ccpp_available},
+                        {"ccpp_unavailable_because",
+                         ix.ccpp_available ? ordered_json(nullptr) : ordered_json(ix.ccpp_why_not)},
+                        {"langelier_formula", value(ix.formula_available, ix.formula_langelier, "formula LSI")},
+                        {"ph_s_formula", value(ix.formula_available, ix.formula_ph_s, "formula pHs")},
+                        {"ph_s_calcium_mol_per_kgw", value(ix.available, ix.calcium_mol_per_kgw, "pHs calcium")},
+                        {"ph_s_carbonate_alkalinity_eq_per_kgw",
+                         value(ix.available, ix.carbonate_alkalinity_eq, "pHs carbonate alkalinity")}};
     } else {
         j["indices"] = nullptr;
     }
@@ -172,6 +201,8 @@ std::string json_report(const thermo::Database& db, const ReportContext& ctx, co
             series[name] = ys;
         }
         one["series"] = series;
+        // null in a series: no value at that point; the notes say which and why.
+        one["notes"] = s.sweep.notes;
         one["csv"] = s.csv_path;
         one["svg"] = s.svg_path;
         sw.push_back(one);
@@ -215,11 +246,16 @@ std::string csv_report(const thermo::Database& db, const ReportContext& /*ctx*/,
                            finite(r.ph, "pH"), r.pe ? fmt::format("{:.6g}", *r.pe) : std::string(),
                            finite(r.ionic_strength, "ionic strength"), finite(r.alkalinity_eq, "alkalinity"),
                            finite(r.charge_balance_error_percent, "charge balance"));
+        // An index without an answer is an empty cell.
         if (item.indices && item.indices->available)
-            out += fmt::format(",{:.6g},{:.6g},{:.6g}", finite(item.indices->langelier, "Langelier"),
-                               finite(item.indices->ryznar, "Ryznar"), finite(item.indices->ccpp_mg_per_l, "CCPP"));
+            out += fmt::format(",{:.6g},{:.6g}", finite(item.indices->langelier, "Langelier"),
+                               finite(item.indices->ryznar, "Ryznar"));
         else
-            out += ",,,";
+            out += ",,";
+        if (item.indices && item.indices->ccpp_available)
+            out += fmt::format(",{:.6g}", finite(item.indices->ccpp_mg_per_l, "CCPP"));
+        else
+            out += ",";
         for (const auto& el : elements) {
             auto it = r.element_totals.find(el);
             out += it == r.element_totals.end() ? "," : fmt::format(",{:.6g}", finite(it->second, el));

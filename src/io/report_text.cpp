@@ -52,6 +52,15 @@ std::string summary_block(const thermo::Database& db, const equilibrium::Speciat
     line("total alkalinity", fmt::format("{:.4g} meq/kgw", r.alkalinity_eq * 1000.0));
     line("charge balance", fmt::format("{:+.2f} % (cations {:.4g}, anions {:.4g} meq/kgw; Standard Methods 1030 E)",
                                        r.charge_balance_error_percent, r.cations_meq, r.anions_meq));
+    if (r.charge_balance_adjustment) {
+        const auto& a = *r.charge_balance_adjustment;
+        const std::string unit = a.unit + (a.as.empty() ? "" : " as " + a.as);
+        line("balanced on " + a.analyte,
+             fmt::format("{} adjusted from {:.4g} to {:.4g} {} ({:.4g} to {:.4g} mmol/kgw) to close the balance; "
+                         "as given the balance was {:+.2f} %, {} the Standard Methods 1030 E acceptance",
+                         a.analyte, a.given, a.adjusted, unit, a.given_mmol_per_kgw, a.adjusted_mmol_per_kgw,
+                         a.error_percent_as_given, a.within_acceptance ? "within" : "OUTSIDE"));
+    }
     line("activity model", std::string(activity::model_name(r.activity_model)));
     line("solver", r.summary.brief());
     // Verdicts in one line each.
@@ -142,14 +151,29 @@ std::string saturation_block(const equilibrium::SpeciationResult& r) {
 }
 
 std::string indices_block(const process::Indices& ix) {
-    if (!ix.available) return "  " + pad("indices (LSI, RSI)", 22) + "not available: " + ix.why_not + "\n";
     std::string out;
-    out += "  " + pad("Langelier index", 22) +
-           fmt::format("{:+.2f} (pHs {:.2f}; Standard Methods 2330, pHs from the speciation)\n", ix.langelier, ix.ph_s);
-    out += "  " + pad("Ryznar index", 22) + fmt::format("{:.2f}\n", ix.ryznar);
-    out += "  " + pad("CCPP", 22) +
-           fmt::format("{:+.2f} mg/L as CaCO3 ({})\n", ix.ccpp_mg_per_l,
-                       ix.ccpp_mg_per_l > 0 ? "would precipitate" : ix.ccpp_mg_per_l < 0 ? "would dissolve" : "at equilibrium");
+    if (ix.available) {
+        out += "  " + pad("Langelier index", 22) +
+               fmt::format("{:+.2f} (pHs {:.2f} at Ca {:.4g} mmol/kgw and carbonate alkalinity {:.4g} meq/kgw; "
+                           "Standard Methods 2330, pHs from the speciation)\n",
+                           ix.langelier, ix.ph_s, ix.calcium_mol_per_kgw * 1000.0, ix.carbonate_alkalinity_eq * 1000.0);
+        out += "  " + pad("Ryznar index", 22) + fmt::format("{:.2f}\n", ix.ryznar);
+    } else {
+        out += "  " + pad("Langelier, Ryznar", 22) + "unavailable, because " + ix.why_not + "\n";
+        if (ix.formula_available)
+            out += "  " + pad("LSI, 2330 B formula", 22) +
+                   fmt::format("{:+.2f} (pHs {:.2f} with all the carbonate alkalinity as bicarbonate; a rough guide "
+                               "only where pHs nears pK2)\n",
+                               ix.formula_langelier, ix.formula_ph_s);
+    }
+    if (ix.ccpp_available)
+        out += "  " + pad("CCPP", 22) +
+               fmt::format("{:+.2f} mg/L as CaCO3 ({}; closed system)\n", ix.ccpp_mg_per_l,
+                           ix.ccpp_mg_per_l > 0   ? "would precipitate"
+                           : ix.ccpp_mg_per_l < 0 ? "would dissolve"
+                                                  : "at equilibrium");
+    else
+        out += "  " + pad("CCPP", 22) + "unavailable, because " + ix.ccpp_why_not + "\n";
     return out;
 }
 
@@ -264,6 +288,10 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx, co
             for (const auto& [name, v] : sw.sweep.series)
                 out += std::isfinite(v[i]) ? fmt::format("{:>16.4f}", v[i]) : fmt::format("{:>16}", "n/a");
             out += "\n";
+        }
+        if (!sw.sweep.notes.empty()) {
+            out += "  n/a: no value at that point:\n";
+            for (const auto& n : sw.sweep.notes) out += "  - " + n + "\n";
         }
         if (!sw.csv_path.empty()) out += "  table written to " + sw.csv_path + "\n";
         if (!sw.svg_path.empty()) out += "  plot written to " + sw.svg_path + "\n";

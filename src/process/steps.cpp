@@ -161,9 +161,11 @@ double target_quantity(const DoseTarget& t, const WaterState& w) {
             throw InputError(t.where, "until.si." + t.mineral,
                              "the saturation of '" + t.mineral + "' is not defined for this water (its components are absent)");
         case DoseTarget::Kind::langelier:
-            if (!w.indices.available)
-                throw InputError(t.where, "until.langelier", "the Langelier index is not available: " + w.indices.why_not);
-            return w.indices.langelier;
+            // Where calcite saturation is out of reach (no pHs), the Standard Methods 2330 B
+            // formula value stands in, so a dose can start from a very soft water.
+            if (w.indices.available) return w.indices.langelier;
+            if (w.indices.formula_available) return w.indices.formula_langelier;
+            throw InputError(t.where, "until.langelier", "the Langelier index is not available: " + w.indices.why_not);
     }
     return 0.0;
 }

@@ -3,6 +3,7 @@
 // chosen step.
 #include <cmath>
 #include <limits>
+#include <sstream>
 
 #include "deltag/process.hpp"
 
@@ -10,17 +11,25 @@ namespace deltag::process {
 
 namespace {
 
-double output_value(const thermo::Database& db, const StepOutcome& o, const std::string& name,
-                    const SourceLocation& where) {
+// One recorded value; a point without one (an index with no answer there) gets NaN, the
+// gap marker of SweepOutcome, and the reason.
+struct Value {
+    Value(double value, std::string reason = {}) : v(value), why_not(std::move(reason)) {}
+    double v = 0.0;
+    std::string why_not;  // non-empty: no value at this point
+};
+
+Value output_value(const thermo::Database& db, const StepOutcome& o, const std::string& name,
+                   const SourceLocation& where) {
     const auto& r = o.state.result;
     const auto& ix = o.state.indices;
     const double nan = std::numeric_limits<double>::quiet_NaN();
-    if (name == "pH") return r.ph;
-    if (name == "ionic_strength") return r.ionic_strength;
-    if (name == "alkalinity") return r.alkalinity_eq * 1000.0 * r.kg_water_per_litre;
-    if (name == "langelier") return ix.available ? ix.langelier : nan;
-    if (name == "ryznar") return ix.available ? ix.ryznar : nan;
-    if (name == "ccpp") return ix.available ? ix.ccpp_mg_per_l : nan;
+    if (name == "pH") return {r.ph};
+    if (name == "ionic_strength") return {r.ionic_strength};
+    if (name == "alkalinity") return {r.alkalinity_eq * 1000.0 * r.kg_water_per_litre};
+    if (name == "langelier") return ix.available ? Value{ix.langelier} : Value{nan, ix.why_not};
+    if (name == "ryznar") return ix.available ? Value{ix.ryznar} : Value{nan, ix.why_not};
+    if (name == "ccpp") return ix.ccpp_available ? Value{ix.ccpp_mg_per_l} : Value{nan, ix.ccpp_why_not};
     const auto colon = name.find(':');
     const std::string head = name.substr(0, colon), tail = colon == std::string::npos ? "" : name.substr(colon + 1);
     if (head == "si") {
@@ -30,8 +39,8 @@ double output_value(const thermo::Database& db, const StepOutcome& o, const std:
             throw InputError(where, "outputs", "'" + tail + "' is not a mineral or gas of the database", nearest_name(tail, all));
         }
         for (const auto& s : r.saturation)
-            if (s.phase == tail) return s.si;
-        return nan;
+            if (s.phase == tail) return {s.si};
+        return {nan, "the saturation of " + tail + " is not defined (its components are absent)"};
     }
     if (head == "transfer") {
         if (!db.find_mineral(tail) && !db.find_gas(tail)) {
@@ -40,16 +49,23 @@ double output_value(const thermo::Database& db, const StepOutcome& o, const std:
             throw InputError(where, "outputs", "'" + tail + "' is not a mineral or gas of the database", nearest_name(tail, all));
         }
         for (const auto& t : r.transfers)
-            if (t.phase == tail) return t.moles * 1000.0;
-        return 0.0;
+            if (t.phase == tail) return {t.moles * 1000.0};
+        return {0.0};
     }
     if (head == "total") {
         if (!chem::atomic_weight(tail))
             throw InputError(where, "outputs", "'" + tail + "' is not an element symbol", nearest_name(tail, chem::element_symbols()));
         auto it = r.element_totals.find(tail);
-        return it == r.element_totals.end() ? 0.0 : it->second * 1000.0;
+        return {it == r.element_totals.end() ? 0.0 : it->second * 1000.0};
     }
     throw InputError(where, "outputs", "unknown output '" + name + "'");
+}
+
+std::string number(double v) {
+    std::ostringstream o;
+    o.precision(4);
+    o << v;
+    return o.str();
 }
 
 std::string output_label(const std::string& name) {
@@ -126,7 +142,10 @@ SweepOutcome run_sweep(const thermo::Database& db, const std::vector<WaterState>
         out.x.push_back(x);
         for (std::size_t k = 0; k < sweep.outputs.size(); ++k) {
             const SourceLocation at = k < sweep.output_where.size() ? sweep.output_where[k] : sweep.where;
-            out.series[k].second.push_back(output_value(db, res.back(), sweep.outputs[k], at));
+            const Value v = output_value(db, res.back(), sweep.outputs[k], at);
+            out.series[k].second.push_back(v.v);
+            if (!v.why_not.empty())
+                out.notes.push_back("no " + out.series[k].first + " at " + out.x_label + " = " + number(x) + ": " + v.why_not);
         }
     }
     return out;
