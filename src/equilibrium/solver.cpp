@@ -1350,8 +1350,7 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
     }
     res.ph = -res.component_log_activity[db.proton()];
     if (input.electron_total && db.electron()) res.pe = -res.component_log_activity[*db.electron()];
-    const double sum = res.cations_meq + res.anions_meq;
-    res.charge_balance_error_percent = sum > 0 ? 100.0 * (res.cations_meq - res.anions_meq) / sum : 0.0;
+    res.charge_balance_error_percent = charge_balance_error_percent(res.cations_meq, res.anions_meq);
 
     for (std::size_t a = 0; a < minerals.size(); ++a) {
         const MineralState& ms = minerals[a];
@@ -1395,14 +1394,7 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
     }
     const bool balance_imposed = !input.ph || input.charge_balance_component;
     if (!balance_imposed && input.minerals.empty() && input.gases.empty()) {
-        // Standard Methods 1030 E acceptance: 0.2 meq/L for anion sums up to 3 meq/L, 2 % up
-        // to 10 meq/L, 5 % above (sums per kg of water here).
-        const double an = res.anions_meq, diff = std::abs(res.cations_meq - res.anions_meq);
-        bool bad = false;
-        if (an <= 3.0) bad = diff > 0.2;
-        else if (an <= 10.0) bad = std::abs(res.charge_balance_error_percent) > 2.0;
-        else bad = std::abs(res.charge_balance_error_percent) > 5.0;
-        if (bad) {
+        if (!charge_balance_acceptable(res.cations_meq, res.anions_meq)) {
             std::ostringstream o;
             o.precision(3);
             o << "charge-balance error " << res.charge_balance_error_percent
