@@ -79,9 +79,62 @@ struct Problem {
     mutable MatrixXd dla_du;               // d log10 a(column) / d u
     mutable std::vector<double> lg_buf, dlg_buf;
 
+    // The balances as make_layout built them; refer_electrons_to_basis() derives the ones in
+    // use from these for the current basis.
+    MatrixXd weights0, coupling0, closed_weight0;
+    std::vector<double> target0, scale0;
+
     bool switched(std::size_t c) const { return basis_of_column[c] != species_of_column[c]; }
     void evaluate(const double* u, double* f, double* jac) const;
+    void refer_electrons_to_basis();
 };
+
+// An electron balance counts e- against the component species (NO3-, SO4^2-, Fe^2+). When
+// an element lives as another redox state (NH4+ for nitrate at a low pe), nearly all of the
+// electron total is that element's, and the balance becomes a small difference of large
+// terms: Newton then has to find the pe from cancellation (iteration limits, 500+
+// iterations seen). Subtracting the element's own balance, times the e- its basis species
+// carries per atom, counts the electrons against the basis species instead (NH4+ carries
+// none): the same equations, well conditioned, with the scale of what is left.
+void Problem::refer_electrons_to_basis() {
+    const ChemicalSystem& s = *sys;
+    weights = weights0;
+    target = target0;
+    scale = scale0;
+    coupling = coupling0;
+    closed_weight = closed_weight0;
+    for (std::size_t e = 0; e < n; ++e) {
+        const int ce = column_of_unknown[e];
+        if (ce < 0 || equation[e] != Equation::mass) continue;
+        const auto role = s.columns[static_cast<std::size_t>(ce)].role;
+        if (role != ComponentColumn::Role::electron_unknown && role != ComponentColumn::Role::split_electron) continue;
+        const Index r = static_cast<Index>(e);
+        VectorXd w = weights0.col(r);
+        double t = target0[e];
+        Eigen::RowVectorXd cpl = coupling0.row(r) * scale0[e];
+        Eigen::RowVectorXd cls = closed_weight0.row(r) * scale0[e];
+        bool changed = false;
+        for (std::size_t c = 0; c < s.columns.size(); ++c) {
+            if (!switched(c)) continue;
+            const int k = basis_of_column[c];
+            const int rc = s.columns[c].unknown;
+            if (rc < 0 || equation[static_cast<std::size_t>(rc)] != Equation::mass) continue;
+            const double factor = s.nu(k, ce) / s.nu(k, static_cast<Index>(c));
+            if (factor == 0.0) continue;
+            w -= factor * weights0.col(rc);
+            t -= factor * target0[static_cast<std::size_t>(rc)];
+            cpl -= factor * coupling0.row(rc) * scale0[static_cast<std::size_t>(rc)];
+            cls -= factor * closed_weight0.row(rc) * scale0[static_cast<std::size_t>(rc)];
+            changed = true;
+        }
+        if (!changed) continue;
+        scale[e] = std::max({std::abs(t), 1e-6 * scale0[e], 1e-14});
+        weights.col(r) = w;
+        target[e] = t;
+        coupling.row(r) = cpl / scale[e];
+        closed_weight.row(r) = cls / scale[e];
+    }
+}
 
 void Problem::evaluate(const double* u, double* f, double* jac) const {
     const ChemicalSystem& s = *sys;
@@ -716,6 +769,11 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
     }
     p.lg_buf.resize(static_cast<std::size_t>(ns));
     p.dlg_buf.resize(static_cast<std::size_t>(ns));
+    p.weights0 = p.weights;
+    p.coupling0 = p.coupling;
+    p.closed_weight0 = p.closed_weight;
+    p.target0 = p.target;
+    p.scale0 = p.scale;
     return L;
 }
 
@@ -929,13 +987,24 @@ AttemptOutcome attempt(Problem& p, const SpeciationInput& input, CarriedState& s
     std::vector<int> best_basis = p.basis_of_column;
     for (int leg = 0; leg < 6; ++leg) {
         choose_basis(p, guessed_log_activities(p, st, ph_guess, pe_guess));
+        p.refer_electrons_to_basis();
         std::vector<double> trial = to_unknowns(p, input, st, ph_guess, pe_guess);
         for (std::size_t e = 0; e < p.n; ++e)
             if (p.phase_of_unknown[e] >= 0)
                 trial[e] = e < st.phase.size() && std::isfinite(st.phase[e]) ? st.phase[e] : phase_start[e];
-        AttemptOutcome o = run_kinsol(p, trial, options);
+        // Short legs first (25, 50, 100, ... iterations): a basis that fits the water badly
+        // is replaced early, from the point reached, rather than after the whole budget.
+        SolverOptions leg_options = options;
+        leg_options.max_iterations = std::min(options.max_iterations, 25 << leg);
+        const bool last_leg = leg == 5;
+        if (last_leg) leg_options.max_iterations = options.max_iterations;
+        AttemptOutcome o = run_kinsol(p, trial, leg_options);
         count(summary, o);
-        const bool better = o.converged || (std::isfinite(o.residual) && o.residual < 0.5 * best.residual);
+        // Carry on from a leg that ran out of iterations while still improving; from one that
+        // stopped otherwise only when it at least halved the residual.
+        const bool out_of_iterations = leg_options.max_iterations < options.max_iterations && o.iterations >= leg_options.max_iterations;
+        const double needed = out_of_iterations ? 1.0 : 0.5;
+        const bool better = o.converged || (std::isfinite(o.residual) && o.residual < needed * best.residual);
         if (!better) break;
         best = o;
         u = trial;
@@ -944,6 +1013,7 @@ AttemptOutcome attempt(Problem& p, const SpeciationInput& input, CarriedState& s
         if (o.converged) break;
     }
     p.basis_of_column = best_basis;  // u belongs to this basis
+    p.refer_electrons_to_basis();
     return best;
 }
 
