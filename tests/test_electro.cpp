@@ -380,3 +380,28 @@ TEST_CASE("a plain carbonate water: alkalinity = HCO3- + 2 CO3^2- + OH- - H+") {
         CHECK(std::abs(r.alkalinity_eq / free - 1.0) < 0.01);
     }
 }
+
+TEST_CASE("Ag/AgCl reference electrodes in KCl: consistent with Bates & Bower (1954) and Nernst") {
+    // The code's E°(AgCl/Ag) is the database entry's polynomial (one published curve).
+    const thermo::Database& db = thermo::Database::embedded();
+    const auto& entries = db.electrodes();
+    const auto it = std::find_if(entries.begin(), entries.end(), [](const auto& e) { return e.name == "AgCl/Ag"; });
+    REQUIRE(it != entries.end());
+    for (double t : {0.0, 25.0, 60.0, 95.0}) CHECK(silver_chloride_e0_v(t) == doctest::Approx(it->e0_at(t)).epsilon(1e-12));
+    // 1 mol/L KCl is 1.033 mol/kg (solution density 1.0425 g/mL, CRC Handbook, from memory),
+    // gamma(KCl) = 0.604 at 1 mol/kg (Robinson & Stokes, Electrolyte Solutions, 1959; from
+    // memory): E = E° - 0.0591597 log10(1.033 x 0.604) = 0.2346 V, against the common-practice
+    // 0.235 V (check-values.md): within 1 mV.
+    const double nernst_1m = silver_chloride_e0_v(25.0) - 0.0591597 * std::log10(1.033 * 0.604);
+    CHECK(std::abs(reference_v("Ag/AgCl(1 M KCl)", 25.0, here) - nernst_1m) < 1e-3);
+    // With the chloride activity fixed, the 25 degC temperature coefficients match the
+    // common-practice ones (check-values.md: -0.6, -0.7, -0.7 mV/K) within 0.02 mV/K.
+    auto slope = [&](const char* name) { return (reference_v(name, 26.0, here) - reference_v(name, 24.0, here)) / 2.0; };
+    CHECK(std::abs(slope("Ag/AgCl(1 M KCl)") - -0.6e-3) < 0.02e-3);
+    CHECK(std::abs(slope("Ag/AgCl(3 M KCl)") - -0.7e-3) < 0.02e-3);
+    CHECK(std::abs(slope("Ag/AgCl(3.5 M KCl)") - -0.7e-3) < 0.02e-3);
+    // Far from 25 degC they follow the curvature of E°: at 90 degC the 3 M electrode lies
+    // 10 mV below the straight line of its 25 degC slope (Bates & Bower: E° bends by 10.6 mV).
+    const double line_90 = 0.210 + slope("Ag/AgCl(3 M KCl)") * 65.0;
+    CHECK(reference_v("Ag/AgCl(3 M KCl)", 90.0, here) < line_90 - 0.008);
+}
