@@ -336,7 +336,8 @@ double molality(const equilibrium::SpeciationResult& r, const char* name) {
 TEST_CASE("an acid ferric water below the end point has no positive alkalinity") {
     // Invented acid mine water: 10 mmol/kgw iron, all ferric (pe 15), 20 mmol/kgw sulfate,
     // pH 4.3. Titrated to pH 4.5 it takes base, not acid: its alkalinity is negative. Counted
-    // from Fe^3+ (or Fe^2+) its ferric hydroxo complexes gave +19.5 meq/kgw.
+    // from Fe^3+, as before, every ferric species counted 2 more, +16 meq/kgw for this water
+    // (the tracker's water reported +19.5).
     const std::vector<equilibrium::ComponentInput> water = {total_of("Fe^2+", 0.010), total_of("SO4^2-", 0.020)};
     const equilibrium::SpeciationResult r = at_ph(water, 4.3, 15.0);
     CAPTURE(r.alkalinity_eq);
