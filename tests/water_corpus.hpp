@@ -163,7 +163,9 @@ inline std::vector<Generated> generate(std::size_t n, std::uint64_t seed) {
         if (iron_apart) {
             const double f3 = r.uniform(0.05, 0.95);
             ions.push_back({"Fe(2)", fe * (1 - f3), 55.845, 2});
-            ions.push_back({"Fe(3)", fe * f3, 55.845, 3});
+            // Nominal charge +1: with the alkalinity given, ferric iron counts at its form at
+            // the titration end point, Fe(OH)2+ (README, "How alkalinity is counted").
+            ions.push_back({"Fe(3)", fe * f3, 55.845, 1});
         }
         if (g.kind == Kind::permeate)
             for (auto& ion : ions) ion.mg_per_l *= 0.05;  // permeate: mostly Na and Cl remain

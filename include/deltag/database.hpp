@@ -24,16 +24,23 @@ struct TemperatureRange {
 
 // How one database entry gives log K as a function of temperature.
 struct LogKModel {
-    enum class Form { constant, van_t_hoff, analytic, water_ionization };
+    enum class Form { constant, van_t_hoff, analytic, water_ionization, gas_solubility };
     Form form = Form::constant;
     double log_k_25 = 0.0;
     double delta_h_kj_per_mol = 0.0;     // van 't Hoff
     double delta_cp_j_per_mol_k = 0.0;   // optional, with van 't Hoff
     std::array<double, 5> fit{};         // analytic: a + bT + c/T + d log10 T + e/T^2 (T in K)
+    std::array<double, 3> henry{};       // gas_solubility: A, B, C of the IAPWS (2004) Henry's
+                                         // constant guideline (Fernandez-Prini et al. 2003)
     std::optional<TemperatureRange> range;
 
     double log_k(double temperature_c) const;
 };
+
+// log10 K (mol kg^-1 atm^-1) of X(g) = X(aq) from the IAPWS (2004) Henry's constant guideline
+// (Fernandez-Prini, Alvarez & Harvey 2003, J. Phys. Chem. Ref. Data 32, 903) with the gas's
+// coefficients A, B, C of its Table 2.
+double log_k_gas_solubility(const std::array<double, 3>& abc, double temperature_c);
 
 // log K of a reaction built from several entries: sum of weight * entry log K.
 struct LogKFunction {
@@ -81,6 +88,10 @@ struct PhaseEntry : Entry {
     Stoichiometry dissolution;
     LogKFunction log_k;             // of the dissolution written in components
     LogKFunction log_k_as_written;  // of the dissolution as the database writes it (for reports)
+    // Equivalents of total alkalinity one mole brings into the water when it dissolves: from
+    // the reaction as written (each species with its own alkalinity), or given (`alkalinity`)
+    // for a gas that dissolves as a redox species (O2(g) -> O2(aq): 0).
+    double alkalinity = 0.0;
 };
 
 // A standard electrode potential: the reduction "ox + n e- = red" with E° at 25 degC.
@@ -90,11 +101,16 @@ struct Electrode {
     chem::Reaction reaction;
     double e0_v = 0.0;
     double de0_dt_v_per_k = 0.0;
+    // E°(t) = sum a_i t^i, t in degC, when the source publishes a polynomial (e0_polynomial_v);
+    // otherwise E° + dE°/dT (t - 25).
+    std::vector<double> e0_polynomial_v;
     std::optional<TemperatureRange> range;
     std::string source;
     bool from_memory = false;
     std::string note;
     SourceLocation where;
+
+    double e0_at(double temperature_c) const;  // V vs SHE
 };
 
 struct Analyte {

@@ -31,7 +31,8 @@ struct HalfCell {
     std::vector<HalfTerm> terms;
     double electrons = 0.0;          // n, electrons taken up by the reduction as written
     double e0_25_v = 0.0;            // E at 25 degC, V vs SHE
-    double de0_dt_v_per_k = 0.0;     // temperature coefficient
+    double de0_dt_v_per_k = 0.0;     // temperature coefficient (at 25 degC with a polynomial)
+    std::vector<double> e0_polynomial_v;  // E°(t) = sum a_i t^i (t in degC), when the electrode has one
     std::string e0_origin;           // "electrode NAME (source)" or "the log K of the species"
     thermo::LogKFunction log_k;      // of the reduction as written, when derived from species
     bool from_species = false;

@@ -8,8 +8,9 @@ namespace deltag::thermo {
 // valid 0-150 degC.
 double water_density_kg_m3(double temperature_c);
 
-// Relative permittivity (dielectric constant) of water. Malmberg & Maryott (1956)
-// J. Res. Natl. Bur. Stand. 56, 1, valid 0-100 degC.
+// Relative permittivity (dielectric constant) of liquid water at about 1 atm: the IAPWS (1997)
+// formulation (Fernandez et al. 1997, J. Phys. Chem. Ref. Data 26, 1125) with the density above;
+// 0-150 degC (above 100 degC: liquid on the saturation curve).
 double water_relative_permittivity(double temperature_c);
 
 struct DebyeHuckelParameters {

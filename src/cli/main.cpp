@@ -390,7 +390,7 @@ int cmd_database_show(const std::string& name, const std::string& db_path) {
         out += fmt::format("  reaction         {}\n", el->reaction_text);
         out += fmt::format("  E°               {:+.4f} V vs SHE at 25 °C, dE°/dT {:+.3f} mV/K\n", el->e0_v, el->de0_dt_v_per_k * 1000);
         out += "  E°(T)            ";
-        for (double t : {0.0, 25.0, 50.0, 100.0}) out += fmt::format("  {:g} °C: {:+.4f} V", t, el->e0_v + el->de0_dt_v_per_k * (t - 25.0));
+        for (double t : {0.0, 25.0, 50.0, 100.0}) out += fmt::format("  {:g} °C: {:+.4f} V", t, el->e0_at(t));
         out += "\n";
         if (el->range) out += fmt::format("  valid            {:g} to {:g} °C\n", el->range->min_c, el->range->max_c);
         const thermo::Source* src = db.find_source(el->source);
@@ -438,6 +438,10 @@ int cmd_database_show(const std::string& name, const std::string& db_path) {
             break;
         case thermo::LogKModel::Form::water_ionization:
             out += "  log K(T)         Kw formulation of Bandura & Lvov (2006)\n";
+            break;
+        case thermo::LogKModel::Form::gas_solubility:
+            out += fmt::format("  log K(T)         Henry's constant of the IAPWS (2004) guideline, A = {}, B = {}, C = {}\n",
+                               m.henry[0], m.henry[1], m.henry[2]);
             break;
         case thermo::LogKModel::Form::constant: break;
     }

@@ -77,6 +77,11 @@ std::string canonical_term(const std::string& name) {
 double HalfCell::e0_v(double temperature_c) const {
     if (from_species)
         return constants::nernst_slope_v(temperature_c + constants::zero_celsius_k) / electrons * log_k(temperature_c);
+    if (!e0_polynomial_v.empty()) {
+        double e = 0.0;
+        for (auto it = e0_polynomial_v.rbegin(); it != e0_polynomial_v.rend(); ++it) e = e * temperature_c + *it;
+        return e;
+    }
     return e0_25_v + de0_dt_v_per_k * (temperature_c - 25.0);
 }
 
@@ -129,6 +134,7 @@ HalfCell parse_half_reaction(const thermo::Database& db, const std::string& text
         if (!same_reaction(theirs, mine)) continue;
         h.e0_25_v = e.e0_v;
         h.de0_dt_v_per_k = e.de0_dt_v_per_k;
+        h.e0_polynomial_v = e.e0_polynomial_v;
         const thermo::Source* s = db.find_source(e.source);
         h.e0_origin = "electrode " + e.name + (s ? " (" + s->key + ")" : std::string());
         h.from_species = false;

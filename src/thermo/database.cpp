@@ -33,7 +33,7 @@ const std::vector<std::string> top_keys = {"database", "sources", "components", 
 const std::vector<std::string> common_keys = {"reaction", "log_k", "log_k_fit", "delta_h_kj_per_mol",
                                               "delta_cp_j_per_mol_k", "temperature_range_c", "source",
                                               "from_memory", "note", "ion_size_angstrom",
-                                              "truesdell_jones", "salting_out", "log_k_model"};
+                                              "truesdell_jones", "salting_out", "log_k_model", "henry_abc"};
 
 }  // namespace
 
@@ -132,18 +132,40 @@ private:
             m.form = LogKModel::Form::analytic;
             std::copy(fit->begin(), fit->end(), m.fit.begin());
         }
+        const std::vector<std::string> models = {"water-ionization", "henry-iapws"};
         if (auto model = r.string("log_k_model")) {
-            if (*model != "water-ionization")
-                r.fail("log_k_model", "expected \"water-ionization\" (the only special model)",
-                       nearest_name(*model, {"water-ionization"}));
-            m.form = LogKModel::Form::water_ionization;
-            // The Kw formulation is for H2O = H+ + OH- as written; any other reaction would
-            // silently take the wrong log K.
-            const chem::Reaction& rx = raw.reaction;
-            const bool ionization = rx.terms.size() == 3 && rx.coefficient("H2O") == -1.0 &&
-                                    rx.coefficient("H+") == 1.0 && rx.coefficient("OH-") == 1.0;
-            if (!ionization)
-                r.fail("log_k_model", "\"water-ionization\" is only for the reaction \"H2O = OH- + H+\"");
+            if (*model == "water-ionization") {
+                m.form = LogKModel::Form::water_ionization;
+                // The Kw formulation is for H2O = H+ + OH- as written; any other reaction would
+                // silently take the wrong log K.
+                const chem::Reaction& rx = raw.reaction;
+                const bool ionization = rx.terms.size() == 3 && rx.coefficient("H2O") == -1.0 &&
+                                        rx.coefficient("H+") == 1.0 && rx.coefficient("OH-") == 1.0;
+                if (!ionization)
+                    r.fail("log_k_model", "\"water-ionization\" is only for the reaction \"H2O = OH- + H+\"");
+            } else if (*model == "henry-iapws") {
+                m.form = LogKModel::Form::gas_solubility;
+                // The guideline's Henry's constant is for X(g) = X(aq) as written.
+                const chem::Reaction& rx = raw.reaction;
+                bool dissolution = rx.terms.size() == 2;
+                if (dissolution) {
+                    const auto& lhs = rx.terms[0].coefficient < 0 ? rx.terms[0] : rx.terms[1];
+                    const auto& rhs = rx.terms[0].coefficient < 0 ? rx.terms[1] : rx.terms[0];
+                    const chem::Formula fg = chem::parse_formula(lhs.species);
+                    const chem::Formula fa = chem::parse_formula(rhs.species);
+                    dissolution = lhs.coefficient == -1.0 && rhs.coefficient == 1.0 && fg.phase == chem::Phase::gas &&
+                                  fa.phase != chem::Phase::gas && fa.elements == fg.elements && fa.charge == 0;
+                }
+                if (!dissolution)
+                    r.fail("log_k_model", "\"henry-iapws\" is only for a gas dissolving as itself, e.g. \"O2(g) = O2(aq)\"");
+                auto abc = r.numbers("henry_abc", 3);
+                if (!abc) r.fail("henry_abc", "\"henry-iapws\" needs henry_abc = [A, B, C] of the guideline's Table 2");
+                std::copy(abc->begin(), abc->end(), m.henry.begin());
+            } else {
+                r.fail("log_k_model", "expected \"water-ionization\" or \"henry-iapws\"", nearest_name(*model, models));
+            }
+        } else if (r.has("henry_abc")) {
+            r.fail("henry_abc", "henry_abc belongs to log_k_model = \"henry-iapws\"");
         }
     }
 
@@ -228,12 +250,11 @@ private:
             read_log_k(r, raw);
             std::vector<std::string> allowed = common_keys;
             if (mineral) allowed.push_back("formula");
-            if (table_name == "species") {
-                // A redox species' alkalinity does not follow from its formation (the electron
-                // has no proton count of its own): give it.
-                if (auto alk = r.number("alkalinity")) raw.alkalinity_override = *alk;
-                allowed.push_back("alkalinity");
-            }
+            // A redox species' alkalinity does not follow from its formation (the electron
+            // has no proton count of its own): give it, and species written from it inherit it.
+            // A phase may give the alkalinity it brings when it dissolves.
+            if (auto alk = r.number("alkalinity")) raw.alkalinity_override = *alk;
+            allowed.push_back("alkalinity");
             r.finish(allowed);
             out.push_back(std::move(raw));
         }
@@ -283,15 +304,63 @@ private:
             out.log_k.add(logk_sign * weight, sub.log_k);
             return;
         }
+        // A gas in a species' reaction ("O2(g) = O2(aq)"): log p(gas) expanded like a species,
+        // from the gas's own reaction.
+        if (auto it = gas_raw_index_.find(name); it != gas_raw_index_.end()) {
+            const Resolved& sub = resolve_gas(it->second, stack);
+            for (const auto& [j, v] : sub.stoich) out.stoich[j] += weight * v;
+            out.log_k.add(logk_sign * weight, sub.log_k);
+            return;
+        }
         throw InputError(raw.reaction_where, raw.key_prefix + ".reaction",
                          "unknown species '" + name + "' in the reaction; every species must be a component or defined in [species]",
                          nearest_name(name, known_names()));
     }
 
+    // Alkalinity of a species (or of a gas named in a species' reaction), from its reaction as
+    // written: alk(s) = sum_{i != s} (-nu_i/nu_s) alk(i), each term with its own alkalinity
+    // (a component's, or a species' given or derived one), unless the entry gives its own.
+    // So a species written from a redox species with a given alkalinity (FeOH^2+ from Fe^3+)
+    // counts from that reference level. The reactions were checked by the log K resolution,
+    // which runs first, so no cycle or unknown name is met here.
+    double alkalinity_of(const RawEntry& raw, std::vector<std::string>& stack) {
+        if (raw.alkalinity_override) return *raw.alkalinity_override;
+        if (auto it = alkalinity_memo_.find(raw.key_prefix); it != alkalinity_memo_.end()) return it->second;
+        stack.push_back(raw.entry.name);
+        const double nu_s = self_coefficient(raw, raw.entry.name);
+        double alk = 0.0;
+        for (const auto& term : raw.reaction.terms) {
+            if (canonical(term.species) == raw.entry.name || term.species == raw.entry.name) continue;
+            alk += -term.coefficient / nu_s * term_alkalinity(raw, term.species, stack);
+        }
+        stack.pop_back();
+        alkalinity_memo_[raw.key_prefix] = alk;
+        return alk;
+    }
+
+    double term_alkalinity(const RawEntry& raw, const std::string& name, std::vector<std::string>& stack) {
+        const std::string c = canonical(name);
+        if (auto it = index_.find(c); it != index_.end() && it->second < db_.component_count_)
+            return db_.species_[it->second].alkalinity;
+        if (auto it = species_raw_index_.find(c); it != species_raw_index_.end())
+            return alkalinity_of(species_raw_[it->second], stack);
+        if (auto it = gas_raw_index_.find(name); it != gas_raw_index_.end())
+            return alkalinity_of(gases_raw_[it->second], stack);
+        throw InputError(raw.reaction_where, raw.key_prefix + ".reaction", "unknown species '" + name + "' in the reaction",
+                         nearest_name(name, known_names()));
+    }
+
     // Resolves a species entry: log a(s) = log K/nu_s + sum_{i != s} (-nu_i/nu_s) log a(i).
     const Resolved& resolve_one(std::size_t raw_index, std::vector<std::string>& stack) {
-        if (auto it = resolved_.find(raw_index); it != resolved_.end()) return it->second;
-        const RawEntry& raw = species_raw_[raw_index];
+        return resolve_entry(species_raw_[raw_index], resolved_[raw_index], stack);
+    }
+    // The same for a gas named in a species' reaction: log p(gas) in components.
+    const Resolved& resolve_gas(std::size_t raw_index, std::vector<std::string>& stack) {
+        return resolve_entry(gases_raw_[raw_index], gases_resolved_[raw_index], stack);
+    }
+
+    const Resolved& resolve_entry(const RawEntry& raw, std::optional<Resolved>& slot, std::vector<std::string>& stack) {
+        if (slot) return *slot;
         if (std::find(stack.begin(), stack.end(), raw.entry.name) != stack.end()) {
             std::string chain;
             for (const auto& s : stack) chain += s + " -> ";
@@ -307,7 +376,8 @@ private:
             expand_term(raw, term.species, -term.coefficient / nu_s, r, stack);
         }
         stack.pop_back();
-        return resolved_.emplace(raw_index, std::move(r)).first->second;
+        slot = std::move(r);
+        return *slot;
     }
 
     double self_coefficient(const RawEntry& raw, const std::string& self) const {
@@ -325,6 +395,10 @@ private:
             const std::string& n = species_raw_[i].entry.name;
             if (!species_raw_index_.count(n)) species_raw_index_[n] = i;
         }
+        for (std::size_t i = 0; i < gases_raw_.size(); ++i) {
+            const std::string& n = gases_raw_[i].entry.name;
+            if (!gas_raw_index_.count(n)) gas_raw_index_[n] = i;
+        }
         for (std::size_t i = 0; i < species_raw_.size(); ++i) {
             std::vector<std::string> stack;
             const Resolved& r = resolve_one(i, stack);
@@ -338,8 +412,8 @@ private:
             s.tj_a_angstrom = raw.tj_a;
             s.tj_b = raw.tj_b;
             s.salting_out = raw.salting_out;
-            for (const auto& [j, v] : s.formation) s.alkalinity += v * db_.species_[j].alkalinity;
-            if (raw.alkalinity_override) s.alkalinity = *raw.alkalinity_override;
+            std::vector<std::string> alk_stack;
+            s.alkalinity = alkalinity_of(raw, alk_stack);
             if (!index_.count(s.name)) index_[s.name] = db_.species_.size();
             db_.species_.push_back(std::move(s));
         }
@@ -381,6 +455,13 @@ private:
             std::erase_if(p.dissolution, [](const auto& q) { return std::abs(q.second) < 1e-12; });
             p.log_k = r.log_k;
             p.log_k_as_written.terms = {{w, raw.entry.own_log_k}};
+            if (raw.alkalinity_override) {
+                p.alkalinity = *raw.alkalinity_override;
+            } else {
+                std::vector<std::string> alk_stack{raw.entry.name};
+                for (const auto& term : raw.reaction.terms)
+                    if (term.species != self) p.alkalinity += term.coefficient * w * term_alkalinity(raw, term.species, alk_stack);
+            }
             out.push_back(std::move(p));
         }
     }
@@ -408,6 +489,22 @@ private:
                 r.fail("reaction", "an electrode reaction is a reduction with the electrons on the left, e.g. \"Cu^2+ + 2 e- = Cu(s)\"");
             e.e0_v = r.require_number("e0_v", "the standard potential at 25 degC in V vs SHE");
             e.de0_dt_v_per_k = r.number("de0_dt_mv_per_k").value_or(0.0) / 1000.0;
+            if (r.has("e0_polynomial_v")) {
+                if (r.has("de0_dt_mv_per_k"))
+                    r.fail("e0_polynomial_v", "give either e0_polynomial_v or de0_dt_mv_per_k, not both");
+                const toml::node* node = v.as_table()->get("e0_polynomial_v");
+                const toml::array* arr = node ? node->as_array() : nullptr;
+                std::size_t n = arr ? arr->size() : 0;
+                if (n < 2 || n > 6)
+                    r.fail("e0_polynomial_v", "expected 2 to 6 numbers [a0, a1, ...]: E°(t) = a0 + a1 t + a2 t^2 + ..., t in degC");
+                auto poly = r.numbers("e0_polynomial_v", n);
+                e.e0_polynomial_v.assign(poly->begin(), poly->end());
+                const double at25 = e.e0_at(25.0);
+                if (std::abs(at25 - e.e0_v) > 0.1e-3)
+                    r.fail("e0_polynomial_v", "the polynomial gives " + message_number(at25) + " V at 25 degC but e0_v is " +
+                                                  message_number(e.e0_v) + " V (allowed difference 0.1 mV)");
+                e.de0_dt_v_per_k = (e.e0_at(26.0) - e.e0_at(24.0)) / 2.0;
+            }
             if (auto range = r.numbers("temperature_range_c", 2)) {
                 if (!((*range)[0] < (*range)[1])) r.fail("temperature_range_c", "expected [min, max] with min < max");
                 e.range = TemperatureRange{(*range)[0], (*range)[1]};
@@ -415,7 +512,8 @@ private:
             e.source = r.string("source").value_or("");
             e.from_memory = r.boolean("from_memory").value_or(false);
             e.note = r.string("note").value_or("");
-            r.finish({"reaction", "e0_v", "de0_dt_mv_per_k", "temperature_range_c", "source", "from_memory", "note"});
+            r.finish({"reaction", "e0_v", "de0_dt_mv_per_k", "e0_polynomial_v", "temperature_range_c", "source",
+                      "from_memory", "note"});
             db_.electrodes_.push_back(std::move(e));
         }
         std::stable_sort(db_.electrodes_.begin(), db_.electrodes_.end(),
@@ -473,7 +571,9 @@ private:
     std::map<std::string, std::size_t> index_;  // name -> index in db_.species_
     std::vector<RawEntry> species_raw_, minerals_raw_, gases_raw_;
     std::map<std::string, std::size_t> species_raw_index_;
-    std::map<std::size_t, Resolved> resolved_;
+    std::map<std::size_t, std::optional<Resolved>> resolved_, gases_resolved_;
+    std::map<std::string, std::size_t> gas_raw_index_;
+    std::map<std::string, double> alkalinity_memo_;  // key prefix -> derived alkalinity
 };
 
 Database Database::parse(std::string_view toml_text, const std::string& origin) {

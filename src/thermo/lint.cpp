@@ -38,7 +38,8 @@ std::vector<LintFinding> Database::lint() const {
         const LogKModel& m = e.own_log_k;
         if (m.form == LogKModel::Form::constant) {
             warning(e, table, "no temperature dependence (no log_k_fit or delta_h_kj_per_mol): log K is taken constant");
-        } else if (m.form == LogKModel::Form::analytic || m.form == LogKModel::Form::water_ionization) {
+        } else if (m.form == LogKModel::Form::analytic || m.form == LogKModel::Form::water_ionization ||
+                   m.form == LogKModel::Form::gas_solubility) {
             const double at25 = m.log_k(25.0);
             if (!std::isfinite(at25) || std::abs(at25 - m.log_k_25) > 0.02)
                 error(e, table, "the temperature function gives log K = " + message_number(at25) +

@@ -7,6 +7,29 @@
 
 namespace deltag::thermo {
 
+// IAPWS (2004) Guideline on the Henry's constant and vapor-liquid distribution constant for
+// gases in H2O and D2O at high temperatures; Fernandez-Prini, R., Alvarez, J.L. & Harvey, A.H.
+// (2003) J. Phys. Chem. Ref. Data 32, 903-916:
+//   ln(k_H / p_s) = A/Tr + B tau^0.355 / Tr + C Tr^-0.41 exp(tau),  Tr = T/Tc, tau = 1 - Tr,
+// with k_H = lim f(gas)/x(gas) in MPa and p_s the vapour pressure of water (the IAPWS
+// saturation-pressure equation of Wagner & Pruss 1993, coefficients as the guideline gives
+// them). For X(g) = X(aq), K = m/p: x = m M_w at infinite dilution, so K = p0/(M_w k_H) in
+// mol/(kg atm) with p0 = 0.101325 MPa.
+double log_k_gas_solubility(const std::array<double, 3>& abc, double temperature_c) {
+    constexpr double t_crit = 647.096, p_crit_mpa = 22.064;
+    constexpr std::array<double, 6> a = {-7.85951783, 1.84408259, -11.7866497, 22.6807411, -15.9618719, 1.80122502};
+    constexpr std::array<double, 6> b = {1.0, 1.5, 3.0, 3.5, 4.0, 7.5};
+    constexpr double molar_mass_water_kg = 0.018015268;
+    constexpr double atm_mpa = 0.101325;
+    const double tr = (temperature_c + constants::zero_celsius_k) / t_crit;
+    const double tau = 1.0 - tr;
+    double sum = 0.0;
+    for (std::size_t i = 0; i < a.size(); ++i) sum += a[i] * std::pow(tau, b[i]);
+    const double ln_ps = std::log(p_crit_mpa) + sum / tr;
+    const double ln_kh = ln_ps + abc[0] / tr + abc[1] * std::pow(tau, 0.355) / tr + abc[2] * std::pow(tr, -0.41) * std::exp(tau);
+    return std::log10(atm_mpa / molar_mass_water_kg) - ln_kh / constants::ln10;
+}
+
 double LogKModel::log_k(double temperature_c) const {
     const double t = temperature_c + constants::zero_celsius_k;
     const double t0 = constants::reference_temperature_k;
@@ -26,8 +49,17 @@ double LogKModel::log_k(double temperature_c) const {
         case Form::water_ionization:
             // For the reaction H2O = H+ + OH-: log K = -pKw (Bandura & Lvov 2006).
             return -water_pkw(temperature_c);
+        case Form::gas_solubility:
+            return log_k_gas_solubility(henry, temperature_c);
     }
     return log_k_25;
+}
+
+double Electrode::e0_at(double temperature_c) const {
+    if (e0_polynomial_v.empty()) return e0_v + de0_dt_v_per_k * (temperature_c - 25.0);
+    double e = 0.0;
+    for (auto it = e0_polynomial_v.rbegin(); it != e0_polynomial_v.rend(); ++it) e = e * temperature_c + *it;
+    return e;
 }
 
 double LogKFunction::operator()(double temperature_c) const {
