@@ -10,6 +10,7 @@
 #include "deltag/constants.hpp"
 #include "deltag/electro.hpp"
 #include "deltag/process.hpp"
+#include "deltag/water_properties.hpp"
 
 using namespace deltag;
 
@@ -266,7 +267,7 @@ TEST_CASE("aeration brings iron given as Fe(2) and Fe(3) to the water's redox le
     // The same water given as total iron ends the same way (that already worked).
     const auto total = run_case(aerated_well("Fe = 2.8\n"));
     CHECK(total.at(0).state.result.element_totals.at("Fe") ==
-          doctest::Approx(r.element_totals.at("Fe")).epsilon(1e-3));
+          doctest::Approx(r.element_totals.at("Fe")).epsilon(1e-3).scale(0));
 }
 
 TEST_CASE("keep_redox_states_apart = true keeps the iron couple apart, and the report says so") {
@@ -289,7 +290,7 @@ TEST_CASE("keep_redox_states_apart = true keeps the iron couple apart, and the r
         if (fe > 0) ferric += -nu_e * s.molality;
     }
     REQUIRE(steps.at(0).state.basis.redox_splits.size() == 1);
-    CHECK(-steps.at(0).state.basis.redox_splits[0].electron_total == doctest::Approx(ferric).epsilon(1e-9));
+    CHECK(-steps.at(0).state.basis.redox_splits[0].electron_total == doctest::Approx(ferric).epsilon(1e-9).scale(0));
 }
 
 TEST_CASE("an oxidant dose and an equilibrate step merge the redox states; a plain temperature change does not") {
@@ -323,7 +324,7 @@ amount = { value = 0.02, unit = "mmol/kgw" }
     // (the ferric iron given: 0.2 mg/L / 55.845 g/mol, per kg of water).
     REQUIRE(steps.at(0).state.basis.redox_splits.size() == 1);
     CHECK(steps.at(0).state.basis.redox_splits[0].electron_total ==
-          doctest::Approx(w[0].basis.redox_splits[0].electron_total).epsilon(1e-9));
+          doctest::Approx(w[0].basis.redox_splits[0].electron_total).epsilon(1e-9).scale(0));
     CHECK(!warns(steps.at(0).state.result, "redox level"));
     // The oxidant dose merges them: the electron total of the whole water is the water's, the
     // iron's and the dose's (2 e- taken per NaOCl).
@@ -331,8 +332,8 @@ amount = { value = 0.02, unit = "mmol/kgw" }
     CHECK(dosed.basis.redox_splits.empty());
     CHECK(warns(dosed.result, "brought to the step's redox level"));
     const double expected = *w[0].basis.electron_total + w[0].basis.redox_splits[0].electron_total - 2 * 0.02e-3;
-    CHECK(dosed.result.component_totals[*core().electron()] == doctest::Approx(expected).epsilon(1e-9));
-    CHECK(*dosed.basis.electron_total == doctest::Approx(expected).epsilon(1e-9));
+    CHECK(dosed.result.component_totals[*core().electron()] == doctest::Approx(expected).epsilon(1e-9).scale(0));
+    CHECK(*dosed.basis.electron_total == doctest::Approx(expected).epsilon(1e-9).scale(0));
 }
 
 TEST_CASE("the oxygen an aeration step dissolves is carried into the next step") {
@@ -347,5 +348,108 @@ temperature_c = 25
 )toml"));
     const double o2_aerated = steps.at(0).state.result.find("O2(aq)")->molality;
     CHECK(o2_aerated > 2e-4);  // air-saturated water at 25 degC holds about 2.6e-4 mol/kg (common practice)
-    CHECK(steps.at(1).state.result.find("O2(aq)")->molality == doctest::Approx(o2_aerated).epsilon(1e-6));
+    CHECK(steps.at(1).state.result.find("O2(aq)")->molality == doctest::Approx(o2_aerated).epsilon(1e-6).scale(0));
+}
+
+TEST_CASE("blends carry redox states apart as electron totals, and merge them only against a water at its redox level") {
+    std::vector<process::WaterState> w;
+    const auto steps = run_case(R"toml(
+[water.ferrous]
+pH = 6.9
+pe = 0.5
+units = "mg/L"
+[water.ferrous.analytes]
+Ca = 60
+Na = 20
+Cl = 30
+Alkalinity = { value = 180, as = "CaCO3" }
+"Fe(2)" = 2.0
+"Fe(3)" = 0.4
+
+[water.soft]
+pH = 7.2
+units = "mg/L"
+[water.soft.analytes]
+Ca = 10
+Na = 10
+Cl = 12
+Alkalinity = { value = 30, as = "CaCO3" }
+
+[water.oxic]
+pH = 7.4
+pe = 12
+units = "mg/L"
+[water.oxic.analytes]
+Ca = 30
+Na = 10
+Cl = 15
+Alkalinity = { value = 80, as = "CaCO3" }
+Fe = 0.1
+
+[[step]]
+label = "with soft"
+kind = "blend"
+waters = { ferrous = 0.5, soft = 0.5 }
+by = "mass"
+
+[[step]]
+label = "with oxic"
+kind = "blend"
+waters = { ferrous = 0.5, oxic = 0.5 }
+by = "mass"
+)toml", &w);
+    // Mass balance (definition): a blend's electron totals are the water-weighted means. By
+    // mass, each water's kg of water per kg of solution weighs it.
+    auto weight = [](const process::WaterState& x) {
+        return x.result.kg_water_per_litre / (deltag::thermo::water_density_kg_m3(x.result.temperature_c) / 1000.0);
+    };
+    {
+        const auto& b = steps.at(0).state;
+        const double wa = weight(w[0]), wb = weight(w[1]);
+        REQUIRE(b.basis.redox_splits.size() == 1);
+        CHECK(b.basis.redox_splits[0].electron_total ==
+              doctest::Approx(wa / (wa + wb) * w[0].basis.redox_splits[0].electron_total).epsilon(1e-9).scale(0));
+        CHECK(!warns(b.result, "redox level"));
+    }
+    {
+        const auto& b = steps.at(1).state;
+        const double wa = weight(w[0]), wc = weight(w[2]);
+        CHECK(b.basis.redox_splits.empty());
+        CHECK(warns(b.result, "Fe given by redox state in one water and at the redox level of another"));
+        const double expected = (wa * (*w[0].basis.electron_total + w[0].basis.redox_splits[0].electron_total) +
+                                 wc * *w[2].basis.electron_total) / (wa + wc);
+        CHECK(*b.basis.electron_total == doctest::Approx(expected).epsilon(1e-9).scale(0));
+    }
+}
+
+TEST_CASE("ferric chloride into a water whose iron is kept apart: its electrons go to the iron") {
+    std::vector<process::WaterState> w;
+    const auto steps = run_case(R"toml(
+[water.w]
+pH = 6.9
+pe = 0.5
+units = "mg/L"
+[water.w.analytes]
+Ca = 60
+Na = 20
+Cl = 30
+Alkalinity = { value = 180, as = "CaCO3" }
+"Fe(2)" = 2.0
+"Fe(3)" = 0.4
+
+[[step]]
+label = "coagulant"
+kind = "dose"
+reagent = "FeCl3"
+amount = { value = 0.05, unit = "mmol/kgw" }
+keep_redox_states_apart = true
+)toml", &w);
+    const auto& d = steps.at(0).state;
+    // FeCl3 is ferric iron: 1 e- short per mole (Fe3+ = Fe2+ - e-), all of it the iron's.
+    REQUIRE(d.basis.redox_splits.size() == 1);
+    CHECK(d.basis.redox_splits[0].electron_total ==
+          doctest::Approx(w[0].basis.redox_splits[0].electron_total - 0.05e-3).epsilon(1e-9).scale(0));
+    // The water's own electrons are untouched (absolute: they are near 0 at pe 0.5).
+    CHECK(std::abs(*d.basis.electron_total - *w[0].basis.electron_total) < 1e-15);
+    CHECK(warns(d.result, "kept apart"));
 }
