@@ -336,21 +336,6 @@ amount = { value = 0.02, unit = "mmol/kgw" }
     CHECK(*dosed.basis.electron_total == doctest::Approx(expected).epsilon(1e-9).scale(0));
 }
 
-TEST_CASE("the oxygen an aeration step dissolves is carried into the next step") {
-    // Conservation of electrons (the rule every step keeps): after aeration the water's
-    // electron total is what the gas made it, so a later step that adds nothing redox-active
-    // keeps the dissolved oxygen (here: no temperature change, so the same O2(aq) to 1e-6).
-    const auto steps = run_case(aerated_well("Fe = 2.8\n", R"toml(
-[[step]]
-label = "stand"
-kind = "temperature"
-temperature_c = 25
-)toml"));
-    const double o2_aerated = steps.at(0).state.result.find("O2(aq)")->molality;
-    CHECK(o2_aerated > 2e-4);  // air-saturated water at 25 degC holds about 2.6e-4 mol/kg (common practice)
-    CHECK(steps.at(1).state.result.find("O2(aq)")->molality == doctest::Approx(o2_aerated).epsilon(1e-6).scale(0));
-}
-
 TEST_CASE("blends carry redox states apart as electron totals, and merge them only against a water at its redox level") {
     std::vector<process::WaterState> w;
     const auto steps = run_case(R"toml(
