@@ -677,12 +677,44 @@ waters = { well = 1, "step 3 (temperature)" = 1 }
     CHECK(std::get<EquilibrateStep>(c.steps[1].action).minerals.empty());
     CHECK(std::get<EquilibrateStep>(c.steps[1].action).gases.at(0).log_partial_pressure_atm == -0.68);
     CHECK_FALSE(std::get<TemperatureStep>(c.steps[2].action).equilibrate);
+    for (const auto& s : c.steps) CHECK_FALSE(s.keep_redox_states_apart);
     CHECK(std::get<TemperatureStep>(c.steps[2].action).temperature_c == 0.0);
     const auto& b = std::get<BlendStep>(c.steps[3].action);
     CHECK(b.basis == BlendStep::Basis::volume);
     REQUIRE(b.parts.size() == 2);
     CHECK(b.parts[1].first == "step 3 (temperature)");  // a default label can be referred to
     CHECK(b.parts[1].second == 0.5);
+}
+
+TEST_CASE("keep_redox_states_apart is read by equilibrate, dose and temperature with equilibrate") {
+    const auto c = parse_case(one_water + R"toml([[step]]
+kind = "equilibrate"
+gases = { "O2(g)" = -0.68 }
+keep_redox_states_apart = true
+[[step]]
+kind = "dose"
+reagent = "NaOCl"
+amount = { value = 1, unit = "mg/L" }
+keep_redox_states_apart = true
+[[step]]
+kind = "temperature"
+temperature_c = 40
+equilibrate = true
+keep_redox_states_apart = false
+[[step]]
+kind = "temperature"
+temperature_c = 45
+equilibrate = true
+keep_redox_states_apart = true
+)toml", "test.toml");
+    REQUIRE(c.steps.size() == 4);
+    CHECK(c.steps[0].keep_redox_states_apart);
+    CHECK(c.steps[1].keep_redox_states_apart);
+    CHECK_FALSE(c.steps[2].keep_redox_states_apart);
+    CHECK(c.steps[3].keep_redox_states_apart);
+    // Blends and concentrate steps bring no redox level: the key is not theirs.
+    check_error(step_of("concentrate", "factor = 2\nkeep_redox_states_apart = true\n"), "step[1].keep_redox_states_apart",
+                first + 1, "'keep_redox_states_apart' does not belong to a step of kind 'concentrate'");
 }
 
 TEST_CASE("mineral tables: amount in mol, precipitate only, limits of the ranges") {
@@ -1145,16 +1177,30 @@ TEST_CASE("errors: concentrate") {
     }
     SUBCASE("neither factor nor recovery") {
         check_error(step_of("concentrate", "precipitate = [\"Calcite\"]\n"), "step[1].factor", 3,
-                    "missing: a step of kind 'concentrate' needs factor = ... (cycles of concentration, 1 or more) or "
-                    "recovery = ... (the fraction of the water removed, from 0 to below 1)");
+                    "missing: a step of kind 'concentrate' needs factor = ... (cycles of concentration, from 1 to 1000) or "
+                    "recovery = ... (the fraction of the water removed, from 0 to 0.999)");
     }
     SUBCASE("a factor below 1") {
         check_error(step_of("concentrate", "factor = 0.5\n"), "step[1].factor", first,
-                    "expected a concentration factor of 1 or more, found 0.5");
+                    "expected a concentration factor from 1 to 1000 (a recovery from 0 to 0.999), found 0.5");
+    }
+    // Evaporation and membrane plants concentrate a fresh water tens, at most a few hundred
+    // times (common practice); a factor of a million is a typing slip, not a brine.
+    SUBCASE("a factor above 1000") {
+        check_error(step_of("concentrate", "factor = 1e6\n"), "step[1].factor", first,
+                    "expected a concentration factor from 1 to 1000 (a recovery from 0 to 0.999), found 1e+06");
+        check_error(step_of("concentrate", "factor = 1e300\n"), "step[1].factor", first,
+                    "expected a concentration factor from 1 to 1000 (a recovery from 0 to 0.999), found 1e+300");
     }
     SUBCASE("a recovery of 1") {
         check_error(step_of("concentrate", "recovery = 1.0\n"), "step[1].recovery", first,
-                    "expected a recovery (the fraction of the water removed) from 0 to below 1, found 1");
+                    "expected a recovery (the fraction of the water removed) from 0 to 0.999 (a concentration factor "
+                    "from 1 to 1000), found 1");
+    }
+    SUBCASE("a recovery above 0.999") {
+        check_error(step_of("concentrate", "recovery = 0.9999\n"), "step[1].recovery", first,
+                    "expected a recovery (the fraction of the water removed) from 0 to 0.999 (a concentration factor "
+                    "from 1 to 1000), found 0.9999");
     }
     SUBCASE("precipitate not an array") {
         check_error(step_of("concentrate", "factor = 2\nprecipitate = \"Calcite\"\n"), "step[1].precipitate", first + 1,
@@ -1186,6 +1232,16 @@ TEST_CASE("errors: temperature") {
     SUBCASE("equilibrate not a boolean") {
         check_error(step_of("temperature", "temperature_c = 50\nequilibrate = \"yes\"\n"), "step[1].equilibrate",
                     first + 1, "expected true or false, found a string");
+    }
+    SUBCASE("keep_redox_states_apart without equilibrate = true") {
+        check_error(step_of("temperature", "temperature_c = 50\nkeep_redox_states_apart = true\n"),
+                    "step[1].keep_redox_states_apart", first + 1,
+                    "keep_redox_states_apart matters only with equilibrate = true: a temperature change alone already "
+                    "keeps redox states given apart as they are");
+    }
+    SUBCASE("keep_redox_states_apart not a boolean") {
+        check_error(step_of("equilibrate", "gases = { \"O2(g)\" = -0.68 }\nkeep_redox_states_apart = \"yes\"\n"),
+                    "step[1].keep_redox_states_apart", first + 1, "expected true or false, found a string");
     }
 }
 
@@ -1264,7 +1320,11 @@ TEST_CASE("errors: sweeps") {
     }
     SUBCASE("a factor below 1") {
         check_error(sweep_with("step = \"cycles\"\nvariable = \"factor\"\nfrom = 0.5\nto = 2\n"), "sweep[1].from",
-                    sw + 2, "expected a concentration factor of 1 or more, found 0.5");
+                    sw + 2, "expected a concentration factor from 1 to 1000 (a recovery from 0 to 0.999), found 0.5");
+    }
+    SUBCASE("a factor above 1000") {
+        check_error(sweep_with("step = \"cycles\"\nvariable = \"factor\"\nfrom = 1\nto = 5000\n"), "sweep[1].to",
+                    sw + 3, "expected a concentration factor from 1 to 1000 (a recovery from 0 to 0.999), found 5000");
     }
     SUBCASE("a fraction above 1") {
         check_error(sweep_with("step = \"mix\"\nvariable = \"fraction\"\nfrom = 0\nto = 1.5\n"), "sweep[1].to", sw + 3,

@@ -529,3 +529,43 @@ svg = "share.svg"
     const std::string csv = slurp(scratch() / "share.csv");
     CHECK_FALSE(has(csv, "nan"));
 }
+
+TEST_CASE("run: a concentration factor beyond 1000 is bad input (exit 2), not a failed calculation") {
+    for (const char* factor : {"1e6", "1e300"}) {
+        CAPTURE(factor);
+        const Run r = deltag("run '" +
+                             write("factor.toml", good_case + "[[step]]\nkind = \"concentrate\"\nfactor = " + factor + "\n").string() +
+                             "'");
+        CHECK(r.code == 2);
+        CHECK(has(r.err, "factor.toml:12:"));
+        CHECK(has(r.err, "step[1].factor"));
+        CHECK(has(r.err, "expected a concentration factor from 1 to 1000"));
+        CHECK(r.out.empty());
+    }
+}
+
+TEST_CASE("run: iron kept apart from the redox level by choice is reported in the JSON warnings") {
+    const Run r = deltag("run '" + write("apart.toml", R"toml(
+[water.well]
+pH = 6.9
+pe = 0.5
+units = "mg/L"
+[water.well.analytes]
+Ca = 60
+Na = 20
+Cl = 30
+Alkalinity = { value = 180, as = "CaCO3" }
+"Fe(2)" = 2.0
+"Fe(3)" = 0.2
+[[step]]
+label = "aerated, iron kept apart"
+kind = "equilibrate"
+gases = { "O2(g)" = -0.68 }
+keep_redox_states_apart = true
+)toml").string() + "' --format json");
+    REQUIRE(r.code == 0);
+    const auto doc = nlohmann::json::parse(r.out);
+    bool said = false;
+    for (const auto& w : doc["results"][1]["warnings"]) said = said || has(w.get<std::string>(), "kept apart");
+    CHECK(said);
+}

@@ -728,6 +728,22 @@ double calcite_si_of(const WaterState& w) {
 
 }  // namespace
 
+namespace {
+
+bool warns(const WaterState& w, const std::string& fragment) {
+    for (const auto& m : w.result.warnings)
+        if (m.find(fragment) != std::string::npos) return true;
+    return false;
+}
+
+const equilibrium::PhaseTransfer* transfer_of(const WaterState& w, const std::string& phase) {
+    for (const auto& t : w.result.transfers)
+        if (t.phase == phase) return &t;
+    return nullptr;
+}
+
+}  // namespace
+
 TEST_CASE("a water at calcite equilibrium has LSI 0 at any pH, with and without silicate") {
     // The property that defines pHs (Standard Methods 2330: the pH at which the water would be
     // saturated with calcite): a water that IS saturated has pHs = pH. Waters brought to
@@ -1165,4 +1181,111 @@ kind = "dose"
 reagent = "NaOH"
 until = { langelier = 0.0 }
 )toml"), doctest::Contains("the Langelier index is not available: the water has no calcium"), InputError);
+}
+
+TEST_CASE("the calcite a concentrate step let precipitate stays in contact: heating with equilibrate reaches SI 0") {
+    const Run r = run(water + R"toml(
+[[step]]
+water = "raw"
+label = "four cycles"
+kind = "concentrate"
+factor = 4
+precipitate = ["Calcite"]
+
+[[step]]
+label = "condenser"
+kind = "temperature"
+temperature_c = 38
+equilibrate = true
+)toml");
+    const WaterState& cycles = step(r, "four cycles").state;
+    const WaterState& hot = step(r, "condenser").state;
+    REQUIRE(transfer_of(cycles, "Calcite"));
+    REQUIRE(transfer_of(cycles, "Calcite")->moles < 0);  // the four cycles scale
+    // Definition of equilibrium with a solid in contact: SI = 0 (|SI| < 0.01 allows nothing
+    // but the solver's tolerance). Retrograde solubility (fact of the trade): more calcite
+    // comes out as the water warms, so the transfer is negative and is reported.
+    CHECK(std::abs(si(hot, "Calcite")) < 0.01);
+    const auto* t = transfer_of(hot, "Calcite");
+    REQUIRE(t);
+    CHECK(t->moles < 0);
+    // Conservation: calcium falls by exactly what moved.
+    check_relative(total(hot, "Ca"), total(cycles, "Ca") + t->moles, 1e-10);
+    // The CCPP of a water at calcite equilibrium is 0 (Standard Methods 2330).
+    CHECK(std::abs(hot.indices.ccpp_mg_per_l) < 0.5);
+    CHECK_FALSE(warns(hot, "no mineral or gas was in contact"));
+}
+
+TEST_CASE("heating with equilibrate when nothing is in contact warns that nothing moved") {
+    const Run r = run(water + R"toml(
+[[step]]
+water = "raw"
+label = "four cycles"
+kind = "concentrate"
+factor = 4
+
+[[step]]
+label = "condenser"
+kind = "temperature"
+temperature_c = 38
+equilibrate = true
+)toml");
+    const WaterState& hot = step(r, "condenser").state;
+    CHECK(warns(hot, "no mineral or gas was in contact with the water: nothing moved"));
+    CHECK(hot.result.transfers.empty());
+    CHECK(si(hot, "Calcite") > 0.1);  // four cycles of a hard water stay supersaturated
+}
+
+TEST_CASE("a concentration factor outside 1-1000 is bad input, also when built in code") {
+    const Run r = run(water);
+    for (double f : {1e6, 1e300, 0.5, std::nan("")}) {
+        CAPTURE(f);
+        Step s;
+        s.label = "too far";
+        s.water = "raw";
+        s.where = SourceLocation{"code", 3, 1};
+        ConcentrateStep c;
+        c.factor = f;
+        s.action = c;
+        CHECK_THROWS_WITH_AS(run_steps(core(), r.waters, {s}),
+                             doctest::Contains("expected a concentration factor from 1 to 1000"), InputError);
+    }
+}
+
+TEST_CASE("a mineral whose components are absent is left out, with a warning, by concentrate and equilibrate alike") {
+    const Run r = run(water + R"toml(
+[[step]]
+water = "raw"
+label = "cycles"
+kind = "concentrate"
+factor = 3
+precipitate = ["Barite", "Calcite"]
+
+[[step]]
+water = "raw"
+label = "settle"
+kind = "equilibrate"
+minerals = { Barite = { si = 0.0, only = "precipitate" }, Calcite = { si = 0.0, only = "precipitate" } }
+
+[[step]]
+water = "raw"
+label = "with barite"
+kind = "equilibrate"
+minerals = { Barite = 0.0 }
+)toml");
+    // The water has no barium: barite can neither be saturated nor precipitate (its ion
+    // activity product is 0), so asking for it changes nothing but is said.
+    for (const char* label : {"cycles", "settle"}) {
+        CAPTURE(label);
+        const WaterState& w = step(r, label).state;
+        CHECK(warns(w, "Barite left out: its components (Ba^2+) are absent from the water"));
+        CHECK(transfer_of(w, "Barite") == nullptr);
+        REQUIRE(transfer_of(w, "Calcite"));
+        CHECK(std::abs(si(w, "Calcite")) < 1e-8);
+    }
+    // Allowed to dissolve, barite brings its own barium: kept, at saturation (definition).
+    const WaterState& b = step(r, "with barite").state;
+    REQUIRE(transfer_of(b, "Barite"));
+    CHECK(transfer_of(b, "Barite")->moles > 0);
+    CHECK(std::abs(si(b, "Barite")) < 1e-8);
 }

@@ -76,6 +76,17 @@ struct BlendStep {
     std::vector<SourceLocation> part_where;
 };
 
+// The concentration factors a concentrate step accepts: 1 (nothing removed) to 1000 (a
+// recovery of 99.9 %). Cooling towers run at a few cycles and evaporators and brine
+// concentrators at tens to a few hundred (common practice); beyond 1000 a fresh water is a
+// brine far past the activity models, and such a factor is a slip of the pen.
+inline constexpr double min_concentration_factor = 1.0;
+inline constexpr double max_concentration_factor = 1000.0;
+// "" when the factor is within that range, otherwise what was expected and what was found.
+std::string concentration_factor_problem(double factor);
+// The same range as a recovery (the fraction of the water removed), for a recovery given.
+std::string recovery_problem(double recovery);
+
 struct ConcentrateStep {
     double factor = 1.0;             // cycles of concentration, or 1/(1 - recovery)
     std::vector<std::string> precipitate;  // minerals allowed to precipitate (to SI 0)
@@ -92,6 +103,11 @@ struct Step {
     std::string water;               // start from this water or step label; empty: the previous result
     SourceLocation where;
     SourceLocation water_where;
+    // Steps that bring the water to one redox level (equilibrate, a dose of an oxidant or a
+    // reductant, temperature with equilibrate) merge the redox states of an element given
+    // apart (Fe(2), Fe(3)) into the element's total and the water's electrons. True keeps
+    // them apart through this step; the result says so.
+    bool keep_redox_states_apart = false;
     std::variant<EquilibrateStep, DoseStep, BlendStep, ConcentrateStep, TemperatureStep> action;
 };
 

@@ -250,11 +250,11 @@ const std::vector<std::string> step_kinds = {"equilibrate", "dose", "blend", "co
 // The keys each kind of step takes. A blend has no `water`: it names its waters in `waters`.
 const std::vector<std::string>& keys_of_kind(std::string_view kind) {
     static const std::map<std::string, std::vector<std::string>, std::less<>> keys = {
-        {"equilibrate", {"kind", "label", "water", "minerals", "gases", "headspace"}},
-        {"dose", {"kind", "label", "water", "reagent", "amount", "until", "max_amount"}},
+        {"equilibrate", {"kind", "label", "water", "minerals", "gases", "headspace", "keep_redox_states_apart"}},
+        {"dose", {"kind", "label", "water", "reagent", "amount", "until", "max_amount", "keep_redox_states_apart"}},
         {"blend", {"kind", "label", "waters", "by"}},
         {"concentrate", {"kind", "label", "water", "factor", "recovery", "precipitate"}},
-        {"temperature", {"kind", "label", "water", "temperature_c", "equilibrate"}},
+        {"temperature", {"kind", "label", "water", "temperature_c", "equilibrate", "keep_redox_states_apart"}},
     };
     return keys.find(kind)->second;
 }
@@ -648,16 +648,17 @@ process::ConcentrateStep read_concentrate(tomlu::TableReader& r) {
         r.fail("recovery", "give factor or recovery, not both (factor = 1/(1 - recovery))");
     if (!factor && !recovery)
         throw InputError(r.table_location(), r.dotted("factor"),
-                         "missing: a step of kind 'concentrate' needs factor = ... (cycles of concentration, 1 "
-                         "or more) or recovery = ... (the fraction of the water removed, from 0 to below 1)");
+                         "missing: a step of kind 'concentrate' needs factor = ... (cycles of concentration, from " +
+                             message_number(process::min_concentration_factor) + " to " +
+                             message_number(process::max_concentration_factor) +
+                             ") or recovery = ... (the fraction of the water removed, from 0 to " +
+                             message_number(1.0 - 1.0 / process::max_concentration_factor) + ")");
     if (factor) {
         k.factor = *r.number("factor");
-        if (k.factor < 1.0) r.fail("factor", "expected a concentration factor of 1 or more, found " + message_number(k.factor));
+        if (const auto problem = process::concentration_factor_problem(k.factor); !problem.empty()) r.fail("factor", problem);
     } else {
         const double v = *r.number("recovery");
-        if (v < 0.0 || v >= 1.0)
-            r.fail("recovery", "expected a recovery (the fraction of the water removed) from 0 to below 1, found " +
-                                   message_number(v));
+        if (const auto problem = process::recovery_problem(v); !problem.empty()) r.fail("recovery", problem);
         k.factor = 1.0 / (1.0 - v);
     }
     if (const toml::array* minerals = r.array("precipitate")) {
@@ -734,6 +735,12 @@ process::Step read_step(const StepContext& c, std::size_t n, const toml::table& 
     else if (*kind == "blend") s.action = read_blend(c, n, r);
     else if (*kind == "concentrate") s.action = read_concentrate(r);
     else s.action = read_temperature(r);
+    // Only the kinds that bring the water to one redox level take this key (check_step_keys).
+    s.keep_redox_states_apart = r.boolean("keep_redox_states_apart").value_or(false);
+    if (r.has("keep_redox_states_apart") && *kind == "temperature" && !std::get<process::TemperatureStep>(s.action).equilibrate)
+        r.fail("keep_redox_states_apart",
+               "keep_redox_states_apart matters only with equilibrate = true: a temperature change alone already keeps "
+               "redox states given apart as they are");
     return s;
 }
 
@@ -856,7 +863,7 @@ process::Sweep read_sweep(const std::string& file, std::size_t n, const toml::ta
                 if (v < 0.0) r.fail(key, "expected a dose of zero or more in" + unit + ", found " + message_number(v));
                 break;
             case Variable::factor:
-                if (v < 1.0) r.fail(key, "expected a concentration factor of 1 or more, found " + message_number(v));
+                if (const auto problem = process::concentration_factor_problem(v); !problem.empty()) r.fail(key, problem);
                 break;
             case Variable::fraction: check_range(r, key, v, 0.0, 1.0, "a fraction"); break;
         }

@@ -18,6 +18,10 @@ namespace deltag::process {
 
 namespace {
 
+// A mineral allowed to leave the water but not to enter it. (The enum's name is the solver's;
+// it is spelled once here.)
+constexpr auto settle_only = equilibrium::MineralTarget::Direction::precipitate_only;
+
 // Kg of water per litre of a derived water: the density of pure water at its temperature,
 // less the dissolved mass (the same approximation as for a lab analysis without a density).
 double kg_water_per_litre(const equilibrium::SpeciationResult& r, const thermo::Database& db) {
@@ -65,6 +69,90 @@ std::size_t gas_index(const thermo::Database& db, const std::string& name, const
                      nearest_name(name, db.gas_names()));
 }
 
+// The element of a component, for messages (Fe for Fe^2+).
+std::string element_of(const thermo::Database& db, std::size_t component) {
+    for (const auto& [el, n] : db.species()[component].formula.elements)
+        if (el != "H" && el != "O") return el;
+    return db.species()[component].name;
+}
+
+// The electrons held by the species of an element whose redox states are apart: the e- of
+// each species' formation times its molality, over the species made of that component.
+double split_electrons(const thermo::Database& db, const equilibrium::SpeciationResult& r, std::size_t component) {
+    double e = 0.0;
+    for (const auto& sp : r.species) {
+        const auto& formation = db.species()[sp.species].formation;
+        bool of_element = false;
+        double nu_e = 0.0;
+        for (const auto& [j, v] : formation) {
+            if (j == component) of_element = true;
+            if (db.electron() && j == *db.electron()) nu_e = v;
+        }
+        if (of_element) e += nu_e * sp.molality;
+    }
+    return e;
+}
+
+std::string split_elements(const thermo::Database& db, const equilibrium::SpeciationInput& in) {
+    std::vector<std::string> names;
+    for (const auto& sp : in.redox_splits) names.push_back(element_of(db, sp.component));
+    return name_list(names);
+}
+
+// A step that brings the water to one redox level (equilibrate, an oxidant or reductant
+// dose, temperature with equilibrate) lets the redox states of an element given apart
+// (Fe(2), Fe(3)) equilibrate with it: their electrons join the water's electron total and
+// the element is one total. With keep_redox_states_apart the states stay apart. Returns
+// what the result should say ("" when the water has no states apart).
+std::string bring_to_one_redox_level(const thermo::Database& db, const Step& s, equilibrium::SpeciationInput& in) {
+    if (in.redox_splits.empty()) return "";
+    const std::string elements = split_elements(db, in);
+    if (s.keep_redox_states_apart)
+        return elements + " given by redox state kept apart by choice (keep_redox_states_apart = true): its couple keeps "
+               "an Eh of its own and does not follow the step's redox level";
+    if (!in.pe) {
+        double electrons = in.electron_total.value_or(0.0);  // no redox level: the components' states, 0
+        for (const auto& sp : in.redox_splits) electrons += sp.electron_total;
+        in.electron_total = electrons;
+    }
+    in.redox_splits.clear();
+    return elements + " given by redox state brought to the step's redox level: one electron balance for the whole "
+           "water (keep_redox_states_apart = true keeps the states apart)";
+}
+
+// Minerals that may only precipitate but need a component the water lacks, and that no
+// other phase of the step brings in, can never be saturated (their ion activity product is
+// 0): they are left out, and the returned warnings say so.
+std::vector<std::string> leave_out_absent(const thermo::Database& db, equilibrium::SpeciationInput& in) {
+    std::vector<bool> present(db.component_count(), false);
+    for (const auto& c : in.components) present[c.component] = present[c.component] || c.value > 0;
+    auto bring = [&](const thermo::Stoichiometry& st) {
+        for (const auto& [j, v] : st) present[j] = true;
+    };
+    for (const auto& m : in.minerals)
+        if (m.direction != settle_only && (!m.amount_mol_per_kgw || *m.amount_mol_per_kgw > 0))
+            bring(db.minerals()[m.mineral].dissolution);
+    for (const auto& g : in.gases) bring(db.gases()[g.gas].dissolution);
+    if (in.headspace)
+        for (const auto& g : in.headspace->gases) bring(db.gases()[g.gas].dissolution);
+    std::vector<std::string> warnings;
+    std::vector<equilibrium::MineralTarget> kept;
+    for (const auto& m : in.minerals) {
+        std::vector<std::string> absent;
+        if (m.direction == settle_only)
+            for (const auto& [j, v] : db.minerals()[m.mineral].dissolution)
+                if (db.species()[j].role == thermo::ComponentRole::ordinary && !present[j]) absent.push_back(db.species()[j].name);
+        if (absent.empty()) {
+            kept.push_back(m);
+            continue;
+        }
+        warnings.push_back(db.minerals()[m.mineral].name + " left out: its components (" + name_list(absent) +
+                           ") are absent from the water, so it cannot precipitate");
+    }
+    in.minerals = std::move(kept);
+    return warnings;
+}
+
 // Finishes a state after a solve: the new totals, the solids still in contact, the indices.
 WaterState finish(const thermo::Database& db, const std::string& label, equilibrium::SpeciationInput in,
                   equilibrium::SpeciationResult r) {
@@ -72,9 +160,16 @@ WaterState finish(const thermo::Database& db, const std::string& label, equilibr
     w.label = label;
     r.label = label;
     take_totals(db, r, in);
-    // The electrons too: a gas held at its pressure (O2 takes 4 per mole) or a redox mineral
-    // moved them.
+    // The electrons as they now stand (a gas or a solid may have brought or taken some), the
+    // water's and those of each element whose redox states are apart.
     if (in.electron_total && db.electron()) in.electron_total = r.component_totals[*db.electron()];
+    std::vector<equilibrium::SpeciationInput::RedoxSplit> splits;
+    for (const auto& sp : in.redox_splits) {
+        const bool still_there = std::any_of(in.components.begin(), in.components.end(),
+                                             [&](const auto& c) { return c.component == sp.component; });
+        if (still_there) splits.push_back({sp.component, split_electrons(db, r, sp.component)});
+    }
+    in.redox_splits = std::move(splits);
     // Solids in contact: those at their target, with what is left of a finite amount.
     for (std::size_t a = 0; a < in.minerals.size(); ++a) {
         equilibrium::MineralTarget m = in.minerals[a];
@@ -140,9 +235,13 @@ WaterState do_equilibrate(const thermo::Database& db, const Step& s, const Equil
             h.gases.push_back({gas_index(db, g.name, g.where, "headspace.gases." + g.name), g.log_partial_pressure_atm});
         in.headspace = h;
     }
+    std::vector<std::string> notes = leave_out_absent(db, in);
+    if (std::string note = bring_to_one_redox_level(db, s, in); !note.empty()) notes.push_back(note);
     try {
         equilibrium::SpeciationResult r = solve(db, in, &from.result);
-        return finish(db, s.label, in, std::move(r));
+        WaterState out = finish(db, s.label, in, std::move(r));
+        for (auto& n : notes) out.result.warnings.push_back(n);
+        return out;
     } catch (const InputError& err) {
         // The solver knows only the step's label; point at the step in the case file.
         if (err.where().line > 0) throw;
@@ -185,13 +284,27 @@ WaterState dosed(const thermo::Database& db, const Step& s, const WaterState& fr
     equilibrium::SpeciationInput in = from.basis;
     in.label = s.label;
     for (const auto& [j, k] : split.components) add_total(in, j, k * mol_per_kgw);
-    if (split.electrons != 0.0) *in.electron_total += split.electrons * mol_per_kgw;
+    if (split.electrons != 0.0) {
+        // The reagent's electrons belong to its element when that element's redox states are
+        // kept apart (ferric chloride into a water with Fe(2) and Fe(3) apart), else to the water.
+        equilibrium::SpeciationInput::RedoxSplit* own = nullptr;
+        for (auto& sp : in.redox_splits)
+            for (const auto& [j, k] : split.components)
+                if (j == sp.component) own = &sp;
+        if (own) own->electron_total += split.electrons * mol_per_kgw;
+        else *in.electron_total += split.electrons * mol_per_kgw;
+    }
     equilibrium::SpeciationResult r = solve(db, in, &from.result);
     return finish(db, s.label, in, std::move(r));
 }
 
-StepOutcome do_dose(const thermo::Database& db, const Step& s, const DoseStep& d, const WaterState& from) {
+StepOutcome do_dose(const thermo::Database& db, const Step& s, const DoseStep& d, const WaterState& original) {
     const ReagentSplit split = split_reagent(db, d.reagent, d.reagent_where);
+    // An oxidant or a reductant brings the water to one redox level.
+    WaterState start = original;
+    std::string redox_note;
+    if (split.electrons != 0.0) redox_note = bring_to_one_redox_level(db, s, start.basis);
+    const WaterState& from = start;
     if (split.electrons != 0.0 && !from.basis.electron_total)
         throw InputError(d.reagent_where, "reagent",
                          "'" + d.reagent + "' is " + (split.electrons < 0 ? "an oxidant" : "a reductant") +
@@ -257,6 +370,10 @@ StepOutcome do_dose(const thermo::Database& db, const Step& s, const DoseStep& d
     }
     dose.mg_per_l = dose.mol_per_kgw * split.molar_mass_g * 1000.0 * from.result.kg_water_per_litre;
     out.dose = dose;
+    if (!redox_note.empty()) out.state.result.warnings.push_back(redox_note);
+    // Solids and gases in contact stay in contact (a dose does not equilibrate with them).
+    out.state.minerals = from.minerals;
+    out.state.gases = from.gases;
     out.state.result.warnings.push_back(
         "dosing: acids, bases and oxidants are hazardous to handle; treatment of drinking water follows local "
         "regulations and licensed practice");
@@ -298,30 +415,76 @@ WaterState do_blend(const thermo::Database& db, const Step& s, const BlendStep& 
             electrons += f * *pb.electron_total;
         }
     }
+    // Redox states apart mix as electron totals when every part that holds the element keeps
+    // them apart; when one part holds it at the water's redox level, the states cannot stay
+    // apart in the blend: they join the water's electrons, and the result says so.
+    in.redox_splits.clear();
+    std::string merged;
+    std::vector<std::size_t> split_components;
+    for (const auto* part : parts)
+        for (const auto& sp : part->basis.redox_splits)
+            if (std::find(split_components.begin(), split_components.end(), sp.component) == split_components.end())
+                split_components.push_back(sp.component);
+    for (std::size_t comp : split_components) {
+        bool apart_everywhere = true;
+        double split_e = 0.0;
+        for (std::size_t k = 0; k < parts.size(); ++k) {
+            const auto& pb = parts[k]->basis;
+            const auto sp = std::find_if(pb.redox_splits.begin(), pb.redox_splits.end(),
+                                         [&](const auto& x) { return x.component == comp; });
+            const bool holds = std::any_of(pb.components.begin(), pb.components.end(),
+                                           [&](const auto& c) { return c.component == comp && c.value > 0; });
+            if (sp != pb.redox_splits.end()) split_e += w[k] / sum * sp->electron_total;
+            else if (holds) apart_everywhere = false;
+        }
+        if (apart_everywhere) {
+            in.redox_splits.push_back({comp, split_e});
+        } else {
+            any_redox = true;
+            electrons += split_e;
+            merged += (merged.empty() ? "" : ", ") + element_of(db, comp);
+        }
+    }
     in.pe.reset();
     in.electron_total.reset();
     if (any_redox) in.electron_total = electrons;
     equilibrium::SpeciationResult r = solve(db, in, &parts.front()->result);
-    return finish(db, s.label, in, std::move(r));
+    WaterState out = finish(db, s.label, in, std::move(r));
+    if (!merged.empty())
+        out.result.warnings.push_back(merged + " given by redox state in one water and at the redox level of another: "
+                                      "in the blend its states follow one electron balance");
+    return out;
 }
 
 WaterState do_concentrate(const thermo::Database& db, const Step& s, const ConcentrateStep& c, const WaterState& from) {
+    if (const std::string problem = concentration_factor_problem(c.factor); !problem.empty())
+        throw InputError(s.where, "factor", problem);
     equilibrium::SpeciationInput in = from.basis;
     in.label = s.label;
     for (auto& comp : in.components) comp.value *= c.factor;
     in.charge_imbalance_eq *= c.factor;
     if (in.electron_total) *in.electron_total *= c.factor;
+    for (auto& sp : in.redox_splits) sp.electron_total *= c.factor;
     in.minerals.clear();
     in.gases.clear();
     for (std::size_t k = 0; k < c.precipitate.size(); ++k) {
         const SourceLocation at = k < c.precipitate_where.size() ? c.precipitate_where[k] : s.where;
         in.minerals.push_back({mineral_index(db, c.precipitate[k], at, "precipitate"), 0.0, std::nullopt,
-                               equilibrium::MineralTarget::Direction::precipitate_only});
+                               settle_only});
     }
+    const std::vector<std::string> notes = leave_out_absent(db, in);
+    const std::vector<equilibrium::MineralTarget> allowed = in.minerals;
     equilibrium::SpeciationResult r = solve(db, in, &from.result);
     WaterState out = finish(db, s.label, in, std::move(r));
-    // Precipitated solids are not carried as being in contact with the next step.
+    for (const auto& n : notes) out.result.warnings.push_back(n);
+    // The solids the step let precipitate stay in contact with the water: a later step that
+    // equilibrates (temperature with equilibrate = true) may precipitate more of them, or
+    // dissolve back what precipitated here, but no more.
     out.minerals.clear();
+    for (std::size_t a = 0; a < allowed.size(); ++a) {
+        const double formed = std::max(0.0, -out.result.transfers[a].moles);
+        out.minerals.push_back({allowed[a].mineral, 0.0, formed, equilibrium::MineralTarget::Direction::both});
+    }
     return out;
 }
 
@@ -331,14 +494,22 @@ WaterState do_temperature(const thermo::Database& db, const Step& s, const Tempe
     in.temperature_c = t.temperature_c;
     in.minerals.clear();
     in.gases.clear();
+    std::string redox_note;
     if (t.equilibrate) {
         in.minerals = from.minerals;
         in.gases = from.gases;
+        redox_note = bring_to_one_redox_level(db, s, in);
     }
     equilibrium::SpeciationResult r = solve(db, in, &from.result);
     WaterState out = finish(db, s.label, in, std::move(r));
+    if (!t.equilibrate) {
+        // Nothing equilibrates, but what was in contact stays in contact.
+        out.minerals = from.minerals;
+        out.gases = from.gases;
+    }
+    if (!redox_note.empty()) out.result.warnings.push_back(redox_note);
     if (t.equilibrate && from.minerals.empty() && from.gases.empty())
-        out.result.warnings.push_back("equilibrate = true, but no mineral or gas was in contact with the water");
+        out.result.warnings.push_back("equilibrate = true, but no mineral or gas was in contact with the water: nothing moved");
     return out;
 }
 
@@ -352,6 +523,22 @@ const WaterState& find_state(const std::map<std::string, WaterState>& known, con
 }
 
 }  // namespace
+
+std::string concentration_factor_problem(double factor) {
+    // A recovery of exactly 0.999 gives 1/(1 - 0.999), a hair above 1000 in binary: allowed.
+    if (factor >= min_concentration_factor && factor <= max_concentration_factor * (1.0 + 1e-12)) return "";
+    return "expected a concentration factor from " + message_number(min_concentration_factor) + " to " +
+           message_number(max_concentration_factor) + " (a recovery from 0 to " +
+           message_number(1.0 - 1.0 / max_concentration_factor) + "), found " + message_number(factor);
+}
+
+std::string recovery_problem(double recovery) {
+    const double max_recovery = 1.0 - 1.0 / max_concentration_factor;
+    if (recovery >= 0.0 && recovery <= max_recovery) return "";
+    return "expected a recovery (the fraction of the water removed) from 0 to " + message_number(max_recovery) +
+           " (a concentration factor from " + message_number(min_concentration_factor) + " to " +
+           message_number(max_concentration_factor) + "), found " + message_number(recovery);
+}
 
 std::string_view step_kind(const Step& s) {
     switch (s.action.index()) {
