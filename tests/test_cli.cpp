@@ -473,3 +473,54 @@ points = ["a"]
     CHECK(bad.code == 2);
     CHECK(has(bad.err, "has no redox level"));
 }
+
+// ---- Paths the system refuses, and directories.
+
+namespace {
+
+// A path longer than the system allows (PATH_MAX is 4096 on Linux).
+std::string too_long_path() {
+    std::string p = "/tmp";
+    while (p.size() < 5000) p += "/a-directory-name-of-some-length";
+    return p + "/core.toml";
+}
+
+}  // namespace
+
+TEST_CASE("a database path longer than the system allows exits 2 naming the file and the key") {
+    // In the case file: the message points at the case's 'database' key (line 1).
+    const fs::path p = write("longdb.toml", "database = \"" + too_long_path() + "\"\n[water.a]\npH = 7\n");
+    const Run r = deltag("run '" + p.string() + "'");
+    CHECK(r.code == 2);
+    CHECK(r.out.empty());
+    CHECK(has(r.err, p.string() + ":1"));
+    CHECK(has(r.err, "'database': no database file at"));
+    CHECK(has(r.err, "File name too long"));
+    // On the command line.
+    const Run c = deltag("run '" + write("good.toml", good_case).string() + "' --database '" + too_long_path() + "'");
+    CHECK(c.code == 2);
+    CHECK(c.out.empty());
+    CHECK(has(c.err, "command line: 'database': no database file at"));
+    CHECK(has(c.err, "File name too long"));
+    // database check and database show take a path too.
+    const Run k = deltag("database check '" + too_long_path() + "'");
+    CHECK(k.code == 2);
+    CHECK(has(k.err, "no database file here (File name too long)"));
+    const Run s = deltag("database show Calcite --database '" + too_long_path() + "'");
+    CHECK(s.code == 2);
+    CHECK(has(s.err, "File name too long"));
+}
+
+TEST_CASE("a directory given as the case file is named as a directory") {
+    const Run r = deltag("run '" + scratch().string() + "'");
+    CHECK(r.code == 2);
+    CHECK(r.out.empty());
+    CHECK(has(r.err, scratch().string() + ": this is a directory, not a case file"));
+    CHECK(!has(r.err, "at least one water"));
+}
+
+TEST_CASE("a case file path longer than the system allows exits 2") {
+    const Run r = deltag("run '" + too_long_path() + "'");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, "cannot open the case file: File name too long"));
+}

@@ -41,8 +41,13 @@ Loaded load_database(const std::string& path_or_core, const SourceLocation& wher
         l.db = &thermo::Database::embedded();
         l.name = "core (embedded)";
     } else {
-        if (!fs::exists(path_or_core))
-            throw InputError(where, "database", "no database file at '" + path_or_core + "'; expected \"core\" or a path");
+        // With an error code: a path the system refuses (too long, a file where a directory
+        // should be) is bad input like a missing file, not an exception from the library.
+        std::error_code ec;
+        if (!fs::exists(path_or_core, ec))
+            throw InputError(where, "database",
+                             "no database file at '" + path_or_core + "'" + (ec ? " (" + ec.message() + ")" : std::string()) +
+                                 "; expected \"core\" or a path");
         l.owned = std::make_unique<thermo::Database>(thermo::Database::load_file(path_or_core));
         l.db = l.owned.get();
         l.name = path_or_core;
@@ -319,7 +324,9 @@ int cmd_database_check(const std::string& path) {
     if (path.empty()) {
         db = &thermo::Database::embedded();
     } else {
-        if (!fs::exists(path)) throw InputError(SourceLocation{path, 0, 0}, "", "no database file here");
+        std::error_code ec;
+        if (!fs::exists(path, ec))
+            throw InputError(SourceLocation{path, 0, 0}, "", "no database file here" + (ec ? " (" + ec.message() + ")" : std::string()));
         owned = std::make_unique<thermo::Database>(thermo::Database::load_file(path));
         db = owned.get();
     }
