@@ -21,8 +21,18 @@ using deltag::io::write_files_atomically;
 
 namespace {
 
+fs::path scratch_root() { return fs::temp_directory_path() / ("deltag-output-test-" + std::to_string(::getpid())); }
+
+// Removes the scratch directory when the test program ends.
+const struct RemoveScratch {
+    ~RemoveScratch() {
+        std::error_code ec;
+        fs::remove_all(scratch_root(), ec);
+    }
+} remove_scratch;
+
 fs::path fresh_dir(const std::string& name) {
-    const fs::path d = fs::temp_directory_path() / ("deltag-output-test-" + std::to_string(::getpid())) / name;
+    const fs::path d = scratch_root() / name;
     fs::remove_all(d);
     fs::create_directories(d);
     return d;
