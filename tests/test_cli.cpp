@@ -569,3 +569,141 @@ keep_redox_states_apart = true
     for (const auto& w : doc["results"][1]["warnings"]) said = said || has(w.get<std::string>(), "kept apart");
     CHECK(said);
 }
+
+// ---- Paths the system refuses, directories, and files written all together or not at all.
+
+namespace {
+
+// A path longer than the system allows (PATH_MAX is 4096 on Linux).
+std::string too_long_path() {
+    std::string p = "/tmp";
+    while (p.size() < 5000) p += "/a-directory-name-of-some-length";
+    return p + "/core.toml";
+}
+
+// Names in the scratch directory that look like left-over temporary files.
+int temp_files_left() {
+    int n = 0;
+    for (const auto& e : fs::directory_iterator(scratch()))
+        if (has(e.path().filename().string(), "deltag-tmp")) ++n;
+    return n;
+}
+
+// The deltag command run by the shell after `prefix` (e.g. a file-size limit).
+Run deltag_after(const std::string& prefix, const std::string& args) {
+    const fs::path out = scratch() / "stdout.txt", err = scratch() / "stderr.txt";
+    const std::string cmd = prefix + "; '" + DELTAG_BINARY + "' " + args + " >'" + out.string() + "' 2>'" + err.string() + "'";
+    const int status = std::system(cmd.c_str());
+    Run r;
+    r.code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+    r.out = slurp(out);
+    r.err = slurp(err);
+    return r;
+}
+
+}  // namespace
+
+TEST_CASE("a database path longer than the system allows exits 2 naming the file and the key") {
+    // In the case file: the message points at the case's 'database' key (line 1).
+    const fs::path p = write("longdb.toml", "database = \"" + too_long_path() + "\"\n[water.a]\npH = 7\n");
+    const Run r = deltag("run '" + p.string() + "'");
+    CHECK(r.code == 2);
+    CHECK(r.out.empty());
+    CHECK(has(r.err, p.string() + ":1"));
+    CHECK(has(r.err, "'database': no database file at"));
+    CHECK(has(r.err, "File name too long"));
+    // On the command line.
+    const Run c = deltag("run '" + write("good.toml", good_case).string() + "' --database '" + too_long_path() + "'");
+    CHECK(c.code == 2);
+    CHECK(c.out.empty());
+    CHECK(has(c.err, "command line: 'database': no database file at"));
+    CHECK(has(c.err, "File name too long"));
+    // database check and database show take a path too.
+    const Run k = deltag("database check '" + too_long_path() + "'");
+    CHECK(k.code == 2);
+    CHECK(has(k.err, "no database file here (File name too long)"));
+    const Run s = deltag("database show Calcite --database '" + too_long_path() + "'");
+    CHECK(s.code == 2);
+    CHECK(has(s.err, "File name too long"));
+}
+
+TEST_CASE("a directory given as the case file is named as a directory") {
+    const Run r = deltag("run '" + scratch().string() + "'");
+    CHECK(r.code == 2);
+    CHECK(r.out.empty());
+    CHECK(has(r.err, scratch().string() + ": this is a directory, not a case file"));
+    CHECK(!has(r.err, "at least one water"));
+}
+
+TEST_CASE("a case file path longer than the system allows exits 2") {
+    const Run r = deltag("run '" + too_long_path() + "'");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, "cannot open the case file: File name too long"));
+}
+
+TEST_CASE("a run whose second output file cannot be written leaves the first untouched and creates none") {
+    const std::string sweep = R"toml(
+[[step]]
+label = "concentrated"
+kind = "concentrate"
+factor = 2
+
+[[sweep]]
+step = "concentrated"
+variable = "factor"
+from = 1
+to = 3
+points = 3
+outputs = ["si:Calcite"]
+csv = "atomic-first.csv"
+)toml";
+    // The svg of the sweep goes to a directory that does not exist.
+    const fs::path p = write("atomic.toml", good_case + sweep + "svg = \"no-such-dir/atomic.svg\"\n");
+    fs::remove(scratch() / "atomic-first.csv");
+    const fs::path report = scratch() / "atomic-report.json";
+    std::ofstream(report) << "an earlier report\n";
+    const Run r = deltag("run '" + p.string() + "' --format json --output '" + report.string() + "'");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, "'sweep[1].svg': cannot write to this file"));
+    CHECK(!fs::exists(scratch() / "atomic-first.csv"));
+    CHECK(slurp(report) == "an earlier report\n");
+    // An existing first file keeps its content too.
+    std::ofstream(scratch() / "atomic-first.csv") << "an earlier sweep\n";
+    CHECK(deltag("run '" + p.string() + "'").code == 2);
+    CHECK(slurp(scratch() / "atomic-first.csv") == "an earlier sweep\n");
+    CHECK(temp_files_left() == 0);
+    // With the directory there, all three files are written.
+    fs::create_directories(scratch() / "no-such-dir");
+    const Run ok = deltag("run '" + p.string() + "' --format json --output '" + report.string() + "'");
+    CHECK(ok.code == 0);
+    CHECK(slurp(scratch() / "atomic-first.csv").rfind("concentration factor", 0) == 0);
+    CHECK(slurp(scratch() / "no-such-dir" / "atomic.svg").rfind("<svg", 0) == 0);
+    CHECK(nlohmann::json::parse(slurp(report))["results"].size() == 2);
+    fs::remove_all(scratch() / "no-such-dir");
+}
+
+TEST_CASE("an --output write that fails half way leaves the earlier file intact and no temporary file") {
+    // A file-size limit of 2 blocks (1 KiB in dash, 2 KiB in bash) is far below the JSON
+    // report; the signal that would end the process is ignored so the write fails (EFBIG).
+    const fs::path report = scratch() / "half-report.json";
+    std::ofstream(report) << "an earlier report\n";
+    const Run r = deltag_after("trap '' XFSZ; ulimit -f 2",
+                               "run '" + write("good.toml", good_case).string() + "' --format json --output '" + report.string() + "'");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, "writing failed: File too large"));
+    CHECK(slurp(report) == "an earlier report\n");
+    CHECK(temp_files_left() == 0);
+}
+
+TEST_CASE("a failed calculation leaves an existing --output file as it was") {
+    const fs::path report = scratch() / "unchanged-report.txt";
+    std::ofstream(report) << "an earlier report\n";
+    const fs::path p = write("unreach2.toml", good_case + R"toml(
+[[step]]
+kind = "dose"
+reagent = "NaOH"
+until = { pH = 5.0 }
+)toml");
+    CHECK(deltag("run '" + p.string() + "' --output '" + report.string() + "'").code == 2);
+    CHECK(slurp(report) == "an earlier report\n");
+}

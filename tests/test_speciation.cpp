@@ -68,7 +68,8 @@ TEST_CASE("pure water: Kw at 0, 50 and 100 degC within 0.02 of Bandura & Lvov (2
     // pKw 14.946, 13.264, 12.252 (Bandura & Lvov 2006, J. Phys. Chem. Ref. Data 35, 15;
     // values from memory, check-values.md). In pure water a(H+) a(OH-) = Kw (a_w ~ 1).
     const double published[][2] = {{0.0, 14.946}, {50.0, 13.264}, {100.0, 12.252}};
-    for (const auto& [t, pkw] : published) {
+    for (const auto& row : published) {
+        const double t = row[0], pkw = row[1];  // not a structured binding: clang 14 cannot CAPTURE one
         SpeciationInput in;
         in.temperature_c = t;
         const SpeciationResult r = speciate(core(), in);

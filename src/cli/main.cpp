@@ -6,7 +6,6 @@
 #include <algorithm>
 #include <cmath>
 #include <filesystem>
-#include <fstream>
 #include <iostream>
 #include <memory>
 
@@ -16,6 +15,7 @@
 #include "deltag/diagram.hpp"
 #include "deltag/diagram_io.hpp"
 #include "deltag/electro.hpp"
+#include "deltag/output_files.hpp"
 #include "deltag/process.hpp"
 #include "deltag/report.hpp"
 #include "deltag/speciation.hpp"
@@ -41,8 +41,13 @@ Loaded load_database(const std::string& path_or_core, const SourceLocation& wher
         l.db = &thermo::Database::embedded();
         l.name = "core (embedded)";
     } else {
-        if (!fs::exists(path_or_core))
-            throw InputError(where, "database", "no database file at '" + path_or_core + "'; expected \"core\" or a path");
+        // With an error code: a path the system refuses (too long, a file where a directory
+        // should be) is bad input like a missing file, not an exception from the library.
+        std::error_code ec;
+        if (!fs::exists(path_or_core, ec))
+            throw InputError(where, "database",
+                             "no database file at '" + path_or_core + "'" + (ec ? " (" + ec.message() + ")" : std::string()) +
+                                 "; expected \"core\" or a path");
         l.owned = std::make_unique<thermo::Database>(thermo::Database::load_file(path_or_core));
         l.db = l.owned.get();
         l.name = path_or_core;
@@ -51,19 +56,6 @@ Loaded load_database(const std::string& path_or_core, const SourceLocation& wher
         if (f.level == thermo::LintFinding::Level::error)
             throw InputError(f.where, f.key, f.message + " (run 'deltag database check' for the full list)");
     return l;
-}
-
-void write_output(const std::string& text, const std::string& path, const std::string& key = "--output") {
-    if (path.empty()) {
-        std::cout << text;
-        std::cout.flush();
-        return;
-    }
-    std::ofstream out(path, std::ios::binary);
-    if (!out) throw InputError(SourceLocation{path, 0, 0}, key, "cannot write to this file");
-    out << text;
-    out.flush();
-    if (!out) throw InputError(SourceLocation{path, 0, 0}, key, "writing failed");
 }
 
 // A case computed: its database, the speciated waters and the steps.
@@ -155,7 +147,7 @@ int cmd_run(const std::string& case_path, const std::string& format, const std::
     for (const auto& w : k.waters) items.push_back(io::ReportItem{"water", w.result, w.indices, std::nullopt});
     for (const auto& o : k.steps) items.push_back(io::ReportItem{o.kind, o.state.result, o.state.indices, o.dose});
     std::vector<io::SweepReport> sweeps;
-    std::vector<std::pair<std::string, std::string>> files;  // path, content
+    std::vector<io::OutputFile> files;
     const fs::path case_dir = fs::path(case_path).parent_path();
     const std::string stem = fs::path(case_path).stem().string();
     // A path given in the case is relative to the case file; without one, files go to the
@@ -165,18 +157,21 @@ int cmd_run(const std::string& case_path, const std::string& format, const std::
         const fs::path p(given);
         return (p.is_relative() ? case_dir / p : p).string();
     };
-    for (const auto& sw : c.sweeps) {
+    for (std::size_t i = 0; i < c.sweeps.size(); ++i) {
+        const process::Sweep& sw = c.sweeps[i];
         io::SweepReport rep{process::run_sweep(db, k.waters, c.steps, sw), "", ""};
         rep.csv_path = place(sw.csv_path, sw.label, ".csv");
         rep.svg_path = place(sw.svg_path, sw.label, ".svg");
-        files.emplace_back(rep.csv_path, io::sweep_csv(rep.sweep));
-        files.emplace_back(rep.svg_path, io::sweep_svg(rep.sweep, (c.title.empty() ? stem : c.title) + ": " + sw.label));
+        const std::string key = "sweep[" + std::to_string(i + 1) + "].";
+        files.push_back({rep.csv_path, io::sweep_csv(rep.sweep), key + "csv"});
+        files.push_back({rep.svg_path, io::sweep_svg(rep.sweep, (c.title.empty() ? stem : c.title) + ": " + sw.label), key + "svg"});
         sweeps.push_back(std::move(rep));
     }
     std::vector<electro::CellResult> cells;
     for (const auto& spec : c.cells) cells.push_back(run_cell(k, spec));
     std::vector<io::DiagramReport> diagrams;
-    for (const auto& d : c.diagrams) {
+    for (std::size_t di = 0; di < c.diagrams.size(); ++di) {
+        const io::DiagramCase& d = c.diagrams[di];
         electro::DiagramSpec spec;
         spec.label = d.label;
         spec.element = d.element;
@@ -206,8 +201,9 @@ int cmd_run(const std::string& case_path, const std::string& format, const std::
         }
         const electro::DiagramResult result = electro::eh_ph_diagram(db, spec);
         io::DiagramReport rep{d.label, place(d.svg_path, d.label, ".svg"), place(d.csv_path, d.label, ".csv"), result.warnings};
-        files.emplace_back(rep.svg_path, io::diagram_svg(result));
-        files.emplace_back(rep.csv_path, io::diagram_csv(result));
+        const std::string key = "diagram[" + std::to_string(di + 1) + "].";
+        files.push_back({rep.svg_path, io::diagram_svg(result), key + "svg"});
+        files.push_back({rep.csv_path, io::diagram_csv(result), key + "csv"});
         diagrams.push_back(std::move(rep));
     }
     io::ReportContext ctx{c.title, case_path, k.l.name, DELTAG_VERSION, verbose};
@@ -215,8 +211,14 @@ int cmd_run(const std::string& case_path, const std::string& format, const std::
     if (format == "text") text = io::text_report(db, ctx, items, sweeps, cells, diagrams);
     else if (format == "json") text = io::json_report(db, ctx, items, sweeps, cells, diagrams);
     else if (format == "csv") text = io::csv_report(db, ctx, items);
-    for (const auto& [path, content] : files) write_output(content, path, "output file");
-    write_output(text, output);
+    // Every file, the report's included, goes to a temporary name first and replaces its
+    // target only when all were written: a failure leaves the existing files as they were.
+    if (!output.empty()) files.push_back({output, std::move(text), "--output"});
+    io::write_files_atomically(files);
+    if (output.empty()) {
+        std::cout << text;
+        std::cout.flush();
+    }
     return exit_ok;
 }
 
@@ -320,7 +322,9 @@ int cmd_database_check(const std::string& path) {
     if (path.empty()) {
         db = &thermo::Database::embedded();
     } else {
-        if (!fs::exists(path)) throw InputError(SourceLocation{path, 0, 0}, "", "no database file here");
+        std::error_code ec;
+        if (!fs::exists(path, ec))
+            throw InputError(SourceLocation{path, 0, 0}, "", "no database file here" + (ec ? " (" + ec.message() + ")" : std::string()));
         owned = std::make_unique<thermo::Database>(thermo::Database::load_file(path));
         db = owned.get();
     }

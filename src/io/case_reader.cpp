@@ -30,6 +30,7 @@
 #include <cerrno>
 #include <cmath>
 #include <cstring>
+#include <filesystem>
 #include <fstream>
 #include <map>
 #include <sstream>
@@ -1265,6 +1266,11 @@ Case parse_case(std::string_view toml_text, const std::string& origin) {
 }
 
 Case read_case(const std::string& path) {
+    // A directory opens as a stream that reads nothing: say what it is rather than report
+    // an empty case.
+    std::error_code dir_ec;
+    if (std::filesystem::is_directory(path, dir_ec))
+        throw InputError(SourceLocation{path}, "", "this is a directory, not a case file: give the path of a .toml file");
     std::ifstream in(path, std::ios::binary);
     if (!in) {
         const int err = errno;
