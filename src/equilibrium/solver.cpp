@@ -39,6 +39,7 @@ struct PhaseUnknown {
     Eigen::RowVectorXd nu;   // dissolution coefficients over the system's columns
     double log_k = 0.0;      // of the dissolution in components, at the temperature
     double target = 0.0;     // SI or log10 p
+    double alkalinity = 0.0; // equivalents one mole brings (PhaseEntry::alkalinity)
     int unknown = -1;
 };
 
@@ -47,6 +48,7 @@ struct ClosedGas {
     Eigen::RowVectorXd nu;
     double log_k = 0.0;
     double mol_per_atm = 0.0;  // V / (R T)
+    double alkalinity = 0.0;   // equivalents one mole brings (PhaseEntry::alkalinity)
 };
 
 struct Problem {
@@ -602,10 +604,10 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
     double extra_alk = 0.0;
     for (const auto& ms : minerals) {
         if (ms.status == MineralState::Status::at_target || ms.xi == 0.0) continue;
-        for (const auto& [j, v] : db.minerals()[ms.spec.mineral].dissolution) {
-            extra[j] += v * ms.xi;
-            extra_alk += v * ms.xi * db.species()[j].alkalinity;
-        }
+        for (const auto& [j, v] : db.minerals()[ms.spec.mineral].dissolution) extra[j] += v * ms.xi;
+        // The phase's own count (a redox phase brings other than its components' sum:
+        // ferrihydrite +1, not the +3 of Fe^2+ + e- - 3 H+ ...).
+        extra_alk += ms.xi * db.minerals()[ms.spec.mineral].alkalinity;
     }
     // The gas a closed headspace holds at the start belongs to the totals.
     if (input.headspace) {
@@ -613,10 +615,8 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
         const double mol_per_atm = input.headspace->volume_l_per_kgw / (constants::gas_constant / 101325.0 * 1000.0 * t_k);
         for (const auto& g : input.headspace->gases) {
             const double n0 = mol_per_atm * std::pow(10.0, g.log_partial_pressure_atm);
-            for (const auto& [j, v] : db.gases()[g.gas].dissolution) {
-                extra[j] += v * n0;
-                extra_alk += v * n0 * db.species()[j].alkalinity;
-            }
+            for (const auto& [j, v] : db.gases()[g.gas].dissolution) extra[j] += v * n0;
+            extra_alk += n0 * db.gases()[g.gas].alkalinity;
         }
     }
 
@@ -688,6 +688,7 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
         pu.nu = phase_row(ph);
         pu.log_k = ph.log_k(input.temperature_c);
         pu.target = target;
+        pu.alkalinity = ph.alkalinity;
         pu.unknown = add_special(Equation::phase);
         p.phase_of_unknown.back() = static_cast<int>(p.phases.size());
         p.phases.push_back(pu);
@@ -706,6 +707,7 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
             cg.nu = phase_row(db.gases()[g.gas]);
             cg.log_k = db.gases()[g.gas].log_k(input.temperature_c);
             cg.mol_per_atm = input.headspace->volume_l_per_kgw / (r_l_atm * t_k);
+            cg.alkalinity = db.gases()[g.gas].alkalinity;
             p.closed.push_back(cg);
         }
     }
@@ -734,7 +736,7 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
             if (p.equation[e] == Equation::mass)
                 p.closed_weight(r, static_cast<Index>(q)) = p.closed[q].nu(p.column_of_unknown[e]) / p.scale[e];
             else if (p.equation[e] == Equation::alkalinity)
-                p.closed_weight(r, static_cast<Index>(q)) = p.closed[q].nu.dot(sys.alkalinity_of_columns) / p.scale[e];
+                p.closed_weight(r, static_cast<Index>(q)) = p.closed[q].alkalinity / p.scale[e];
         }
     // A phase amount xi adds nu * xi to the totals: residual (sum - T - nu xi)/scale.
     for (const auto& ph : p.phases) {
@@ -743,7 +745,7 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
             if (p.equation[e] == Equation::mass)
                 p.coupling(r, ph.unknown) = -ph.nu(p.column_of_unknown[e]) / p.scale[e];
             else if (p.equation[e] == Equation::alkalinity)
-                p.coupling(r, ph.unknown) = -ph.nu.dot(sys.alkalinity_of_columns) / p.scale[e];
+                p.coupling(r, ph.unknown) = -ph.alkalinity / p.scale[e];
         }
     }
     p.log_m.resize(ns);

@@ -131,9 +131,6 @@ ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& i
         p.salting_out = s.salting_out;
         sys.params.push_back(p);
     }
-    sys.alkalinity_of_columns.resize(static_cast<Eigen::Index>(ncol));
-    for (std::size_t c = 0; c < ncol; ++c)
-        sys.alkalinity_of_columns(static_cast<Eigen::Index>(c)) = db.species()[sys.columns[c].component].alkalinity;
     sys.model = activity::make_model(input.activity_model, input.temperature_c);
 
     if (!redox_left_out.empty())

@@ -41,7 +41,6 @@ struct ChemicalSystem {
     Eigen::VectorXd log_k;                   // formation log K at the temperature
     Eigen::VectorXd charge;
     Eigen::VectorXd alkalinity;
-    Eigen::VectorXd alkalinity_of_columns;   // per column: the component's alkalinity
     std::vector<activity::SpeciesParameters> params;
     std::unique_ptr<activity::ActivityModel> model;
     std::vector<std::string> warnings;       // from the build (T ranges, redox species left out)
