@@ -569,7 +569,7 @@ svg = "cycles.svg"
     CHECK(e.minerals[1].target_si == 0.5);
     REQUIRE(e.minerals[1].amount_mol_per_kgw.has_value());
     CHECK(*e.minerals[1].amount_mol_per_kgw == doctest::Approx(2.0e-3));  // mmol -> mol
-    CHECK(e.minerals[1].direction == Direction::dissolve_only);
+    CHECK(e.minerals[1].direction == Direction::dissolution);
     CHECK(e.minerals[1].where.line == 14);
     CHECK(e.minerals[1].where.column == 29);
     CHECK(e.gases.at(0).where.line == 15);
@@ -727,7 +727,7 @@ gases = { "CO2(g)" = 2, "O2(g)" = -20 }
     CHECK(*e.minerals[0].amount_mol_per_kgw == 0.001);
     CHECK(e.minerals[0].direction == Direction::both);
     CHECK(e.minerals[1].target_si == -20.0);
-    CHECK(e.minerals[1].direction == Direction::precipitate_only);
+    CHECK(e.minerals[1].direction == Direction::precipitation);
     CHECK_FALSE(e.minerals[1].amount_mol_per_kgw.has_value());
     CHECK(e.minerals[2].target_si == 20.0);
     CHECK(*e.minerals[3].amount_mol_per_kgw == 0.0);

@@ -125,7 +125,7 @@ TEST_CASE("precipitation only: a supersaturated water loses calcite, an undersat
     for (std::size_t j = 0; j < core().component_count(); ++j)
         if (analysed.component_present[j] && core().species()[j].role == thermo::ComponentRole::ordinary)
             step.components.push_back(ComponentInput{j, ComponentInput::Kind::total, analysed.component_totals[j]});
-    step.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt, MineralTarget::Direction::precipitate_only}};
+    step.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt, MineralTarget::Direction::precipitation}};
     const SpeciationResult after = speciate(core(), step);
     CHECK(transfer(after, "Calcite").moles < 0);
     CHECK(std::abs(si(after, "Calcite")) < 1e-9);
@@ -136,7 +136,7 @@ TEST_CASE("precipitation only: a supersaturated water loses calcite, an undersat
     CHECK(after.element_totals.at("Cl") == doctest::Approx(analysed.element_totals.at("Cl")).epsilon(1e-12));
 
     // The same mineral may only dissolve: nothing happens to a supersaturated water.
-    step.minerals[0].direction = MineralTarget::Direction::dissolve_only;
+    step.minerals[0].direction = MineralTarget::Direction::dissolution;
     const SpeciationResult held = speciate(core(), step);
     CHECK(transfer(held, "Calcite").blocked);
     CHECK(transfer(held, "Calcite").moles == 0.0);

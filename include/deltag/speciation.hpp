@@ -48,7 +48,8 @@ struct ComponentInput {
 
 // A mineral held at a saturation index while it dissolves or precipitates.
 struct MineralTarget {
-    enum class Direction { both, dissolve_only, precipitate_only };
+    // The way it may move: both, dissolution only, precipitation only.
+    enum class Direction { both, dissolution, precipitation };
     std::size_t mineral = 0;                 // index into Database::minerals()
     double target_si = 0.0;
     std::optional<double> amount_mol_per_kgw;  // solid available to dissolve; absent: unlimited

@@ -1226,7 +1226,7 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
         MineralState ms;
         ms.spec = m;
         // A mineral that cannot dissolve (no solid) and may not precipitate is inert.
-        if (m.amount_mol_per_kgw && *m.amount_mol_per_kgw == 0.0 && m.direction == MineralTarget::Direction::dissolve_only)
+        if (m.amount_mol_per_kgw && *m.amount_mol_per_kgw == 0.0 && m.direction == MineralTarget::Direction::dissolution)
             ms.status = MineralState::Status::blocked;
         minerals.push_back(ms);
     }
@@ -1300,8 +1300,8 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
                 ms.status = MineralState::Status::exhausted;
                 ms.xi = *ms.spec.amount_mol_per_kgw;
                 released = true;
-            } else if ((dir == MineralTarget::Direction::dissolve_only && xi < 0) ||
-                       (dir == MineralTarget::Direction::precipitate_only && xi > 0)) {
+            } else if ((dir == MineralTarget::Direction::dissolution && xi < 0) ||
+                       (dir == MineralTarget::Direction::precipitation && xi > 0)) {
                 ms.status = MineralState::Status::blocked;
                 ms.xi = 0.0;
                 released = true;
@@ -1317,8 +1317,8 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
                 double si = -ph.log_k(input.temperature_c) - ms.spec.target_si;
                 for (const auto& [j, v] : ph.dissolution) si += v * p.la(sys.column_for(j, ph.dissolution));
                 const auto dir = ms.spec.direction;
-                const bool may_precipitate = dir != MineralTarget::Direction::dissolve_only;
-                const bool may_dissolve = dir != MineralTarget::Direction::precipitate_only &&
+                const bool may_precipitate = dir != MineralTarget::Direction::dissolution;
+                const bool may_dissolve = dir != MineralTarget::Direction::precipitation &&
                                           (!ms.spec.amount_mol_per_kgw || ms.xi < *ms.spec.amount_mol_per_kgw);
                 if ((si > 1e-9 && may_precipitate) || (si < -1e-9 && may_dissolve)) {
                     ms.status = MineralState::Status::at_target;

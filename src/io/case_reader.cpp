@@ -450,13 +450,13 @@ process::MineralSpec read_mineral(const Entry& e, const std::string& file, const
         m.amount_mol_per_kgw = mol ? v : v * 1e-3;
     }
     if (auto only = r.string("only")) {
-        if (*only == "dissolve") m.direction = Direction::dissolve_only;
-        else if (*only == "precipitate") m.direction = Direction::precipitate_only;
+        if (*only == "dissolve") m.direction = Direction::dissolution;
+        else if (*only == "precipitate") m.direction = Direction::precipitation;
         else
             r.fail("only",
                    "expected \"dissolve\" or \"precipitate\" (leave 'only' out to allow both), found \"" + *only + "\"",
                    nearest_name(*only, mineral_directions));
-        if (m.amount_mol_per_kgw && m.direction == Direction::precipitate_only)
+        if (m.amount_mol_per_kgw && m.direction == Direction::precipitation)
             r.fail("only", "an amount of solid limits how much can dissolve; a mineral that may only "
                            "precipitate takes none: remove " + std::string(mol ? "amount_mol_per_kgw" : "amount_mmol_per_kgw") +
                            " or 'only'");

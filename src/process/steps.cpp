@@ -20,7 +20,7 @@ namespace {
 
 // A mineral allowed to leave the water but not to enter it. (The enum's name is the solver's;
 // it is spelled once here.)
-constexpr auto settle_only = equilibrium::MineralTarget::Direction::precipitate_only;
+constexpr auto settle_only = equilibrium::MineralTarget::Direction::precipitation;
 
 // Kg of water per litre of a derived water: the density of pure water at its temperature,
 // less the dissolved mass (the same approximation as for a lab analysis without a density).
