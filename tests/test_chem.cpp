@@ -497,6 +497,22 @@ TEST_CASE("formula errors: trailing junk, lowercase start, digits and counts") {
         CHECK(e->column() == 2);
         CHECK(contains(e->message(), "bad count '0'"));
     }
+    SUBCASE("a count that would overflow: (SCO3) times 400 nines, found by fuzzing") {
+        auto e = formula_error("(SCO3)" + std::string(400, '9'));
+        REQUIRE(e.has_value());
+        CHECK(e->column() == 7);
+        CHECK(contains(e->message(), "expected a number above 0 and up to 1e6"));
+        auto big = formula_error("H2000000O");
+        REQUIRE(big.has_value());
+        CHECK(contains(big->message(), "bad count '2000000'"));
+    }
+    SUBCASE("groups nested more than 8 deep") {
+        auto e = formula_error(std::string(9, '(') + "H2O" + std::string(9, ')'));
+        REQUIRE(e.has_value());
+        CHECK(e->column() == 9);
+        CHECK(contains(e->message(), "groups nested more than 8 deep"));
+        CHECK_FALSE(formula_error(std::string(8, '(') + "H2O" + std::string(8, ')')).has_value());
+    }
     SUBCASE("a malformed count: H1.2.3") {
         auto e = formula_error("H1.2.3");
         REQUIRE(e.has_value());

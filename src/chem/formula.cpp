@@ -131,8 +131,12 @@ private:
         const std::string num(s.substr(i, j - i));
         char* end = nullptr;
         const double v = std::strtod(num.c_str(), &end);
-        if (end != num.c_str() + num.size() || !(v > 0))
-            fail(offset + static_cast<int>(i) + 1, "bad count '" + num + "'");
+        // Counts of real formulas stay far below a million; a longer run of digits would
+        // overflow to infinity (or, nested, to an infinite molar mass).
+        constexpr double max_count = 1e6;
+        if (end != num.c_str() + num.size() || !(v > 0) || !(v <= max_count))
+            fail(offset + static_cast<int>(i) + 1,
+                 "bad count '" + (num.size() > 24 ? num.substr(0, 24) + "..." : num) + "' (expected a number above 0 and up to 1e6)");
         i = j;
         return v;
     }
@@ -149,6 +153,11 @@ private:
             }
             if (c == '(' || c == '[') {
                 const char close = c == '(' ? ')' : ']';
+                // Real formulas nest two or three groups; a limit keeps counts finite (1e6 at
+                // most per level) and the recursion shallow.
+                constexpr int max_depth = 8;
+                if (depth >= max_depth)
+                    fail(offset + static_cast<int>(i) + 1, "groups nested more than 8 deep");
                 ++i;
                 std::map<std::string, double> inner;
                 read_group(s, i, inner, offset, depth + 1);

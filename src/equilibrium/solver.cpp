@@ -1480,9 +1480,11 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
     if (input.pe) check_redox_level(input, res);
     for (const auto& t : res.transfers) {
         if (!t.exhausted && !t.blocked) continue;
-        double si = 0.0;
+        double si = 0.0, target = 0.0;
         for (const auto& sat : res.saturation)
             if (sat.phase == t.phase) si = sat.si;
+        for (const auto& m : input.minerals)
+            if (db.minerals()[m.mineral].name == t.phase) target = m.target_si;
         std::ostringstream o;
         o.precision(3);
         if (t.exhausted)
@@ -1490,8 +1492,7 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
               << (si < -default_si_tolerance ? "undersaturated" : "near saturation") << " (SI " << si << ")";
         else
             o << t.phase << ": held back by its allowed direction (SI " << si << ", target "
-              << [&] { for (const auto& m : input.minerals) if (db.minerals()[m.mineral].name == t.phase) return m.target_si; return 0.0; }()
-              << ")";
+              << target << ")";
         res.warnings.push_back(o.str());
     }
     return res;
