@@ -490,3 +490,51 @@ TEST_CASE("a redox level beyond the stability of water: warned past 1 atm, refus
     CHECK_THROWS_WITH_AS((void)speciate(core(), water_at(-9.0)), doctest::Contains("below the H2O/H2 line"),
                          NoSolutionError);
 }
+
+TEST_CASE("a poised reduced water carried at a new pH: the first pe comes from its electrons") {
+    // Invented anoxic well water whose nitrogen is all ammonium (8 e- per N against nitrate)
+    // and whose sulfur is all sulfate, carried on at pH 8.86 with its electrons conserved.
+    // The pe must fall where the few electrons left over sit (near the sulfate/sulfide
+    // boundary, pe about 4.25 - 1.125 pH at 25 degC for equal SO4^2- and HS-, Stumm & Morgan
+    // 1996), far from the default start. Before the first pe was estimated from the
+    // electrons, this took 500+ Newton iterations or did not converge; now it is a plain
+    // solve (the iteration count is deterministic, not a timing).
+    SpeciationInput in;
+    in.label = "poised";
+    in.temperature_c = 12.5;
+    in.ph = 8.86;
+    in.components = {total("Ca^2+", 3.548e-3), total("Mg^2+", 1.277e-3),   total("Na+", 8.06e-4),
+                     total("Cl-", 1.186e-3),   total("SO4^2-", 1.0008e-3), total("NO3-", 5.719e-5),
+                     total("Fe^2+", 1.96e-8),  total("Mn^2+", 5.47e-6),
+                     ComponentInput{comp("HCO3-"), ComponentInput::Kind::alkalinity, 7.2268e-3}};
+    in.electron_total = 8.0 * 5.719e-5 + 1.16e-6;
+    const SpeciationResult r = speciate(core(), in);
+    REQUIRE(r.pe.has_value());
+    CHECK(species_molality(r, "NH4+") + species_molality(r, "NH3(aq)") == doctest::Approx(5.719e-5).epsilon(1e-3));
+    CHECK(*r.pe < 0.0);
+    CHECK(std::abs(*r.pe - (4.25 - 1.125 * 8.86)) < 1.5);
+    CHECK(r.summary.attempts == 1);
+    CHECK(r.summary.iterations <= 25);
+}
+
+TEST_CASE("oxygen held with the electrons conserved: the gas gives the pe, whatever the warm start says") {
+    // Invented water solved at pe 4, then brought to air (O2 at 10^-0.68 atm) with its
+    // electrons conserved and the pe 4 result as the warm start. The O2/H2O couple fixes the
+    // pe: pe = 20.78 - pH + 0.25 log p(O2) at 25 degC (Stumm & Morgan 1996).
+    SpeciationInput in = hard_water();
+    in.pe = 4.0;
+    const SpeciationResult before = speciate(core(), in);
+    double e_total = 0.0;
+    const std::size_t e = core().electron().value();
+    for (const auto& s : before.species)
+        for (const auto& [j, nu] : core().species()[s.species].formation)
+            if (j == e) e_total += nu * s.molality;
+    SpeciationInput aired = in;
+    aired.pe.reset();
+    aired.electron_total = e_total;
+    aired.gases = {GasTarget{*core().find_gas("O2(g)"), -0.68}};
+    const SpeciationResult r = speciate(core(), aired, {}, &before);
+    REQUIRE(r.pe.has_value());
+    CHECK(*r.pe == doctest::Approx(20.78 - 7.4 - 0.17).epsilon(0.003));
+    CHECK(r.summary.iterations <= 40);
+}

@@ -15,6 +15,7 @@
 #include <functional>
 #include <limits>
 #include <memory>
+#include <optional>
 #include <sstream>
 
 #include "deltag/constants.hpp"
@@ -114,7 +115,9 @@ void Problem::refer_electrons_to_basis() {
         VectorXd w = weights0.col(r);
         double t = target0[e];
         Eigen::RowVectorXd cpl = coupling0.row(r) * scale0[e];
-        Eigen::RowVectorXd cls = closed_weight0.row(r) * scale0[e];
+        // (An n x 0 matrix has no storage: Eigen's row() of it is undefined behaviour.)
+        const bool closed_gases = closed_weight0.cols() > 0;
+        Eigen::RowVectorXd cls = closed_gases ? Eigen::RowVectorXd(closed_weight0.row(r) * scale0[e]) : Eigen::RowVectorXd();
         bool changed = false;
         for (std::size_t c = 0; c < s.columns.size(); ++c) {
             if (!switched(c)) continue;
@@ -126,7 +129,7 @@ void Problem::refer_electrons_to_basis() {
             w -= factor * weights0.col(rc);
             t -= factor * target0[static_cast<std::size_t>(rc)];
             cpl -= factor * coupling0.row(rc) * scale0[static_cast<std::size_t>(rc)];
-            cls -= factor * closed_weight0.row(rc) * scale0[static_cast<std::size_t>(rc)];
+            if (closed_gases) cls -= factor * closed_weight0.row(rc) * scale0[static_cast<std::size_t>(rc)];
             changed = true;
         }
         if (!changed) continue;
@@ -134,7 +137,7 @@ void Problem::refer_electrons_to_basis() {
         weights.col(r) = w;
         target[e] = t;
         coupling.row(r) = cpl / scale[e];
-        closed_weight.row(r) = cls / scale[e];
+        if (closed_gases) closed_weight.row(r) = cls / scale[e];
     }
 }
 
@@ -978,6 +981,79 @@ void count(SolveSummary& summary, const AttemptOutcome& o) {
     summary.residual_evaluations += static_cast<int>(o.evaluations);
 }
 
+// A first pe for a water whose electrons are conserved (the pe is an unknown):
+// - a gas held at its pressure that fixes the electron activity (O2(g), H2(g)) gives it
+//   directly at the pH guess, whatever an earlier solve said;
+// - otherwise, with no earlier pe, the pe at which the electrons add up to their total when
+//   each element is shared among its own species as their log K, the pH guess and the pe say
+//   (unit activity coefficients; O2(aq) and H2(aq) from water). The electrons fall as the pe
+//   rises, so a bisection finds it. A start 10 pe units off the answer costs Newton hundreds
+//   of iterations on a poised water (nitrogen all ammonium, sulfur all sulfate).
+std::optional<double> first_pe(const Problem& p, const SpeciationInput& input, const CarriedState& st) {
+    const ChemicalSystem& s = *p.sys;
+    const Index nc = static_cast<Index>(s.columns.size());
+    Index ce = -1, ch = -1, cw = -1;
+    for (Index c = 0; c < nc; ++c) {
+        const auto role = s.columns[c].role;
+        if (role == ComponentColumn::Role::electron_unknown) ce = c;
+        if (role == ComponentColumn::Role::proton_fixed || role == ComponentColumn::Role::proton_unknown) ch = c;
+        if (role == ComponentColumn::Role::water) cw = c;
+    }
+    if (ce < 0 || ch < 0) return std::nullopt;
+    double ph = input.ph.value_or(7.0);
+    if (!input.ph && std::isfinite(st.column[static_cast<std::size_t>(ch)])) ph = -st.column[static_cast<std::size_t>(ch)];
+    auto only_water_columns = [&](const Eigen::RowVectorXd& nu) {
+        for (Index c = 0; c < nc; ++c)
+            if (nu(c) != 0.0 && c != ce && c != ch && c != cw) return false;
+        return nu(ce) != 0.0;
+    };
+    for (const auto& ph_unknown : p.phases) {
+        if (!only_water_columns(ph_unknown.nu)) continue;
+        // target = nu . la - log K, with la(H+) = -pH and la(H2O) = 0.
+        const double la_e = (ph_unknown.target + ph_unknown.log_k + ph_unknown.nu(ch) * ph) / ph_unknown.nu(ce);
+        if (std::isfinite(la_e)) return -la_e;
+    }
+    if (std::isfinite(st.column[static_cast<std::size_t>(ce)])) return std::nullopt;
+    std::size_t row = p.n;
+    for (std::size_t e = 0; e < p.n; ++e)
+        if (p.column_of_unknown[e] == ce) row = e;
+    if (row == p.n) return std::nullopt;
+    const double target = p.target0[row];
+    const Index ns = static_cast<Index>(s.species.size());
+    auto electrons_at = [&](double pe) {
+        double total = 0.0;
+        auto score = [&](Index k) { return s.log_k(k) - s.nu(k, ch) * ph - s.nu(k, ce) * pe; };
+        for (Index k = 0; k < ns; ++k)  // O2(aq), H2(aq): from water alone
+            if (only_water_columns(s.nu.row(k))) total += s.nu(k, ce) * std::pow(10.0, std::min(score(k), 5.0));
+        for (Index c = 0; c < nc; ++c) {
+            const auto cu = static_cast<std::size_t>(c);
+            const int own = p.species_of_column[cu];
+            if (s.columns[c].role != ComponentColumn::Role::unknown || own < 0) continue;
+            const std::size_t e = static_cast<std::size_t>(s.columns[c].unknown);
+            if (p.equation[e] != Equation::mass || !(p.target0[e] > 0)) continue;
+            std::vector<int> ks = p.basis_candidates[cu];
+            ks.push_back(own);
+            double top = -std::numeric_limits<double>::infinity();
+            for (const int k : ks) top = std::max(top, score(k));
+            double weight = 0.0, sum = 0.0;
+            for (const int k : ks) {
+                const double w = std::pow(10.0, score(k) - top);
+                weight += w;
+                sum += w * s.nu(k, ce);
+            }
+            total += p.target0[e] * sum / weight;
+        }
+        return total;
+    };
+    double lo = -15.0, hi = 25.0;
+    if (electrons_at(lo) < target || electrons_at(hi) > target) return std::nullopt;
+    for (int it = 0; it < 50; ++it) {
+        const double mid = 0.5 * (lo + hi);
+        (electrons_at(mid) > target ? lo : hi) = mid;
+    }
+    return 0.5 * (lo + hi);
+}
+
 // One attempt: choose the basis at the state, start from it, and run KINSOL; when it stops
 // short with a finite residual (too many long steps, iteration limit, a stalled line
 // search), take the point it reached as the new state, choose the basis again there and
@@ -1238,7 +1314,7 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
     std::vector<double> mineral_xi(minerals.size(), 0.0), gas_xi(input.gases.size(), 0.0);
     // log10 a(e-) = -pe; with the electrons conserved, start from the earlier pe or a
     // moderately oxidising one.
-    const double pe_guess = start && start->pe ? *start->pe : 4.0;
+    double pe_guess = start && start->pe ? *start->pe : 4.0;
     if (start) {
         for (std::size_t c = 0; c < ncol; ++c) {
             if (sys.columns[c].role == ComponentColumn::Role::electron_unknown) {
@@ -1269,7 +1345,14 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
     int round = 0;
     for (;; ++round) {
         L = make_layout(db, sys, input, minerals);
-        if (round == 0) check_phase_rule(db, sys, input, L);
+        if (round == 0) {
+            check_phase_rule(db, sys, input, L);
+            if (const auto pe0 = first_pe(L.p, input, carried)) {
+                pe_guess = *pe0;
+                for (std::size_t c = 0; c < ncol; ++c)
+                    if (sys.columns[c].role == ComponentColumn::Role::electron_unknown) carried.column[c] = -*pe0;
+            }
+        }
         Problem& p = L.p;
         // Phase amounts: what earlier rounds (or a warm start) know.
         std::vector<double> phase_start(p.n, 0.0);
