@@ -707,3 +707,28 @@ until = { pH = 5.0 }
     CHECK(deltag("run '" + p.string() + "' --output '" + report.string() + "'").code == 2);
     CHECK(slurp(report) == "an earlier report\n");
 }
+
+TEST_CASE("run: a water that does not converge exits 3 with the residual and a hint") {
+    // No plausible water is known to fail any more, so the exit-3 path is reached through a
+    // database of our own making: calcium sulfate as an aqueous complex with log K 400 (real
+    // ion pairs sit below 10; this one puts the free ions near 1e-200 mol/kgw).
+    std::string db = slurp(fs::path(DELTAG_SOURCE_DIR) / "databases" / "core.toml");
+    const std::string from = "reaction = \"Ca^2+ + SO4^2- = CaSO4(aq)\"\nlog_k = 2.30";
+    const auto at = db.find(from);
+    REQUIRE(at != std::string::npos);
+    db.replace(at, from.size(), "reaction = \"Ca^2+ + SO4^2- = CaSO4(aq)\"\nlog_k = 400.0");
+    write("absurd-complex.toml", db);
+    const fs::path c = write("absurd-run.toml", R"toml(database = "absurd-complex.toml"
+[water.w]
+pH = 7.0
+units = "mmol/kgw"
+[water.w.analytes]
+Ca = 1
+SO4 = 1
+)toml");
+    const Run r = deltag("run '" + c.string() + "'");
+    CHECK(r.code == 3);
+    CHECK(has(r.err, "water 'w': did not converge"));
+    CHECK(has(r.err, "scaled residual"));
+    CHECK(has(r.err, "check the analysis"));
+}

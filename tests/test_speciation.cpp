@@ -447,8 +447,17 @@ TEST_CASE("the fallback rescues a first attempt that cannot finish") {
     } catch (const ConvergenceError& e) {
         CHECK(e.residual_norm() > options.tolerance);
         CHECK(std::string(e.what()).find("water 'hard'") != std::string::npos);
-        CHECK(!e.hint().empty());
+        CHECK(e.hint().find("check the analysis (units, charge balance, pH)") != std::string::npos);
     }
+    // The hint names what the input asked for: a charge balance on an analyte, or phases.
+    SpeciationInput balanced = hard_water();
+    balanced.charge_balance_component = comp("Cl-");
+    CHECK_THROWS_WITH_AS((void)speciate(core(), balanced, options, &bad_start),
+                         doctest::Contains("the charge balance on 'Cl-' may not close with this analysis"), ConvergenceError);
+    SpeciationInput with_calcite = hard_water();
+    with_calcite.minerals = {MineralTarget{*core().find_mineral("Calcite"), 0.0, std::nullopt, MineralTarget::Direction::both}};
+    CHECK_THROWS_WITH_AS((void)speciate(core(), with_calcite, options, &bad_start),
+                         doctest::Contains("check that the minerals and gases requested can coexist"), ConvergenceError);
 }
 
 TEST_CASE("solver summary texts") {

@@ -1427,7 +1427,7 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
         std::string hint = "check the analysis (units, charge balance, pH) or try another activity_model";
         if (input.charge_balance_component)
             hint = "the charge balance on '" + component_name(db, *input.charge_balance_component) +
-                   "' may need a negative amount: balance on an ion of the other charge, or check the analysis";
+                   "' may not close with this analysis: check the analysis, or balance on another ion";
         else if (!input.minerals.empty() || !input.gases.empty())
             hint = "check that the minerals and gases requested can coexist with this water";
         throw ConvergenceError(subject, outcome.residual, outcome.reason, hint);
