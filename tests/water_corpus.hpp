@@ -87,6 +87,33 @@ struct Ion {
 
 // Carbonate charge per mole of DIC at a pH (25 degC constants, Plummer & Busenberg 1982:
 // pK1 6.35, pK2 10.33): only to place the construction near a target pH.
+// Alkalinity per mole of dissolved aluminium at a pH (Al^3+ the reference level: Al(OH)n
+// counts n): hydrolysis log K -4.99, -10.1, -16.9, -22.7 for n = 1..4 (Nordstrom et al.
+// 1990, 25 degC, ideal; from memory, for the generator only).
+inline double aluminium_bases_per_mol(double ph) {
+    const double log_k[] = {0.0, -4.99, -10.1, -16.9, -22.7};
+    double sum = 0.0, count = 0.0;
+    for (int n = 0; n <= 4; ++n) {
+        const double w = std::pow(10.0, log_k[n] + n * ph);
+        sum += w;
+        count += n * w;
+    }
+    return count / sum;
+}
+
+// The same for ferric iron, counted from Fe(OH)2+ (Fe^3+ -2, FeOH^2+ -1, Fe(OH)3 +1,
+// Fe(OH)4- +2): log K -2.19, -5.67, -12.56, -21.6 (Nordstrom et al. 1990, from memory).
+inline double ferric_bases_per_mol(double ph) {
+    const double log_k[] = {0.0, -2.19, -5.67, -12.56, -21.6};
+    double sum = 0.0, count = 0.0;
+    for (int n = 0; n <= 4; ++n) {
+        const double w = std::pow(10.0, log_k[n] + n * ph);
+        sum += w;
+        count += (n - 2) * w;
+    }
+    return count / sum;
+}
+
 inline double carbonate_charge_per_dic(double ph) {
     const double h = std::pow(10.0, -ph), k1 = std::pow(10.0, -6.35), k2 = std::pow(10.0, -10.33);
     const double d = h * h + k1 * h + k1 * k2;
@@ -202,6 +229,8 @@ inline std::vector<Generated> generate(std::size_t n, std::uint64_t seed) {
             if (nm == "Mg") other_bases_meq += mmol * frac(-11.44, 66.0);
             if (nm == "Ca") other_bases_meq += mmol * frac(-12.78, 64.0);
             if (nm == "SiO2") other_bases_meq += mmol * frac(-9.83, 25.6);
+            if (nm == "Al") other_bases_meq += mmol * detail::aluminium_bases_per_mol(ph);
+            if (nm == "Fe(3)") other_bases_meq += mmol * detail::ferric_bases_per_mol(ph);
         }
         if (g.kind == Kind::caustic) alk_meq = std::max(alk_meq, 0.3 * oh_meq);
         // Redox level: a third of the waters, all of the reduced ones.
@@ -246,6 +275,19 @@ inline std::vector<Generated> generate(std::size_t n, std::uint64_t seed) {
                     const double log_k = -9.25 - 52000.0 / (8.314462618 * std::log(10.0)) * (1.0 / (w.temperature_c + 273.15) - 1.0 / 298.15);
                     other_bases_meq += ion.mg_per_l / ion.molar_mass / (1.0 + std::pow(10.0, -ph - log_k));
                 }
+        // Below the sulfate/sulfide line sulfate is bisulfide, a base (pKa of H2S 7.0); total
+        // iron given with an oxic redox level is ferric, with its hydroxo bases.
+        for (const auto& ion : ions) {
+            const double mmol = ion.mg_per_l / ion.molar_mass;
+            if (std::string(ion.name) == "SO4" && !oxic) {
+                // SO4^2- + 9 H+ + 8 e- = HS- + 4 H2O, log K 33.65 (Nordstrom et al. 1990, from memory).
+                const double log_ratio = 33.65 - 9.0 * ph - 8.0 * redox_pe;  // log [HS-]/[SO4^2-], ideal
+                const double reduced = 1.0 / (1.0 + std::pow(10.0, -log_ratio));
+                other_bases_meq += mmol * reduced / (1.0 + std::pow(10.0, 7.0 - ph));
+            }
+            if (std::string(ion.name) == "Fe" && g.redox != Redox::none && oxic)
+                other_bases_meq += mmol * detail::ferric_bases_per_mol(ph);
+        }
         g.balance = r.chance(0.45) ? Balance::within_5_percent : r.chance(0.5) ? Balance::on_ph : Balance::on_analyte;
         if (g.kind == Kind::acid && g.balance == Balance::on_ph && r.chance(0.5)) g.balance = Balance::on_analyte;
         if (g.balance == Balance::on_analyte && !oxic) g.balance = r.chance(0.5) ? Balance::on_ph : Balance::within_5_percent;
@@ -262,7 +304,9 @@ inline std::vector<Generated> generate(std::size_t n, std::uint64_t seed) {
         // Nominal balance: cations - anions (meq/L); carbonate and OH- count as anions, H+ as a cation.
         double cat = h_meq, an = carbonate_meq + oh_meq;
         for (const auto& ion : ions) {
-            const double meq = ion.mg_per_l / ion.molar_mass * std::abs(ion.charge);
+            double meq = ion.mg_per_l / ion.molar_mass * std::abs(ion.charge);
+            // Acid waters: part of the sulfate is HSO4- (pKa 1.99, Nordstrom et al. 1990).
+            if (std::string(ion.name) == "SO4") meq *= 1.0 - 0.5 / (1.0 + std::pow(10.0, ph - 1.99));
             (ion.charge > 0 ? cat : an) += meq;
         }
         auto set_ion = [&](const char* name, double mg, double mm, int z) {
