@@ -86,6 +86,7 @@ struct Problem {
     // use from these for the current basis.
     MatrixXd weights0, coupling0, closed_weight0;
     std::vector<double> target0, scale0;
+    bool balances_referred = false;        // weights etc. differ from the *0 ones
 
     bool switched(std::size_t c) const { return basis_of_column[c] != species_of_column[c]; }
     void evaluate(const double* u, double* f, double* jac) const;
@@ -101,6 +102,19 @@ struct Problem {
 // none): the same equations, well conditioned, with the scale of what is left.
 void Problem::refer_electrons_to_basis() {
     const ChemicalSystem& s = *sys;
+    // Most waters have no electron balance, or no switched element in it: nothing to do, and
+    // no copies (this runs before every Newton leg).
+    bool wanted = false;
+    for (std::size_t e = 0; e < n && !wanted; ++e) {
+        const int ce = column_of_unknown[e];
+        if (ce < 0 || equation[e] != Equation::mass) continue;
+        const auto role = s.columns[static_cast<std::size_t>(ce)].role;
+        if (role != ComponentColumn::Role::electron_unknown && role != ComponentColumn::Role::split_electron) continue;
+        for (std::size_t c = 0; c < s.columns.size() && !wanted; ++c)
+            wanted = switched(c) && s.nu(basis_of_column[c], ce) != 0.0;
+    }
+    if (!wanted && !balances_referred) return;
+    balances_referred = wanted;
     weights = weights0;
     target = target0;
     scale = scale0;
