@@ -1,0 +1,200 @@
+// The figures of a lab sheet from a speciated water. Sources, by figure:
+//
+// Hardness: Standard Methods for the Examination of Water and Wastewater, 2340 B (hardness by
+//   calculation): mg equivalent CaCO3/L = 2.497 [Ca, mg/L] + 4.118 [Mg, mg/L]; the factors
+//   are CaCO3/Ca = 100.087/40.078 and CaCO3/Mg = 100.087/24.305. Carbonate and non-carbonate
+//   hardness: Standard Methods 2340 A (definitions).
+// Alkalinity: Standard Methods 2320 (titration to pH 4.5, total or M, and to pH 8.3,
+//   phenolphthalein or P). From the speciation the two are taken at their equivalence points
+//   (Stumm and Morgan 1996, Aquatic Chemistry, 3rd ed., ch. 4): M is the water's total
+//   alkalinity (reference CO2(aq)), P = M - C_T, the alkalinity with HCO3- as the reference
+//   of the carbonate species ([CO3^2-] + [OH-] - [CO2(aq)] - [H+] in a plain carbonate water).
+//   A titration to the fixed pH of 8.3 can differ from the equivalence point by a little.
+//   A negative P is no alkalinity to pH 8.3 but acidity: Standard Methods 2310 (acidity to
+//   pH 8.3, phenolphthalein acidity) reports it as CaCO3.
+// Dissolved solids by calculation: Standard Methods 1030 E (checking analyses' correctness:
+//   calculated TDS = 0.6 x alkalinity as CaCO3 + Na + K + Ca + Mg + Cl + SO4 + SiO3 + NO3 + F;
+//   written from memory) and Hem (1985), USGS Water-Supply Paper 2254, p. 156-157: the sum of
+//   the constituents with bicarbonate converted to carbonate (HCO3- x 0.4917), as after
+//   evaporation. Both count the carbonate species as carbonate ion, 30.00 mg per meq of
+//   carbonate alkalinity. Here every dissolved constituent counts, each by the mass its lab
+//   analyte is reported as (SiO2, NO3, SO4, ...), the carbonate species by their carbonate
+//   alkalinity as CO3^2-; H+, OH-, CO2(aq) and dissolved gases (O2, H2) do not count.
+// Larson-Skold index: Larson, T. E. and Skold, R. V. (1958), Laboratory studies relating
+//   mineral quality of water to corrosion of steel and cast iron, Corrosion 14, 285t-288t:
+//   (Cl- + SO4^2-) / (HCO3- + CO3^2-) in equivalents.
+// Puckorius index: Puckorius, P. R. and Brooke, J. M. (1991), A new practical index for calcium
+//   carbonate scale prediction in cooling tower systems, Corrosion 47, 280-284:
+//   PSI = 2 pHs - pHeq, pHeq = 1.465 log10(total alkalinity, mg/L as CaCO3) + 4.54.
+// Aggressive Index: AWWA C400 (asbestos-cement pipe): AI = pH + log10(A H), A total
+//   alkalinity and H calcium hardness, mg/L as CaCO3.
+#include "deltag/figures.hpp"
+
+#include <algorithm>
+#include <cmath>
+
+#include "deltag/chem.hpp"
+
+namespace deltag::process {
+
+double hardness_from_ca_mg(double ca_mg_per_l, double mg_mg_per_l) { return 2.497 * ca_mg_per_l + 4.118 * mg_mg_per_l; }
+
+std::pair<double, double> split_hardness(double total_hardness, double total_alkalinity) {
+    const double carbonate = std::clamp(total_alkalinity, 0.0, std::max(total_hardness, 0.0));
+    return {carbonate, std::max(total_hardness - carbonate, 0.0)};
+}
+
+double larson_skold(double chloride_meq, double sulfate_meq, double carbonate_alkalinity_meq) {
+    return (chloride_meq + sulfate_meq) / carbonate_alkalinity_meq;
+}
+
+double puckorius_ph_eq(double total_alkalinity_mg_caco3) { return 1.465 * std::log10(total_alkalinity_mg_caco3) + 4.54; }
+
+double puckorius(double ph_s, double total_alkalinity_mg_caco3) {
+    return 2.0 * ph_s - puckorius_ph_eq(total_alkalinity_mg_caco3);
+}
+
+double aggressive_index(double ph, double total_alkalinity_mg_caco3, double calcium_hardness_mg_caco3) {
+    return ph + std::log10(total_alkalinity_mg_caco3 * calcium_hardness_mg_caco3);
+}
+
+namespace {
+
+double element_total(const equilibrium::SpeciationResult& r, const std::string& el) {
+    const auto it = r.element_totals.find(el);
+    return it == r.element_totals.end() ? 0.0 : it->second;
+}
+
+double component_total(const thermo::Database& db, const equilibrium::SpeciationResult& r, std::string_view name) {
+    const auto j = db.find_species(name);
+    if (!j || *j >= r.component_totals.size() || !r.component_present[*j]) return 0.0;
+    return r.component_totals[*j];
+}
+
+bool holds(const thermo::Species& sp, std::size_t component) {
+    for (const auto& [k, v] : sp.formation)
+        if (k == component && v != 0.0) return true;
+    return false;
+}
+
+// mg of what a lab reports per mol of the component (the first total analyte of it, else
+// the component's own formula).
+double reported_mass_g_per_mol(const thermo::Database& db, std::size_t component) {
+    for (const auto& a : db.analytes())
+        if (a.component == component && a.kind == thermo::Analyte::Kind::total && a.per_component > 0)
+            return a.mass_formula.molar_mass() / a.per_component;
+    return db.species()[component].formula.molar_mass();
+}
+
+bool only_h_and_o(const chem::Formula& f) {
+    for (const auto& [el, n] : f.elements)
+        if (el != "H" && el != "O") return false;
+    return true;
+}
+
+}  // namespace
+
+WaterFigures water_figures(const thermo::Database& db, const equilibrium::SpeciationResult& r, const Indices* indices) {
+    WaterFigures f;
+    const double per_l = 1000.0 * r.kg_water_per_litre;  // mol/kgw -> mmol/L
+
+    // Hardness (Standard Methods 2340 B).
+    f.calcium_mg_per_l = element_total(r, "Ca") * per_l * chem::parse_formula("Ca").molar_mass();
+    f.magnesium_mg_per_l = element_total(r, "Mg") * per_l * chem::parse_formula("Mg").molar_mass();
+    f.hardness_calcium = hardness_from_ca_mg(f.calcium_mg_per_l, 0.0);
+    f.hardness_magnesium = hardness_from_ca_mg(0.0, f.magnesium_mg_per_l);
+    f.hardness_total = f.hardness_calcium + f.hardness_magnesium;
+
+    // Alkalinity (Standard Methods 2320; Stumm and Morgan 1996).
+    const auto carbonate = db.find_species("HCO3-");
+    double dic = 0.0, carbonate_alk = 0.0;
+    if (carbonate && *carbonate < r.component_present.size() && r.component_present[*carbonate]) {
+        dic = r.component_totals[*carbonate];
+        for (const auto& s : r.species)
+            if (holds(db.species()[s.species], *carbonate)) carbonate_alk += db.species()[s.species].alkalinity * s.molality;
+    }
+    f.alkalinity_total_m = std::max(r.alkalinity_eq, 0.0) * per_l * mg_caco3_per_meq;
+    const double p_eq = r.alkalinity_eq - dic;
+    f.alkalinity_phenolphthalein_p = std::max(p_eq, 0.0) * per_l * mg_caco3_per_meq;
+    f.acidity_to_ph_8_3 = std::max(-p_eq, 0.0) * per_l * mg_caco3_per_meq;
+    f.carbonate_alkalinity_meq_per_l = std::max(carbonate_alk, 0.0) * per_l;
+    const auto [ch, nch] = split_hardness(f.hardness_total, f.alkalinity_total_m);
+    f.hardness_carbonate = ch;
+    f.hardness_non_carbonate = nch;
+
+    // Dissolved solids by calculation (Standard Methods 1030 E; Hem 1985).
+    double tds = 0.0;
+    for (std::size_t j = 0; j < db.species().size() && j < r.component_present.size(); ++j) {
+        const auto& sp = db.species()[j];
+        if (!sp.is_component || sp.role != thermo::ComponentRole::ordinary || !r.component_present[j]) continue;
+        if (carbonate && j == *carbonate) continue;
+        if (only_h_and_o(sp.formula)) continue;
+        tds += r.component_totals[j] * per_l * reported_mass_g_per_mol(db, j);
+    }
+    // Carbonate species as CO3^2-: 60.009 / 2 mg per meq (HCO3- x 0.4917 in Hem's form).
+    tds += f.carbonate_alkalinity_meq_per_l * chem::parse_formula("CO3").molar_mass() / 2.0;
+    f.tds_calculated_mg_per_l = tds;
+
+    // Larson-Skold (1958).
+    if (f.carbonate_alkalinity_meq_per_l > 0) {
+        const double cl = component_total(db, r, "Cl-") * per_l;
+        const double so4 = 2.0 * component_total(db, r, "SO4^2-") * per_l;
+        f.larson_skold = larson_skold(cl, so4, f.carbonate_alkalinity_meq_per_l);
+        f.larson_skold_available = std::isfinite(f.larson_skold);
+        // Readings as commonly quoted for the 1958 study (Great Lakes waters, mild steel;
+        // written from memory): below 0.8 chloride and sulfate are unlikely to upset the
+        // protective film; 0.8 to 1.2 they may; above 1.2 high local corrosion rates are
+        // likely. Not meant for waters of low alkalinity or brines.
+        f.larson_skold_reading = f.larson_skold < 0.8   ? "chloride and sulfate unlikely to upset protective films"
+                                 : f.larson_skold <= 1.2 ? "chloride and sulfate may upset protective films"
+                                                         : "high local corrosion rates of steel likely";
+    }
+    if (!f.larson_skold_available) {
+        f.larson_skold = 0.0;
+        f.larson_skold_reading.clear();
+        f.larson_skold_why_not = "the water has no carbonate alkalinity, the index's denominator";
+    }
+
+    // Puckorius (1991): needs pHs.
+    if (!indices || !indices->available) {
+        f.puckorius_why_not = indices ? "it needs the pHs of the Langelier index, which is unavailable"
+                                      : "it needs the pHs of the Langelier index, not computed here";
+    } else if (!(f.alkalinity_total_m > 0)) {
+        f.puckorius_why_not = "the water has no total alkalinity";
+    } else {
+        f.puckorius_ph_eq = puckorius_ph_eq(f.alkalinity_total_m);
+        f.puckorius = puckorius(indices->ph_s, f.alkalinity_total_m);
+        f.puckorius_available = std::isfinite(f.puckorius);
+        // Read as the Ryznar index is (Puckorius and Brooke 1991; written from memory): below
+        // about 6 scale-forming, above about 7 corrosive. For cooling waters.
+        f.puckorius_reading = f.puckorius < 6.0   ? "scale-forming"
+                              : f.puckorius <= 7.0 ? "near balance"
+                                                   : "corrosive";
+        if (!f.puckorius_available) {
+            f.puckorius = f.puckorius_ph_eq = 0.0;
+            f.puckorius_reading.clear();
+            f.puckorius_why_not = "the index is not finite for this water";
+        }
+    }
+
+    // Aggressive Index (AWWA C400).
+    if (!(f.alkalinity_total_m > 0) || !(f.hardness_calcium > 0)) {
+        f.aggressive_index_why_not = "it needs both calcium and total alkalinity";
+    } else {
+        f.aggressive_index = aggressive_index(r.ph, f.alkalinity_total_m, f.hardness_calcium);
+        f.aggressive_index_available = std::isfinite(f.aggressive_index);
+        // AWWA C400 classes (written from memory): 12 and above non-aggressive, 10 to 12
+        // moderately aggressive, below 10 highly aggressive. Meant for asbestos-cement pipe.
+        f.aggressive_index_reading = f.aggressive_index >= 12.0  ? "non-aggressive"
+                                     : f.aggressive_index >= 10.0 ? "moderately aggressive"
+                                                                  : "highly aggressive";
+        if (!f.aggressive_index_available) {
+            f.aggressive_index = 0.0;
+            f.aggressive_index_reading.clear();
+            f.aggressive_index_why_not = "the index is not finite for this water";
+        }
+    }
+    return f;
+}
+
+}  // namespace deltag::process

@@ -1,0 +1,222 @@
+// The figures of a lab sheet (src/process/figures.cpp): each formula against its published
+// definition, and the figures of speciated waters (invented analyses) against the same
+// formulas worked by hand from the analysis. Sources are named beside each check.
+#include <doctest/doctest.h>
+
+#include <cmath>
+#include <string>
+
+#include "deltag/case.hpp"
+#include "deltag/figures.hpp"
+#include "deltag/process.hpp"
+
+using namespace deltag;
+using namespace deltag::process;
+
+namespace {
+
+const thermo::Database& core() { return thermo::Database::embedded(); }
+
+// The speciated waters of a case, with their indices.
+std::vector<WaterState> waters_of(const std::string& text) {
+    const io::Case c = io::parse_case(text, "test.toml");
+    std::vector<WaterState> out;
+    for (const auto& w : c.waters) {
+        const auto in = to_speciation_input(w, core(), c.activity_model);
+        out.push_back(state_from_result(equilibrium::speciate(core(), in), in, core()));
+        out.back().indices = water_treatment_indices(core(), out.back());
+    }
+    return out;
+}
+
+const WaterState& water(const std::vector<WaterState>& ws, const std::string& name) {
+    for (const auto& w : ws)
+        if (w.label == name) return w;
+    FAIL("no water " << name);
+    return ws.front();
+}
+
+// Invented analyses, mg/L.
+const std::string analyses = R"toml(
+title = "figures test waters (invented)"
+[water.hard]
+pH = 7.5
+units = "mg/L"
+[water.hard.analytes]
+Ca = 40
+Mg = 12.15
+Na = 23
+K = 3.9
+Cl = 71
+SO4 = 96
+Alkalinity = { value = 100, as = "CaCO3" }
+
+[water.soda]
+charge_balance = "pH"
+units = "mmol/L"
+[water.soda.analytes]
+Na = 2.0
+DIC = 1.0
+
+[water.bicarbonate]
+charge_balance = "pH"
+units = "mmol/L"
+[water.bicarbonate.analytes]
+Na = 1.0
+DIC = 1.0
+
+[water.carbonic]
+charge_balance = "pH"
+units = "mmol/L"
+[water.carbonic.analytes]
+Na = 0.1
+DIC = 1.0
+
+[water.brine_no_carbon]
+pH = 7.0
+units = "mg/L"
+[water.brine_no_carbon.analytes]
+Na = 393
+Cl = 607
+)toml";
+
+}  // namespace
+
+TEST_CASE("hardness by calculation, Standard Methods 2340 B") {
+    // 2340 B: hardness, mg equivalent CaCO3/L = 2.497 [Ca, mg/L] + 4.118 [Mg, mg/L].
+    CHECK(hardness_from_ca_mg(100.0, 0.0) == doctest::Approx(249.7));
+    CHECK(hardness_from_ca_mg(0.0, 10.0) == doctest::Approx(41.18));
+    CHECK(hardness_from_ca_mg(40.0, 12.15) == doctest::Approx(2.497 * 40.0 + 4.118 * 12.15));
+    // The factors are CaCO3/Ca and CaCO3/Mg (IUPAC atomic weights: 100.087/40.078, 100.087/24.305).
+    CHECK(2.497 == doctest::Approx(100.087 / 40.078).epsilon(2e-4));
+    CHECK(4.118 == doctest::Approx(100.087 / 24.305).epsilon(2e-4));
+}
+
+TEST_CASE("carbonate and non-carbonate hardness, Standard Methods 2340 definitions") {
+    // Alkalinity below the hardness: carbonate hardness = alkalinity, the rest non-carbonate.
+    auto [c1, n1] = split_hardness(200.0, 150.0);
+    CHECK(c1 == doctest::Approx(150.0));
+    CHECK(n1 == doctest::Approx(50.0));
+    // Alkalinity at or above the hardness: all of it is carbonate hardness.
+    auto [c2, n2] = split_hardness(200.0, 250.0);
+    CHECK(c2 == doctest::Approx(200.0));
+    CHECK(n2 == doctest::Approx(0.0));
+}
+
+TEST_CASE("the hardness of a speciated water is the 2340 B formula on its analysis") {
+    const auto ws = waters_of(analyses);
+    const auto f = water_figures(core(), water(ws, "hard").result, &water(ws, "hard").indices);
+    // Ca 40 and Mg 12.15 mg/L come back through the density conversion to within 0.1 %.
+    CHECK(f.calcium_mg_per_l == doctest::Approx(40.0).epsilon(1e-3));
+    CHECK(f.magnesium_mg_per_l == doctest::Approx(12.15).epsilon(1e-3));
+    CHECK(f.hardness_calcium == doctest::Approx(2.497 * 40.0).epsilon(1e-3));
+    CHECK(f.hardness_magnesium == doctest::Approx(4.118 * 12.15).epsilon(1e-3));
+    CHECK(f.hardness_total == doctest::Approx(2.497 * 40.0 + 4.118 * 12.15).epsilon(1e-3));
+    // Alkalinity 100 < hardness 149.9: carbonate hardness 100, non-carbonate 49.9 (2340).
+    CHECK(f.hardness_carbonate == doctest::Approx(100.0).epsilon(1e-3));
+    CHECK(f.hardness_non_carbonate == doctest::Approx(2.497 * 40.0 + 4.118 * 12.15 - 100.0).epsilon(5e-3));
+}
+
+TEST_CASE("total (M) and phenolphthalein (P) alkalinity, Standard Methods 2320") {
+    const auto ws = waters_of(analyses);
+    {
+        // The total alkalinity given comes back as M, 100 mg/L as CaCO3.
+        const auto f = water_figures(core(), water(ws, "hard").result);
+        CHECK(f.alkalinity_total_m == doctest::Approx(100.0).epsilon(1e-3));
+        // pH 7.5 is below the phenolphthalein end point: no P, some acidity to pH 8.3 instead.
+        CHECK(f.alkalinity_phenolphthalein_p == 0.0);
+        CHECK(f.acidity_to_ph_8_3 > 0.0);
+    }
+    {
+        // Sodium carbonate, 1 mmol/L: M = 2 meq/L = 100.1 mg/L as CaCO3, and P = M/2, which in
+        // Standard Methods 2320 Table 2320:I (P = T/2) means all of it is carbonate.
+        const auto f = water_figures(core(), water(ws, "soda").result);
+        CHECK(f.alkalinity_total_m == doctest::Approx(2.0 * mg_caco3_per_meq).epsilon(2e-3));
+        CHECK(f.alkalinity_phenolphthalein_p == doctest::Approx(f.alkalinity_total_m / 2.0).epsilon(1e-6));
+        CHECK(f.acidity_to_ph_8_3 == 0.0);
+    }
+    {
+        // Sodium bicarbonate, 1 mmol/L: its pH is near 8.3, so P is nearly 0 (Table 2320:I:
+        // P = 0, all bicarbonate) while M is 1 meq/L.
+        const auto f = water_figures(core(), water(ws, "bicarbonate").result);
+        CHECK(f.alkalinity_total_m == doctest::Approx(mg_caco3_per_meq).epsilon(2e-3));
+        CHECK(f.alkalinity_phenolphthalein_p + f.acidity_to_ph_8_3 < 0.02 * f.alkalinity_total_m);
+    }
+    {
+        // Carbonic water, charge-balanced (its pH near 5.4), so its alkalinity is its sodium,
+        // 0.1 meq/L, the charge the carbonate and hydroxide balance. The acidity
+        // to pH 8.3 is the carbon less the alkalinity, 0.9 meq/L = 45.0 mg/L as CaCO3
+        // (Standard Methods 2310, phenolphthalein acidity, at its equivalence point).
+        const auto f = water_figures(core(), water(ws, "carbonic").result);
+        CHECK(f.alkalinity_phenolphthalein_p == 0.0);
+        CHECK(f.acidity_to_ph_8_3 == doctest::Approx(0.9 * mg_caco3_per_meq).epsilon(1e-2));
+    }
+}
+
+TEST_CASE("dissolved solids by calculation, Standard Methods 1030 E and Hem (1985)") {
+    const auto ws = waters_of(analyses);
+    const auto f = water_figures(core(), water(ws, "hard").result);
+    // 1030 E: 0.6 x alkalinity (as CaCO3) + Na + K + Ca + Mg + Cl + SO4 (+ SiO3, NO3, F: none
+    // here). At pH 7.5 nearly all of the alkalinity is carbonate (OH- is 0.003 meq/L of 2).
+    const double sm_1030e = 0.6 * 100.0 + 23 + 3.9 + 40 + 12.15 + 71 + 96;
+    CHECK(f.tds_calculated_mg_per_l == doctest::Approx(sm_1030e).epsilon(3e-3));
+    // Hem (1985), USGS WSP 2254: bicarbonate x 0.4917; 100 mg/L as CaCO3 is 121.9 mg/L HCO3-.
+    const double hem = 0.4917 * 100.0 * 61.017 / 50.04 + 23 + 3.9 + 40 + 12.15 + 71 + 96;
+    CHECK(f.tds_calculated_mg_per_l == doctest::Approx(hem).epsilon(3e-3));
+    // A brine without carbon: the sum of the constituents, 1000 mg/L.
+    const auto b = water_figures(core(), water(ws, "brine_no_carbon").result);
+    CHECK(b.tds_calculated_mg_per_l == doctest::Approx(1000.0).epsilon(1e-3));
+}
+
+TEST_CASE("Larson-Skold index, Larson and Skold (1958)") {
+    // (Cl- + SO4^2-) / (HCO3- + CO3^2-), equivalents: (1 + 0.5) / 2.
+    CHECK(larson_skold(1.0, 0.5, 2.0) == doctest::Approx(0.75));
+    const auto ws = waters_of(analyses);
+    const auto f = water_figures(core(), water(ws, "hard").result);
+    // Cl 71 mg/L = 2.003 meq/L, SO4 96 mg/L = 1.999 meq/L, alkalinity 100 as CaCO3 = 1.998 meq/L.
+    REQUIRE(f.larson_skold_available);
+    CHECK(f.larson_skold == doctest::Approx((71.0 / 35.453 + 2.0 * 96.0 / 96.06) / (100.0 / 50.04)).epsilon(3e-3));
+    // About 2: above 1.2, read as high local corrosion rates (common reading, from memory).
+    CHECK(f.larson_skold_reading == "high local corrosion rates of steel likely");
+    // No carbonate: no index, with the reason.
+    const auto b = water_figures(core(), water(ws, "brine_no_carbon").result);
+    CHECK_FALSE(b.larson_skold_available);
+    CHECK(b.larson_skold_why_not.find("no carbonate alkalinity") != std::string::npos);
+}
+
+TEST_CASE("Puckorius index, Puckorius and Brooke (1991)") {
+    // pHeq = 1.465 log10(Alk) + 4.54: 1.465 x 2 + 4.54 = 7.47 at 100 mg/L as CaCO3.
+    CHECK(puckorius_ph_eq(100.0) == doctest::Approx(7.47));
+    // PSI = 2 pHs - pHeq: 2 x 7.0 - 7.47 = 6.53.
+    CHECK(puckorius(7.0, 100.0) == doctest::Approx(6.53));
+    const auto ws = waters_of(analyses);
+    const auto& w = water(ws, "hard");
+    REQUIRE(w.indices.available);
+    const auto f = water_figures(core(), w.result, &w.indices);
+    REQUIRE(f.puckorius_available);
+    CHECK(f.puckorius == doctest::Approx(2.0 * w.indices.ph_s - (1.465 * std::log10(100.0) + 4.54)).epsilon(1e-3));
+    // Without the Langelier pHs there is no index, and the reason says so.
+    const auto g = water_figures(core(), w.result);
+    CHECK_FALSE(g.puckorius_available);
+    CHECK(g.puckorius_why_not.find("pHs") != std::string::npos);
+    Indices none;
+    none.why_not = "test";
+    const auto h = water_figures(core(), w.result, &none);
+    CHECK_FALSE(h.puckorius_available);
+    CHECK(h.puckorius_why_not.find("unavailable") != std::string::npos);
+}
+
+TEST_CASE("Aggressive Index, AWWA C400") {
+    // AI = pH + log10(A H): 8.0 + log10(100 x 100) = 12.0.
+    CHECK(aggressive_index(8.0, 100.0, 100.0) == doctest::Approx(12.0));
+    const auto ws = waters_of(analyses);
+    const auto f = water_figures(core(), water(ws, "hard").result);
+    REQUIRE(f.aggressive_index_available);
+    // pH 7.5, A = 100, H = 2.497 x 40 = 99.88: AI = 11.9995, moderately aggressive (10 to 12).
+    CHECK(f.aggressive_index == doctest::Approx(7.5 + std::log10(100.0 * 2.497 * 40.0)).epsilon(1e-4));
+    CHECK(f.aggressive_index_reading == "moderately aggressive");
+    // No calcium, no alkalinity: no index, with the reason.
+    const auto b = water_figures(core(), water(ws, "brine_no_carbon").result);
+    CHECK_FALSE(b.aggressive_index_available);
+    CHECK(b.aggressive_index_why_not.find("calcium and total alkalinity") != std::string::npos);
+}
