@@ -4,11 +4,13 @@
 #include <doctest/doctest.h>
 
 #include <cmath>
+#include <nlohmann/json.hpp>
 #include <string>
 
 #include "deltag/case.hpp"
 #include "deltag/figures.hpp"
 #include "deltag/process.hpp"
+#include "deltag/report.hpp"
 
 using namespace deltag;
 using namespace deltag::process;
@@ -171,6 +173,10 @@ TEST_CASE("dissolved solids by calculation, Standard Methods 1030 E and Hem (198
 TEST_CASE("Larson-Skold index, Larson and Skold (1958)") {
     // (Cl- + SO4^2-) / (HCO3- + CO3^2-), equivalents: (1 + 0.5) / 2.
     CHECK(larson_skold(1.0, 0.5, 2.0) == doctest::Approx(0.75));
+    // The common reading (from memory): below 0.8, 0.8 to 1.2, above 1.2.
+    CHECK(larson_skold_reading(0.75) == "chloride and sulfate unlikely to upset protective films");
+    CHECK(larson_skold_reading(1.0) == "chloride and sulfate may upset protective films");
+    CHECK(larson_skold_reading(1.21) == "high local corrosion rates of steel likely");
     const auto ws = waters_of(analyses);
     const auto f = water_figures(core(), water(ws, "hard").result);
     // Cl 71 mg/L = 2.003 meq/L, SO4 96 mg/L = 1.999 meq/L, alkalinity 100 as CaCO3 = 1.998 meq/L.
@@ -189,6 +195,10 @@ TEST_CASE("Puckorius index, Puckorius and Brooke (1991)") {
     CHECK(puckorius_ph_eq(100.0) == doctest::Approx(7.47));
     // PSI = 2 pHs - pHeq: 2 x 7.0 - 7.47 = 6.53.
     CHECK(puckorius(7.0, 100.0) == doctest::Approx(6.53));
+    // Read as Ryznar's (from memory): below 6 scale-forming, 6 to 7 near balance, above 7 corrosive.
+    CHECK(puckorius_reading(5.5) == "scale-forming");
+    CHECK(puckorius_reading(6.53) == "near balance");
+    CHECK(puckorius_reading(7.2) == "corrosive");
     const auto ws = waters_of(analyses);
     const auto& w = water(ws, "hard");
     REQUIRE(w.indices.available);
@@ -212,11 +222,51 @@ TEST_CASE("Aggressive Index, AWWA C400") {
     const auto ws = waters_of(analyses);
     const auto f = water_figures(core(), water(ws, "hard").result);
     REQUIRE(f.aggressive_index_available);
-    // pH 7.5, A = 100, H = 2.497 x 40 = 99.88: AI = 11.9995, moderately aggressive (10 to 12).
+    // pH 7.5, A = 100, H = 2.497 x 40 = 99.88: AI = 7.5 + 3.9995 = 11.4995, moderately
+    // aggressive (10 to 12).
     CHECK(f.aggressive_index == doctest::Approx(7.5 + std::log10(100.0 * 2.497 * 40.0)).epsilon(1e-4));
     CHECK(f.aggressive_index_reading == "moderately aggressive");
+    // The AWWA C400 classes (from memory): 12 and above, 10 to 12, below 10.
+    CHECK(aggressive_index_reading(12.3) == "non-aggressive");
+    CHECK(aggressive_index_reading(11.99) == "moderately aggressive");
+    // 11.996 is shown as 12.00, and read as the 12.00 shown.
+    CHECK(aggressive_index_reading(11.996) == "non-aggressive");
+    CHECK(aggressive_index_reading(10.0) == "moderately aggressive");
+    CHECK(aggressive_index_reading(9.9) == "highly aggressive");
     // No calcium, no alkalinity: no index, with the reason.
     const auto b = water_figures(core(), water(ws, "brine_no_carbon").result);
     CHECK_FALSE(b.aggressive_index_available);
     CHECK(b.aggressive_index_why_not.find("calcium and total alkalinity") != std::string::npos);
+}
+
+TEST_CASE("the figures stand in the JSON (new keys) and in the text report") {
+    const auto ws = waters_of(analyses);
+    const auto& w = water(ws, "hard");
+    const std::vector<io::ReportItem> items{io::ReportItem{"water", w.result, w.indices, std::nullopt}};
+    const auto j = nlohmann::json::parse(io::json_report(core(), io::ReportContext{}, items));
+    const auto& fig = j["results"][0]["figures"];
+    // The same numbers as the formulas on the analysis (2340 B, 2320, AWWA C400).
+    CHECK(fig["hardness_mg_per_l_as_caco3"]["total"].get<double>() ==
+          doctest::Approx(2.497 * 40.0 + 4.118 * 12.15).epsilon(1e-3));
+    CHECK(fig["alkalinity_mg_per_l_as_caco3"]["total_m"].get<double>() == doctest::Approx(100.0).epsilon(1e-3));
+    CHECK(fig["alkalinity_mg_per_l_as_caco3"]["phenolphthalein_p"].get<double>() == 0.0);
+    CHECK(fig["aggressive_index"]["value"].get<double>() ==
+          doctest::Approx(7.5 + std::log10(100.0 * 2.497 * 40.0)).epsilon(1e-4));
+    CHECK(fig["puckorius"]["value"].is_number());
+    CHECK(fig["larson_skold"]["unavailable_because"].is_null());
+    // The core keys are still there (interface contract).
+    for (const char* key : {"label", "temperature_c", "pH", "pe", "ionic_strength", "charge_balance_error_percent",
+                            "totals", "species", "saturation", "transfers", "gases", "warnings"})
+        CHECK(j["results"][0].contains(key));
+    // Without carbonate the index is null with its reason.
+    const auto& b = water(ws, "brine_no_carbon");
+    const auto jb = nlohmann::json::parse(
+        io::json_report(core(), io::ReportContext{}, {io::ReportItem{"water", b.result, b.indices, std::nullopt}}));
+    CHECK(jb["results"][0]["figures"]["larson_skold"]["value"].is_null());
+    CHECK(jb["results"][0]["figures"]["larson_skold"]["unavailable_because"].get<std::string>().find("carbonate") !=
+          std::string::npos);
+    const std::string text = io::text_report(core(), io::ReportContext{}, items);
+    CHECK(text.find("hardness as CaCO3") != std::string::npos);
+    CHECK(text.find("M 100.0 mg/L (to pH 4.5)") != std::string::npos);
+    CHECK(text.find("Aggressive Index      11.50: moderately aggressive (AWWA C400)") != std::string::npos);
 }

@@ -39,6 +39,12 @@ double puckorius(double ph_s, double total_alkalinity_mg_caco3);
 // mg/L as CaCO3.
 double aggressive_index(double ph, double total_alkalinity_mg_caco3, double calcium_hardness_mg_caco3);
 
+// Each index in words, read at the two decimals a report shows (so the words agree with the
+// number printed). The classes and their sources are in src/process/figures.cpp.
+std::string larson_skold_reading(double index);
+std::string puckorius_reading(double index);
+std::string aggressive_index_reading(double index);
+
 // --- the figures of one water ------------------------------------------------------------
 
 struct WaterFigures {

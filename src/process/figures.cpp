@@ -59,6 +59,37 @@ double aggressive_index(double ph, double total_alkalinity_mg_caco3, double calc
 }
 
 namespace {
+// An index is read at the two decimals it is shown with, so the words never contradict the
+// number printed beside them (11.9995 shows as 12.00 and reads as 12.00 does).
+double as_shown(double v) { return std::round(v * 100.0) / 100.0; }
+}  // namespace
+
+// Readings as commonly quoted for the 1958 study (Great Lakes waters, mild steel; written
+// from memory): below 0.8 chloride and sulfate are unlikely to upset the protective film;
+// 0.8 to 1.2 they may; above 1.2 high local corrosion rates are likely. Not meant for waters
+// of low alkalinity or brines.
+std::string larson_skold_reading(double index) {
+    const double v = as_shown(index);
+    return v < 0.8 ? "chloride and sulfate unlikely to upset protective films"
+           : v <= 1.2 ? "chloride and sulfate may upset protective films"
+                      : "high local corrosion rates of steel likely";
+}
+
+// Read as the Ryznar index is (Puckorius and Brooke 1991; written from memory): below about
+// 6 scale-forming, above about 7 corrosive. For cooling waters.
+std::string puckorius_reading(double index) {
+    const double v = as_shown(index);
+    return v < 6.0 ? "scale-forming" : v <= 7.0 ? "near balance" : "corrosive";
+}
+
+// AWWA C400 classes (written from memory): 12 and above non-aggressive, 10 to 12 moderately
+// aggressive, below 10 highly aggressive. Meant for asbestos-cement pipe.
+std::string aggressive_index_reading(double index) {
+    const double v = as_shown(index);
+    return v >= 12.0 ? "non-aggressive" : v >= 10.0 ? "moderately aggressive" : "highly aggressive";
+}
+
+namespace {
 
 double element_total(const equilibrium::SpeciationResult& r, const std::string& el) {
     const auto it = r.element_totals.find(el);
@@ -141,13 +172,7 @@ WaterFigures water_figures(const thermo::Database& db, const equilibrium::Specia
         const double so4 = 2.0 * component_total(db, r, "SO4^2-") * per_l;
         f.larson_skold = larson_skold(cl, so4, f.carbonate_alkalinity_meq_per_l);
         f.larson_skold_available = std::isfinite(f.larson_skold);
-        // Readings as commonly quoted for the 1958 study (Great Lakes waters, mild steel;
-        // written from memory): below 0.8 chloride and sulfate are unlikely to upset the
-        // protective film; 0.8 to 1.2 they may; above 1.2 high local corrosion rates are
-        // likely. Not meant for waters of low alkalinity or brines.
-        f.larson_skold_reading = f.larson_skold < 0.8   ? "chloride and sulfate unlikely to upset protective films"
-                                 : f.larson_skold <= 1.2 ? "chloride and sulfate may upset protective films"
-                                                         : "high local corrosion rates of steel likely";
+        f.larson_skold_reading = larson_skold_reading(f.larson_skold);
     }
     if (!f.larson_skold_available) {
         f.larson_skold = 0.0;
@@ -165,11 +190,7 @@ WaterFigures water_figures(const thermo::Database& db, const equilibrium::Specia
         f.puckorius_ph_eq = puckorius_ph_eq(f.alkalinity_total_m);
         f.puckorius = puckorius(indices->ph_s, f.alkalinity_total_m);
         f.puckorius_available = std::isfinite(f.puckorius);
-        // Read as the Ryznar index is (Puckorius and Brooke 1991; written from memory): below
-        // about 6 scale-forming, above about 7 corrosive. For cooling waters.
-        f.puckorius_reading = f.puckorius < 6.0   ? "scale-forming"
-                              : f.puckorius <= 7.0 ? "near balance"
-                                                   : "corrosive";
+        f.puckorius_reading = puckorius_reading(f.puckorius);
         if (!f.puckorius_available) {
             f.puckorius = f.puckorius_ph_eq = 0.0;
             f.puckorius_reading.clear();
@@ -183,11 +204,7 @@ WaterFigures water_figures(const thermo::Database& db, const equilibrium::Specia
     } else {
         f.aggressive_index = aggressive_index(r.ph, f.alkalinity_total_m, f.hardness_calcium);
         f.aggressive_index_available = std::isfinite(f.aggressive_index);
-        // AWWA C400 classes (written from memory): 12 and above non-aggressive, 10 to 12
-        // moderately aggressive, below 10 highly aggressive. Meant for asbestos-cement pipe.
-        f.aggressive_index_reading = f.aggressive_index >= 12.0  ? "non-aggressive"
-                                     : f.aggressive_index >= 10.0 ? "moderately aggressive"
-                                                                  : "highly aggressive";
+        f.aggressive_index_reading = aggressive_index_reading(f.aggressive_index);
         if (!f.aggressive_index_available) {
             f.aggressive_index = 0.0;
             f.aggressive_index_reading.clear();
