@@ -35,6 +35,14 @@ double larson_skold(double chloride_meq, double sulfate_meq, double carbonate_al
 double puckorius_ph_eq(double total_alkalinity_mg_caco3);
 double puckorius(double ph_s, double total_alkalinity_mg_caco3);
 
+// The Debye-Hueckel-Onsager equation, extended (Onsager 1927; see figures.cpp): the
+// equivalent conductance at 25 degC, S cm2/eq, of an ion of limiting conductance lambda0 and
+// charge z at ionic strength I; never below 0. B1 and B2: Robinson and Stokes (1959),
+// Electrolyte Solutions, written from memory.
+inline constexpr double onsager_b1_coefficient = 0.2289;  // (mol/L)^-1/2, water at 25 degC
+inline constexpr double onsager_b2_coefficient = 60.20;   // S cm2 mol^-1 (mol/L)^-1/2
+double ionic_conductance(double lambda0, int charge, double ionic_strength);
+
 // AWWA C400: AI = pH + log10(A H), A the total alkalinity and H the calcium hardness, both
 // mg/L as CaCO3.
 double aggressive_index(double ph, double total_alkalinity_mg_caco3, double calcium_hardness_mg_caco3);
@@ -70,6 +78,12 @@ struct WaterFigures {
     // Dissolved solids calculated from the analysis, mg/L (Standard Methods 1030 E; Hem 1985):
     // the constituents' masses with the carbonate species counted as carbonate (HCO3- x 0.4917).
     double tds_calculated_mg_per_l = 0.0;
+
+    // Specific conductance at 25 degC, uS/cm (Standard Methods 2510 calculation; Onsager 1927),
+    // and the share of the ionic charge held by ions without a limiting conductance (left out).
+    double specific_conductance_us_per_cm = 0.0;
+    double conductance_charge_left_out_percent = 0.0;
+    int conductance_ions_counted = 0;
 
     // Larson-Skold index; unavailable without carbonate alkalinity.
     bool larson_skold_available = false;

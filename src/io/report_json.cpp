@@ -150,6 +150,9 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
         fig["acidity_to_ph_8_3_mg_per_l_as_caco3"] = finite(f.acidity_to_ph_8_3, "acidity to pH 8.3");
         fig["carbonate_alkalinity_meq_per_l"] = finite(f.carbonate_alkalinity_meq_per_l, "carbonate alkalinity");
         fig["tds_calculated_mg_per_l"] = finite(f.tds_calculated_mg_per_l, "calculated dissolved solids");
+        fig["specific_conductance_25c_us_per_cm"] = finite(f.specific_conductance_us_per_cm, "specific conductance");
+        fig["conductance_charge_left_out_percent"] =
+            finite(f.conductance_charge_left_out_percent, "conductance charge left out");
         fig["larson_skold"] = index(f.larson_skold_available, f.larson_skold, f.larson_skold_reading,
                                     f.larson_skold_why_not, "Larson-Skold index");
         fig["puckorius"] = index(f.puckorius_available, f.puckorius, f.puckorius_reading, f.puckorius_why_not,

@@ -166,6 +166,12 @@ std::string figures_block(const thermo::Database& db, const equilibrium::Speciat
                        f.acidity_to_ph_8_3 > 0 ? fmt::format("; acidity to pH 8.3 {:.1f}", f.acidity_to_ph_8_3) : "");
     out += "  " + pad("dissolved solids", 22) +
            fmt::format("{:.0f} mg/L calculated, carbonate as CO3 (SM 1030 E)\n", f.tds_calculated_mg_per_l);
+    out += "  " + pad("conductance at 25 °C", 22) +
+           fmt::format("{:.4g} µS/cm calculated (SM 2510, Onsager){}\n", f.specific_conductance_us_per_cm,
+                       f.conductance_charge_left_out_percent >= 0.05
+                           ? fmt::format("; ion pairs with {:.1f} % of the charge left out",
+                                         f.conductance_charge_left_out_percent)
+                           : "");
     auto index_line = [&](std::string_view name, bool ok, double v, const std::string& reading, const std::string& why,
                           std::string_view extra) {
         out += "  " + pad(name, 22) +

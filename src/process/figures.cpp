@@ -26,12 +26,27 @@
 // Puckorius index: Puckorius, P. R. and Brooke, J. M. (1991), A new practical index for calcium
 //   carbonate scale prediction in cooling tower systems, Corrosion 47, 280-284:
 //   PSI = 2 pHs - pHeq, pHeq = 1.465 log10(total alkalinity, mg/L as CaCO3) + 4.54.
+// Specific conductance at 25 degC, by the ionic-conductivity method (the calculation of
+//   Standard Methods 2510 and 1030 E): the sum over the ions of |z| c lambda, each ion's
+//   equivalent conductance lambda lowered from its limiting value lambda0 by the
+//   Debye-Hueckel-Onsager equation (Onsager 1927) in its extended form,
+//     lambda_i = lambda0_i - (B1 z_i^2 lambda0_i + B2 |z_i| / 2) sqrt(I) / (1 + sqrt(I)),
+//   B1 = 0.2289 (mol/L)^-1/2 and B2 = 60.20 S cm2 mol^-1 (mol/L)^-1/2 for water at 25 degC
+//   (Robinson and Stokes 1959, Electrolyte Solutions; written from memory), the 1 + sqrt(I)
+//   being the ion-size term with a distance of closest approach near 3 Angstrom. Exact in
+//   form for a 1:1 salt; for multivalent ions the charge terms are taken as for a symmetric
+//   salt, an approximation of a few per cent. lambda0 at 25 degC: CRC Handbook of Chemistry
+//   and Physics, "Ionic conductivity and diffusion at infinite dilution" (written from
+//   memory). The species come from the water's own speciation (at its own temperature); the
+//   conductance is that of those species at 25 degC. Charged ion pairs have no lambda0 in
+//   the table and are left out; the share of the ionic charge they hold is reported.
 // Aggressive Index: AWWA C400 (asbestos-cement pipe): AI = pH + log10(A H), A total
 //   alkalinity and H calcium hardness, mg/L as CaCO3.
 #include "deltag/figures.hpp"
 
 #include <algorithm>
 #include <cmath>
+#include <string_view>
 
 #include "deltag/chem.hpp"
 
@@ -52,6 +67,14 @@ double puckorius_ph_eq(double total_alkalinity_mg_caco3) { return 1.465 * std::l
 
 double puckorius(double ph_s, double total_alkalinity_mg_caco3) {
     return 2.0 * ph_s - puckorius_ph_eq(total_alkalinity_mg_caco3);
+}
+
+double ionic_conductance(double lambda0, int charge, double ionic_strength) {
+    const double root_i = std::sqrt(std::max(ionic_strength, 0.0));
+    const double z = std::abs(static_cast<double>(charge));
+    const double lambda = lambda0 - (onsager_b1_coefficient * z * z * lambda0 + onsager_b2_coefficient * z / 2.0) * root_i /
+                                        (1.0 + root_i);
+    return std::max(lambda, 0.0);
 }
 
 double aggressive_index(double ph, double total_alkalinity_mg_caco3, double calcium_hardness_mg_caco3) {
@@ -90,6 +113,27 @@ std::string aggressive_index_reading(double index) {
 }
 
 namespace {
+
+// Limiting equivalent conductances at 25 degC, S cm2 per equivalent (per mole of charge):
+// CRC Handbook of Chemistry and Physics, "Ionic conductivity and diffusion at infinite
+// dilution"; written from memory.
+struct LimitingConductance {
+    std::string_view species;
+    double lambda0;
+};
+constexpr LimitingConductance limiting_conductances[] = {
+    {"H+", 349.65},    {"OH-", 198.0},    {"Na+", 50.08},     {"K+", 73.48},      {"Li+", 38.66},
+    {"NH4+", 73.5},    {"Ca^2+", 59.47},  {"Mg^2+", 53.0},    {"Sr^2+", 59.4},    {"Ba^2+", 63.6},
+    {"Fe^2+", 54.0},   {"Mn^2+", 53.5},   {"Cu^2+", 53.6},    {"Zn^2+", 52.8},    {"Cl-", 76.31},
+    {"F-", 55.4},      {"Br-", 78.1},     {"NO3-", 71.42},    {"NO2-", 71.8},     {"HCO3-", 44.5},
+    {"CO3^2-", 69.3},  {"SO4^2-", 80.0},  {"HSO4-", 52.0},    {"HS-", 65.0},
+};
+
+std::optional<double> limiting_conductance(std::string_view name) {
+    for (const auto& l : limiting_conductances)
+        if (l.species == name) return l.lambda0;
+    return std::nullopt;
+}
 
 double element_total(const equilibrium::SpeciationResult& r, const std::string& el) {
     const auto it = r.element_totals.find(el);
@@ -165,6 +209,26 @@ WaterFigures water_figures(const thermo::Database& db, const equilibrium::Specia
     // Carbonate species as CO3^2-: 60.009 / 2 mg per meq (HCO3- x 0.4917 in Hem's form).
     tds += f.carbonate_alkalinity_meq_per_l * chem::parse_formula("CO3").molar_mass() / 2.0;
     f.tds_calculated_mg_per_l = tds;
+
+    // Specific conductance at 25 degC (Standard Methods 2510; Onsager 1927).
+    {
+        double kappa = 0.0, charge_all = 0.0, charge_left_out = 0.0;
+        for (const auto& s : r.species) {
+            const int z = db.species()[s.species].formula.charge;
+            if (z == 0 || db.species()[s.species].role == thermo::ComponentRole::electron) continue;
+            const double c_eq = std::abs(z) * s.molality * r.kg_water_per_litre;  // eq/L
+            charge_all += c_eq;
+            const auto l0 = limiting_conductance(s.name);
+            if (!l0) {
+                charge_left_out += c_eq;
+                continue;
+            }
+            f.conductance_ions_counted += 1;
+            kappa += c_eq * ionic_conductance(*l0, z, r.ionic_strength);
+        }
+        f.specific_conductance_us_per_cm = std::max(kappa, 0.0) * 1000.0;  // S cm2/eq x eq/L -> uS/cm
+        f.conductance_charge_left_out_percent = charge_all > 0 ? 100.0 * charge_left_out / charge_all : 0.0;
+    }
 
     // Larson-Skold (1958).
     if (f.carbonate_alkalinity_meq_per_l > 0) {
