@@ -98,6 +98,15 @@ Cl = 100.0
 [water.pure]
 charge_balance = "pH"
 
+[water.sea_brine]
+pH = 7.8
+units = "mg/L"
+[water.sea_brine.analytes]
+Na = 21000
+Cl = 32400
+Ca = 800
+Alkalinity = { value = 250, as = "CaCO3" }
+
 [water.brine_no_carbon]
 pH = 7.0
 units = "mg/L"
@@ -329,4 +338,22 @@ TEST_CASE("specific conductance at 25 degC by the ionic-conductivity method (SM 
     const auto f = water_figures(core(), water(ws, "hard").result);
     CHECK(f.conductance_charge_left_out_percent > 0.0);
     CHECK(f.conductance_charge_left_out_percent < 10.0);
+}
+
+TEST_CASE("a note where the Langelier family stops being meaningful (Standard Methods 2330, Davies 1962)") {
+    const auto ws = waters_of(analyses);
+    // An invented brine, about twice seawater's salt: ionic strength above 0.5 mol/kgw.
+    const auto& b = water(ws, "sea_brine");
+    REQUIRE(b.result.ionic_strength > langelier_ionic_strength_limit);
+    const auto f = water_figures(core(), b.result, &b.indices);
+    REQUIRE(f.notes.size() == 1);
+    CHECK(f.notes[0].find("stop being meaningful") != std::string::npos);
+    CHECK(f.notes[0].find("Stiff-Davis") != std::string::npos);
+    // A fresh water carries no such note.
+    CHECK(water_figures(core(), water(ws, "hard").result).notes.empty());
+    // The note stands in the text block and the JSON.
+    const std::vector<io::ReportItem> items{io::ReportItem{"water", b.result, b.indices, std::nullopt}};
+    CHECK(io::text_report(core(), io::ReportContext{}, items).find("stop being meaningful") != std::string::npos);
+    const auto j = nlohmann::json::parse(io::json_report(core(), io::ReportContext{}, items));
+    CHECK(j["results"][0]["figures"]["notes"].size() == 1);
 }

@@ -7,6 +7,7 @@
 
 #include <optional>
 #include <string>
+#include <vector>
 
 #include "deltag/database.hpp"
 #include "deltag/process.hpp"
@@ -52,6 +53,13 @@ double aggressive_index(double ph, double total_alkalinity_mg_caco3, double calc
 std::string larson_skold_reading(double index);
 std::string puckorius_reading(double index);
 std::string aggressive_index_reading(double index);
+
+// The ionic strength past which the Langelier family of indices (Langelier, Ryznar,
+// Puckorius, Aggressive Index) stops being meaningful: 0.5 mol/kgw, the upper limit of the
+// Davies equation that Standard Methods 2330 uses for its activity coefficients (Davies
+// 1962; Standard Methods 2330, written from memory), some 25 000-30 000 mg/L of dissolved solids
+// (brackish water and brines, where the Stiff-Davis index of 1952 is used instead).
+inline constexpr double langelier_ionic_strength_limit = 0.5;
 
 // --- the figures of one water ------------------------------------------------------------
 
@@ -103,6 +111,9 @@ struct WaterFigures {
     double aggressive_index = 0.0;
     std::string aggressive_index_reading;
     std::string aggressive_index_why_not;
+
+    // What a reader must know beside the figures (an index past its range, ...).
+    std::vector<std::string> notes;
 };
 
 // The figures of a speciated water. `indices` (optional) gives the pHs for Puckorius.

@@ -161,6 +161,7 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
             f.puckorius_available ? ordered_json(finite(f.puckorius_ph_eq, "Puckorius pHeq")) : ordered_json(nullptr);
         fig["aggressive_index"] = index(f.aggressive_index_available, f.aggressive_index, f.aggressive_index_reading,
                                         f.aggressive_index_why_not, "Aggressive Index");
+        fig["notes"] = f.notes;
         j["figures"] = fig;
     }
     if (item.dose) {

@@ -183,6 +183,7 @@ std::string figures_block(const thermo::Database& db, const equilibrium::Speciat
                f.puckorius_available ? fmt::format(" (pHeq {:.2f})", f.puckorius_ph_eq) : "");
     index_line("Aggressive Index", f.aggressive_index_available, f.aggressive_index, f.aggressive_index_reading,
                f.aggressive_index_why_not, " (AWWA C400)");
+    for (const auto& n : f.notes) out += "  " + pad("note", 22) + n + "\n";
     return out;
 }
 

@@ -46,6 +46,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <sstream>
 #include <string_view>
 
 #include "deltag/chem.hpp"
@@ -159,6 +160,13 @@ double reported_mass_g_per_mol(const thermo::Database& db, std::size_t component
         if (a.component == component && a.kind == thermo::Analyte::Kind::total && a.per_component > 0)
             return a.mass_formula.molar_mass() / a.per_component;
     return db.species()[component].formula.molar_mass();
+}
+
+std::string fmt_number(double v) {
+    std::ostringstream o;
+    o.precision(3);
+    o << v;
+    return o.str();
 }
 
 bool only_h_and_o(const chem::Formula& f) {
@@ -275,6 +283,13 @@ WaterFigures water_figures(const thermo::Database& db, const equilibrium::Specia
             f.aggressive_index_why_not = "the index is not finite for this water";
         }
     }
+    // Past the Davies range the Langelier family says little (Standard Methods 2330).
+    if (r.ionic_strength > langelier_ionic_strength_limit)
+        f.notes.push_back(fmt_number(r.ionic_strength) + " mol/kgw of ionic strength is past the " +
+                          fmt_number(langelier_ionic_strength_limit) +
+                          " mol/kgw where the Langelier, Ryznar, Puckorius and Aggressive indices stop being "
+                          "meaningful (Standard Methods 2330); for a brine read the calcite saturation index, and "
+                          "the Stiff-Davis index (not computed here) is the one the trade uses");
     return f;
 }
 
