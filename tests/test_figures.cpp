@@ -338,6 +338,11 @@ TEST_CASE("specific conductance at 25 degC by the ionic-conductivity method (SM 
     const auto f = water_figures(core(), water(ws, "hard").result);
     CHECK(f.conductance_charge_left_out_percent > 0.0);
     CHECK(f.conductance_charge_left_out_percent < 10.0);
+    // Standard Methods 1030 E (from memory): the calculated dissolved solids over the
+    // conductance lie between 0.55 and 0.7 for ordinary waters.
+    const double ratio = f.tds_calculated_mg_per_l / f.specific_conductance_us_per_cm;
+    CHECK(ratio > 0.55);
+    CHECK(ratio < 0.7);
 }
 
 TEST_CASE("a note where the Langelier family stops being meaningful (Standard Methods 2330, Davies 1962)") {
