@@ -6,6 +6,7 @@
 #include <nlohmann/json.hpp>
 #include <stdexcept>
 
+#include "deltag/figures.hpp"
 #include "deltag/plot.hpp"
 #include "deltag/report.hpp"
 
@@ -125,6 +126,43 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
                          value(ix.available, ix.carbonate_alkalinity_eq, "pHs carbonate alkalinity")}};
     } else {
         j["indices"] = nullptr;
+    }
+    {
+        // The figures of a lab sheet (src/process/figures.cpp names each method).
+        const auto f = process::water_figures(db, r, item.indices ? &*item.indices : nullptr);
+        auto index = [](bool ok, double v, const std::string& reading, const std::string& why, std::string_view what) {
+            ordered_json o;
+            o["value"] = ok ? ordered_json(finite(v, what)) : ordered_json(nullptr);
+            o["reading"] = ok ? ordered_json(reading) : ordered_json(nullptr);
+            o["unavailable_because"] = ok ? ordered_json(nullptr) : ordered_json(why);
+            return o;
+        };
+        ordered_json fig;
+        fig["hardness_mg_per_l_as_caco3"] = {{"total", finite(f.hardness_total, "total hardness")},
+                                             {"calcium", finite(f.hardness_calcium, "calcium hardness")},
+                                             {"magnesium", finite(f.hardness_magnesium, "magnesium hardness")},
+                                             {"carbonate", finite(f.hardness_carbonate, "carbonate hardness")},
+                                             {"non_carbonate", finite(f.hardness_non_carbonate, "non-carbonate hardness")}};
+        fig["calcium_mg_per_l"] = finite(f.calcium_mg_per_l, "calcium");
+        fig["magnesium_mg_per_l"] = finite(f.magnesium_mg_per_l, "magnesium");
+        fig["alkalinity_mg_per_l_as_caco3"] = {{"total_m", finite(f.alkalinity_total_m, "M alkalinity")},
+                                               {"phenolphthalein_p", finite(f.alkalinity_phenolphthalein_p, "P alkalinity")}};
+        fig["acidity_to_ph_8_3_mg_per_l_as_caco3"] = finite(f.acidity_to_ph_8_3, "acidity to pH 8.3");
+        fig["carbonate_alkalinity_meq_per_l"] = finite(f.carbonate_alkalinity_meq_per_l, "carbonate alkalinity");
+        fig["tds_calculated_mg_per_l"] = finite(f.tds_calculated_mg_per_l, "calculated dissolved solids");
+        fig["specific_conductance_25c_us_per_cm"] = finite(f.specific_conductance_us_per_cm, "specific conductance");
+        fig["conductance_charge_left_out_percent"] =
+            finite(f.conductance_charge_left_out_percent, "conductance charge left out");
+        fig["larson_skold"] = index(f.larson_skold_available, f.larson_skold, f.larson_skold_reading,
+                                    f.larson_skold_why_not, "Larson-Skold index");
+        fig["puckorius"] = index(f.puckorius_available, f.puckorius, f.puckorius_reading, f.puckorius_why_not,
+                                 "Puckorius index");
+        fig["puckorius"]["ph_eq"] =
+            f.puckorius_available ? ordered_json(finite(f.puckorius_ph_eq, "Puckorius pHeq")) : ordered_json(nullptr);
+        fig["aggressive_index"] = index(f.aggressive_index_available, f.aggressive_index, f.aggressive_index_reading,
+                                        f.aggressive_index_why_not, "Aggressive Index");
+        fig["notes"] = f.notes;
+        j["figures"] = fig;
     }
     if (item.dose) {
         j["dose"] = {{"reagent", item.dose->reagent},

@@ -6,6 +6,7 @@
 #include <cmath>
 
 #include "deltag/constants.hpp"
+#include "deltag/figures.hpp"
 #include "deltag/report.hpp"
 
 namespace deltag::io {
@@ -150,6 +151,42 @@ std::string saturation_block(const equilibrium::SpeciationResult& r) {
     return out;
 }
 
+// The figures of a lab sheet, one line each (methods named in src/process/figures.cpp).
+std::string figures_block(const thermo::Database& db, const equilibrium::SpeciationResult& r,
+                          const process::Indices* ix) {
+    const auto f = process::water_figures(db, r, ix);
+    std::string out;
+    out += "  " + pad("hardness as CaCO3", 22) +
+           fmt::format("{:.1f} mg/L: Ca {:.1f}, Mg {:.1f}; carbonate {:.1f}, non-carbonate {:.1f} (SM 2340 B)\n",
+                       f.hardness_total, f.hardness_calcium, f.hardness_magnesium, f.hardness_carbonate,
+                       f.hardness_non_carbonate);
+    out += "  " + pad("alkalinity as CaCO3", 22) +
+           fmt::format("M {:.1f} mg/L (to pH 4.5), P {:.1f} mg/L (to pH 8.3){} (SM 2320)\n", f.alkalinity_total_m,
+                       f.alkalinity_phenolphthalein_p,
+                       f.acidity_to_ph_8_3 > 0 ? fmt::format("; acidity to pH 8.3 {:.1f}", f.acidity_to_ph_8_3) : "");
+    out += "  " + pad("dissolved solids", 22) +
+           fmt::format("{:.0f} mg/L calculated, carbonate as CO3 (SM 1030 E)\n", f.tds_calculated_mg_per_l);
+    out += "  " + pad("conductance at 25 °C", 22) +
+           fmt::format("{:.4g} µS/cm calculated (SM 2510, Onsager){}\n", f.specific_conductance_us_per_cm,
+                       f.conductance_charge_left_out_percent >= 0.05
+                           ? fmt::format("; ion pairs with {:.1f} % of the charge left out",
+                                         f.conductance_charge_left_out_percent)
+                           : "");
+    auto index_line = [&](std::string_view name, bool ok, double v, const std::string& reading, const std::string& why,
+                          std::string_view extra) {
+        out += "  " + pad(name, 22) +
+               (ok ? fmt::format("{:.2f}: {}{}\n", v, reading, extra) : "unavailable, because " + why + "\n");
+    };
+    index_line("Larson-Skold", f.larson_skold_available, f.larson_skold, f.larson_skold_reading,
+               f.larson_skold_why_not, "");
+    index_line("Puckorius", f.puckorius_available, f.puckorius, f.puckorius_reading, f.puckorius_why_not,
+               f.puckorius_available ? fmt::format(" (pHeq {:.2f})", f.puckorius_ph_eq) : "");
+    index_line("Aggressive Index", f.aggressive_index_available, f.aggressive_index, f.aggressive_index_reading,
+               f.aggressive_index_why_not, " (AWWA C400)");
+    for (const auto& n : f.notes) out += "  " + pad("note", 22) + n + "\n";
+    return out;
+}
+
 std::string indices_block(const process::Indices& ix) {
     std::string out;
     if (ix.available) {
@@ -256,6 +293,7 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx, co
         out += rule('=');
         out += summary_block(db, r);
         if (item.indices) out += indices_block(*item.indices);
+        out += figures_block(db, r, item.indices ? &*item.indices : nullptr);
         if (item.dose) {
             const auto& d = *item.dose;
             out += "  " + pad("dose", 22) +
