@@ -200,6 +200,29 @@ TEST_CASE("every concentration unit is accepted, for the water and for one analy
         CHECK(c.waters[0].units == u);
         CHECK(c.waters[0].analytes[0].unit == u);
     }
+    // The Greek mu (U+03BC) looks like the micro sign (U+00B5) and is accepted too.
+    const auto c = parse_case("[water.a.analytes]\nCa = { value = 1, unit = \"\u03BCg/L\" }\n", "test.toml");
+    CHECK(c.waters[0].analytes[0].unit == "\u03BCg/L");
+}
+
+TEST_CASE("values below the detection limit, as a lab writes them") {
+    const auto c = parse_case("[water.a]\nbelow_detection = \"limit\"\n[water.a.analytes]\nFe = \"<0.05\"\n"
+                              "Mn = { value = \" < 2.5e-3 \", unit = \"mmol/L\" }\nCa = 40\n",
+                              "test.toml");
+    const auto& w = c.waters[0];
+    CHECK(w.below_detection == "limit");
+    CHECK(w.below_detection_where.line == 2);
+    REQUIRE(w.analytes.size() == 3);
+    CHECK(w.analytes[0].below_detection);
+    CHECK(w.analytes[0].value == 0.05);
+    CHECK(w.analytes[1].below_detection);
+    CHECK(w.analytes[1].value == 2.5e-3);
+    CHECK(w.analytes[1].unit == "mmol/L");
+    CHECK_FALSE(w.analytes[2].below_detection);
+    // The default rule is half the limit.
+    CHECK(parse_case("[water.a]\n", "test.toml").waters[0].below_detection == "half");
+    for (const auto& rule : deltag::below_detection_rules())
+        CHECK(parse_case("[water.a]\nbelow_detection = \"" + rule + "\"\n", "test.toml").waters[0].below_detection == rule);
 }
 
 TEST_CASE("the range limits themselves are accepted") {
@@ -330,8 +353,8 @@ TEST_CASE("errors: the keys of a water") {
     }
     SUBCASE("unknown unit, nearest name suggested") {
         check_error("[water.a]\nunits = \"mg/l\"\n", "water.a.units", 2,
-                    "unknown concentration unit 'mg/l'; expected one of: mg/L, ug/L, mmol/L, umol/L, mol/L, "
-                    "meq/L, mg/kg, mol/kgw, mmol/kgw",
+                    "unknown concentration unit 'mg/l'; expected one of: mg/L, ug/L, µg/L, mmol/L, umol/L, "
+                    "µmol/L, mol/L, meq/L, mg/kg, ppm, mol/kgw, mmol/kgw",
                     "mg/L");
     }
     SUBCASE("analytes not a table") {
@@ -381,10 +404,38 @@ TEST_CASE("errors: analytes") {
         check_error("[water.a.analytes]\nNO3 = { value = -2, as = \"N\" }\n", "water.a.analytes.NO3", 2,
                     "expected a concentration of zero or more, found -2");
     }
-    SUBCASE("a value that is not a number") {
-        check_error("[water.a]\n[water.a.analytes]\nCa = \"<0.1\"\n", "water.a.analytes.Ca", 3,
-                    "expected a concentration: a number, or a table { value = ..., unit = ..., as = ... }; "
-                    "found a string");
+    SUBCASE("a value that is neither a number nor a table") {
+        check_error("[water.a]\n[water.a.analytes]\nCa = [0.1]\n", "water.a.analytes.Ca", 3,
+                    "expected a concentration: a number, a value below the detection limit such as \"<0.05\", or a "
+                    "table { value = ..., unit = ..., as = ... }; found an array");
+    }
+    SUBCASE("a string that is not a value below detection") {
+        check_error("[water.a]\n[water.a.analytes]\nCa = \"0.1\"\n", "water.a.analytes.Ca", 3,
+                    "expected a concentration (a number, without quotes) or a value below the detection limit, "
+                    "written \"<\" and the limit, such as \"<0.05\"; found \"0.1\"");
+        check_error("[water.a.analytes]\nFe = \"ND\"\n", "water.a.analytes.Fe", 2, "found \"ND\"");
+    }
+    SUBCASE("a value below detection whose limit is not a number") {
+        for (const char* bad : {"<", "< ", "<0.05 mg/L", "<abc", "<0x10", "<inf", "<1e999", "<-0.05", "<<0.05"}) {
+            CAPTURE(bad);
+            check_error("[water.a.analytes]\nFe = \"" + std::string(bad) + "\"\n", "water.a.analytes.Fe", 2,
+                        "\": the limit is not a number");
+        }
+    }
+    SUBCASE("a detection limit of zero") {
+        check_error("[water.a.analytes]\nFe = \"<0\"\n", "water.a.analytes.Fe", 2,
+                    "expected a detection limit above zero after \"<\", found \"<0\"; a value measured as zero "
+                    "is written 0, without quotes");
+    }
+    SUBCASE("a value below detection in a table: the key is that of the value") {
+        check_error("[water.a.analytes.Fe]\nunit = \"mg/L\"\nvalue = \"<x\"\n", "water.a.analytes.Fe.value", 3,
+                    "the limit is not a number");
+    }
+    SUBCASE("an unknown rule for values below detection") {
+        check_error("[water.a]\nbelow_detection = \"halve\"\n", "water.a.below_detection", 2,
+                    "expected what a value below its detection limit (\"<0.05\") counts as: \"half\" the limit, "
+                    "\"zero\" or the \"limit\" itself; found \"halve\"",
+                    "half");
     }
     SUBCASE("a value that is not finite") {
         check_error("[water.a.analytes]\nCa = nan\n", "water.a.analytes.Ca", 2, "expected a finite number");
@@ -402,8 +453,8 @@ TEST_CASE("errors: analytes") {
                     "unknown key; expected one of: value, unit, as", "unit");
     }
     SUBCASE("a table with an unknown unit") {
-        check_error("[water.a.analytes]\nCa = { value = 4, unit = \"ppm\" }\n", "water.a.analytes.Ca.unit", 2,
-                    "unknown concentration unit 'ppm'");
+        check_error("[water.a.analytes]\nCa = { value = 4, unit = \"ppb\" }\n", "water.a.analytes.Ca.unit", 2,
+                    "unknown concentration unit 'ppb'", "ppm");
     }
     SUBCASE("a table with an empty 'as'") {
         check_error("[water.a.analytes]\nNO3 = { value = 4, as = \"\" }\n", "water.a.analytes.NO3.as", 2,

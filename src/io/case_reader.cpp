@@ -33,6 +33,7 @@
 #include <filesystem>
 #include <fstream>
 #include <map>
+#include <regex>
 #include <sstream>
 #include <tuple>
 #include <utility>
@@ -56,7 +57,7 @@ const std::vector<std::string> top_level_keys = {"title", "database", "activity_
 const std::vector<std::string> water_keys = {"temperature_c",  "pH",    "pe",
                                              "eh_mv",          "reference", "dissolved_oxygen_mg_per_l",
                                              "charge_balance", "units", "density_kg_per_l",
-                                             "analytes"};
+                                             "below_detection", "analytes"};
 // Ways of giving a water's redox level; at most one of them.
 const std::vector<std::string> redox_keys = {"pe", "eh_mv", "dissolved_oxygen_mg_per_l"};
 const std::vector<std::string> analyte_keys = {"value", "unit", "as"};
@@ -76,7 +77,7 @@ std::optional<double> ranged(tomlu::TableReader& r, std::string_view key, double
 std::string checked_unit(tomlu::TableReader& r, std::string_view key) {
     const std::string u = *r.string(key);
     const auto& units = concentration_units();
-    if (std::find(units.begin(), units.end(), u) == units.end())
+    if (!is_concentration_unit(u))
         r.fail(key, "unknown concentration unit '" + u + "'; expected one of: " + name_list(units),
                nearest_name(u, units));
     return u;
@@ -111,6 +112,29 @@ SourceLocation key_where(const toml::table& t, std::string_view key, const std::
     return tomlu::where(t.source(), file);
 }
 
+// A value below the detection limit as a lab writes it: "<0.05" (spaces allowed around the
+// number). Returns the limit; anything else in quotes is an error at `where` and `key`.
+double below_detection_limit(const std::string& text, const SourceLocation& where, const std::string& key) {
+    const std::string form = "a value below the detection limit, written \"<\" and the limit, such as \"<0.05\"";
+    std::size_t i = text.find_first_not_of(' ');
+    if (i == std::string::npos || text[i] != '<')
+        throw InputError(where, key,
+                         "expected a concentration (a number, without quotes) or " + form + "; found \"" + text + "\"");
+    // The limit: a plain decimal number ("0.05", "5e-3"), spaces around it allowed.
+    static const std::regex decimal(R"(\s*([0-9]+\.?[0-9]*|\.[0-9]+)([eE][+-]?[0-9]+)?\s*)");
+    const std::string rest = text.substr(i + 1);
+    if (!std::regex_match(rest, decimal))
+        throw InputError(where, key, "expected " + form + "; found \"" + text + "\": the limit is not a number");
+    const double limit = std::strtod(rest.c_str(), nullptr);
+    if (!std::isfinite(limit))
+        throw InputError(where, key, "expected " + form + "; found \"" + text + "\": the limit is not a number");
+    if (!(limit > 0.0))
+        throw InputError(where, key,
+                         "expected a detection limit above zero after \"<\", found \"" + text +
+                             "\"; a value measured as zero is written 0, without quotes");
+    return limit;
+}
+
 AnalyteValue read_analyte(const std::string& name, const toml::node& node, const std::string& file,
                           const std::string& water_prefix) {
     AnalyteValue a;
@@ -121,9 +145,20 @@ AnalyteValue read_analyte(const std::string& name, const toml::node& node, const
         a.value = node.is_integer() ? static_cast<double>(node.as_integer()->get())
                                     : node.as_floating_point()->get();
         if (!std::isfinite(a.value)) throw InputError(a.where, a.key, "expected a finite number");
+    } else if (node.is_string()) {
+        a.value = below_detection_limit(node.as_string()->get(), a.where, a.key);
+        a.below_detection = true;
     } else if (const toml::table* t = node.as_table()) {
         tomlu::TableReader r(*t, file, a.key);
-        a.value = r.require_number("value", "the concentration, a number (value = ...)");
+        if (const toml::node* v = t->get("value"); v && v->is_string()) {
+            const std::string vkey = tomlu::join_key(a.key, "value");
+            a.value = below_detection_limit(v->as_string()->get(), tomlu::where(v->source(), file), vkey);
+            a.below_detection = true;
+            (void)r.node("value");
+        } else {
+            a.value = r.require_number("value", "the concentration, a number (value = ...) or a value below the "
+                                                "detection limit (value = \"<0.05\")");
+        }
         if (r.has("unit")) a.unit = checked_unit(r, "unit");
         if (auto as = r.string("as")) {
             if (as->empty())
@@ -134,8 +169,8 @@ AnalyteValue read_analyte(const std::string& name, const toml::node& node, const
         r.finish(analyte_keys);
     } else {
         throw InputError(a.where, a.key,
-                         "expected a concentration: a number, or a table { value = ..., unit = ..., "
-                         "as = ... }; found " + tomlu::type_name(node));
+                         "expected a concentration: a number, a value below the detection limit such as \"<0.05\", "
+                         "or a table { value = ..., unit = ..., as = ... }; found " + tomlu::type_name(node));
     }
     if (a.value < 0.0)
         throw InputError(a.where, a.key,
@@ -206,6 +241,16 @@ WaterAnalysis read_water(const std::string& name, const toml::node& node, const 
     }
     if (r.has("units")) w.units = checked_unit(r, "units");
     w.density_kg_per_l = ranged(r, "density_kg_per_l", 0.9, 1.5, "a solution density", " kg/L");
+    if (auto rule = r.string("below_detection")) {
+        const auto& rules = below_detection_rules();
+        if (!is_one_of(*rule, rules))
+            r.fail("below_detection",
+                   "expected what a value below its detection limit (\"<0.05\") counts as: \"half\" the limit, "
+                   "\"zero\" or the \"limit\" itself; found \"" + *rule + "\"",
+                   nearest_name(*rule, rules));
+        w.below_detection = *rule;
+        w.below_detection_where = r.location("below_detection");
+    }
 
     if (const toml::table* analytes = r.table("analytes")) {
         for (const auto& e : in_file_order(*analytes, file))
