@@ -1826,10 +1826,15 @@ TEST_CASE("errors: cells") {
                     "'Fe2+' does not take part in the anode's half-reaction \"Fe^2+ + 2 e- = Fe(s)\" (Fe^2+, Fe(s))",
                     "Fe^2+");
     }
-    SUBCASE("a cell's activity of a species in neither half-reaction, nearest suggested") {
+    SUBCASE("a cell's activity of a species in neither half-reaction: the species listed, another metal not suggested") {
+        // Zn^2+ is one letter from Cu^2+, but zinc is not copper: no "did you mean".
         check_error(cell_with(copper + iron + "[cell.activities]\n\"Cu^2+\" = 1e-6\n\"Zn^2+\" = 1e-6\n"),
                     "cell[1].activities.\"Zn^2+\"", cl + 4,
-                    "'Zn^2+' takes part in neither half-reaction of the cell (cathode: Cu^2+, Cu(s); anode: Fe^2+, Fe(s))",
+                    "'Zn^2+' takes part in neither half-reaction of the cell (cathode: Cu^2+, Cu(s); anode: Fe^2+, Fe(s))");
+    }
+    SUBCASE("a cell's activity with the charge written without ^ leads to the species") {
+        check_error(cell_with(copper + iron + "[cell.activities]\n\"Cu2+\" = 1e-6\n"),
+                    "cell[1].activities.\"Cu2+\"", cl + 3, "'Cu2+' takes part in neither half-reaction of the cell",
                     "Cu^2+");
     }
 }

@@ -883,6 +883,33 @@ TEST_CASE("nearest_name") {
         CHECK(nearest_name("Cb", {"Ca", "Cc"}) == "Ca");
         CHECK(nearest_name("Cb", {"Cc", "Ca"}) == "Cc");
     }
+    SUBCASE("a charge written another way leads to the species, before closer names") {
+        // "Cu2+" is one edit from both "Cu+" and "Cu^2+"; the charge 2+ says which is meant.
+        const std::vector<std::string> species = {"Cu+", "Cu^2+", "Fe^2+", "Fe^3+", "Na+", "SO4^2-"};
+        CHECK(nearest_name("Cu2+", species) == "Cu^2+");
+        CHECK(nearest_name("Cu+2", species) == "Cu^2+");
+        CHECK(nearest_name("Cu++", species) == "Cu^2+");
+        CHECK(nearest_name("Fe3+", species) == "Fe^3+");
+        CHECK(nearest_name("Fe+++", species) == "Fe^3+");
+        CHECK(nearest_name("SO4--", species) == "SO4^2-");
+        CHECK(nearest_name("Na1+", species) == "Na+");
+        CHECK(nearest_name("Cu1+", species) == "Cu+");
+    }
+    SUBCASE("no formula of other elements") {
+        // One letter apart, but another substance: no suggestion rather than a wrong one.
+        CHECK(nearest_name("PO4", {"SO4", "NO3"}).empty());
+        CHECK(nearest_name("HCO3", {"NO3", "SO4"}).empty());
+        CHECK(nearest_name("Mn", {"Mg", "Na"}).empty());
+        CHECK(nearest_name("CO", {"Co"}).empty());
+        // Same elements: still suggested.
+        CHECK(nearest_name("HCO3", {"NO3", "HCO3-"}) == "HCO3-");
+        CHECK(nearest_name("SO4-2", {"SO4", "SO4^2-"}) == "SO4^2-");
+        // Letters that look alike are a slip of the eye: "CI-" (capital i) is "Cl-".
+        CHECK(nearest_name("CI-", {"Cl-", "Na+"}) == "Cl-");
+        CHECK(nearest_name("C0", {"CO"}) == "CO");
+        // Names that are not formulas keep the plain edit distance.
+        CHECK(nearest_name("Gipsum", {"Gypsum"}) == "Gypsum");
+    }
 }
 
 // ---------------------------------------------------------------------------------------

@@ -492,6 +492,17 @@ TEST_CASE("errors: analytes") {
                     "unknown analyte 'Cll'; it is not an analyte of the database 'water-input-test' (its analytes: ",
                     "Cl");
     }
+    SUBCASE("no suggestion of another substance; HCO3 and CO3 are among the analytes named") {
+        auto w = water();
+        add(w, "PO4", 1.0, "", "", 8);  // one letter from SO4, but phosphate is not sulfate
+        check_error(w, "water.lab.analytes.PO4", 8,
+                    "(its analytes: Alkalinity, Ca, Cl, DIC, NO3, Na, SO4, SiO2, HCO3, CO3)");
+    }
+    SUBCASE("a charge written in the analyte's name leads to the analyte") {
+        auto w = water();
+        add(w, "HCO3-", 61.0, "", "", 8);
+        check_error(w, "water.lab.analytes.HCO3-", 8, "unknown analyte 'HCO3-'", "HCO3");
+    }
     SUBCASE("two analytes for one component") {
         auto w = water();
         add(w, "Alkalinity", 120.0, "", "CaCO3", 7);
@@ -515,7 +526,7 @@ TEST_CASE("errors: analytes") {
         auto w = water();
         add(w, "SO4", 40.0, "", "N", 7);
         check_error(w, "water.lab.analytes.SO4.as", 7,
-                    "analyte SO4 cannot be given as 'N'; expected one of: CaCO3, S, SO4", "S");
+                    "analyte SO4 cannot be given as 'N'; expected one of: CaCO3, S, SO4");  // N is not S: no hint
     }
     SUBCASE("alkalinity as an element") {
         auto w = water();

@@ -79,7 +79,9 @@ std::size_t edit_distance(std::string_view a, std::string_view b);
 
 // The candidate closest to `name` by edit distance, or "" when nothing is reasonably close
 // (more than one edit for names of up to two characters, else more than
-// max(2, (|name| + 1)/3) edits).
+// max(2, (|name| + 1)/3) edits). A candidate that is `name` with its charge written another
+// way ("Cu2+", "Cu+2", "Cu++" for "Cu^2+") comes first; a formula of other elements than a
+// formula `name` ("SO4" for "PO4") is never suggested.
 std::string nearest_name(std::string_view name, const std::vector<std::string>& candidates);
 
 }  // namespace deltag

@@ -339,11 +339,15 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
             continue;
         }
         const auto ai = db.find_analyte(a.name);
-        if (!ai)
+        if (!ai) {
+            auto names = db.analyte_names();
+            for (const char* ion : {"HCO3", "CO3"})
+                if (is_carbonate_ion(ion, db)) names.push_back(ion);
             throw InputError(a.where, analyte_key(water, a),
-                             "unknown analyte '" + a.name + "'; it is not an analyte of the database '" +
-                                 db.name() + "' (its analytes: " + name_list(db.analyte_names()) + ")",
-                             nearest_name(a.name, db.analyte_names()));
+                             "unknown analyte '" + a.name + "'; it is not an analyte of the database '" + db.name() +
+                                 "' (its analytes: " + name_list(names) + ")",
+                             nearest_name(a.name, names));
+        }
         const thermo::Analyte& an = db.analytes()[*ai];
         const auto [it, fresh] = by_component.emplace(an.component, &a);
         // Redox states of one element (Fe(2), Fe(3)) share a component; anything else doesn't.
