@@ -6,6 +6,7 @@
 // All waters in these tests are invented scenarios.
 #include <doctest/doctest.h>
 
+#include <cmath>
 #include <cstdio>
 #include <fstream>
 #include <optional>
@@ -787,6 +788,64 @@ gases = { "CO2(g)" = 2, "O2(g)" = -20 }
     CHECK(e.gases[1].log_partial_pressure_atm == -20.0);
 }
 
+TEST_CASE("gas levels in atm, bar, kPa, ppmv and %, at a total pressure of 1 atm") {
+    // 1 atm = 101.325 kPa = 1.01325 bar exactly (the standard atmosphere, 10th CGPM 1954).
+    // By Dalton's law at 1 atm total, x ppmv is x*1e-6 atm and x % is x/100 atm. 420 ppmv of
+    // CO2 is about today's air (common practice); 20.95 % O2 is dry air (CRC Handbook,
+    // composition of dry air; from memory).
+    const auto c = parse_case(step_of("equilibrate", R"toml(gases = { "CO2(g)" = { value = 420, unit = "ppmv" }, "O2(g)" = { value = 20.95, unit = "%" }, "N2(g)" = { value = 1.01325, unit = "bar" }, "H2S(g)" = { value = 0.101325, unit = "kPa" }, "CH4(g)" = { value = 2, unit = "atm" } }
+headspace = { volume_l_per_kgw = 1, gases = { "CO2(g)" = { value = 5, unit = "%" } } }
+)toml"), "test.toml");
+    const auto& e = std::get<EquilibrateStep>(c.steps.at(0).action);
+    REQUIRE(e.gases.size() == 5);
+    CHECK(e.gases[0].log_partial_pressure_atm == doctest::Approx(std::log10(420e-6)));  // -3.3768
+    CHECK(e.gases[0].log_partial_pressure_atm == doctest::Approx(-3.37675).epsilon(1e-5));
+    CHECK(e.gases[1].log_partial_pressure_atm == doctest::Approx(std::log10(0.2095)));
+    CHECK(e.gases[2].log_partial_pressure_atm == doctest::Approx(0.0));   // 1.01325 bar = 1 atm
+    CHECK(e.gases[3].log_partial_pressure_atm == doctest::Approx(-3.0));  // 0.101325 kPa = 1e-3 atm
+    CHECK(e.gases[4].log_partial_pressure_atm == doctest::Approx(std::log10(2.0)));
+    REQUIRE(e.headspace.has_value());
+    CHECK(e.headspace->gases.at(0).log_partial_pressure_atm == doctest::Approx(std::log10(0.05)));
+}
+
+TEST_CASE("errors: gas levels with a unit") {
+    const std::string co2 = "step[1].gases.\"CO2(g)\"";
+    SUBCASE("an unknown unit, nearest suggested") {
+        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = { value = 420, unit = \"ppm\" } }\n"), co2 + ".unit",
+                    first,
+                    "unknown unit of a gas level 'ppm'; expected one of: atm, bar, kPa, ppmv, % (or a bare number: the "
+                    "log10 partial pressure in atm)",
+                    "ppmv");
+    }
+    SUBCASE("an unknown key") {
+        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = { value = 420, units = \"ppmv\" } }\n"), co2 + ".units",
+                    first, "unknown key; expected one of: value, unit", "unit");
+    }
+    SUBCASE("no unit") {
+        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = { value = 420 } }\n"), co2 + ".unit", first,
+                    "the unit of the gas level, one of: atm, bar, kPa, ppmv, %");
+    }
+    SUBCASE("zero") {
+        check_error(step_of("equilibrate", "gases = { \"O2(g)\" = { value = 0, unit = \"%\" } }\n"),
+                    "step[1].gases.\"O2(g)\".value", first,
+                    "expected a gas level above zero, found 0 (a partial pressure of zero has no log10); leave a gas "
+                    "that is absent out");
+    }
+    SUBCASE("more than the whole gas phase") {
+        check_error(step_of("equilibrate", "gases = { \"O2(g)\" = { value = 120, unit = \"%\" } }\n"),
+                    "step[1].gases.\"O2(g)\".value", first,
+                    "expected a share of the gas phase of at most 100 % (1e6 ppmv), found 120 %");
+    }
+    SUBCASE("beyond the range of a log10 partial pressure") {
+        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = { value = 200, unit = \"bar\" } }\n"), co2 + ".value",
+                    first, "expected a partial pressure from 1e-20 to 100 atm (log10 from -20 to 2), found 200 bar = 197.385 atm");
+    }
+    SUBCASE("in a headspace") {
+        check_error(step_of("equilibrate", "headspace = { volume_l_per_kgw = 1, gases = { \"CO2(g)\" = { value = 5, unit = \"vol%\" } } }\n"),
+                    "step[1].headspace.gases.\"CO2(g)\".unit", first, "unknown unit of a gas level 'vol%'");
+    }
+}
+
 TEST_CASE("dose targets: pH, saturation index, alkalinity, Langelier index") {
     auto target_of = [](const std::string& until) {
         const auto c = parse_case(step_of("dose", "reagent = \"CO2\"\nuntil = " + until + "\n"), "test.toml");
@@ -1074,7 +1133,8 @@ TEST_CASE("errors: equilibrate") {
     }
     SUBCASE("a gas given as a string") {
         check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = \"air\" }\n"), "step[1].gases.\"CO2(g)\"", first,
-                    "expected the log10 partial pressure of the gas in atm (a number), found a string");
+                    "expected the log10 partial pressure of the gas in atm (a number), or { value = ..., unit = ... } "
+                    "with unit one of: atm, bar, kPa, ppmv, %; found a string");
     }
     SUBCASE("a gas above 100 atm") {
         check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = 3 }\n"), "step[1].gases.\"CO2(g)\"", first,

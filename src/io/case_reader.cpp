@@ -310,6 +310,7 @@ const std::vector<std::string> mineral_directions = {"dissolve", "precipitate"};
 const std::vector<std::string> dose_units = {"mol/kgw", "mmol/kgw", "umol/kgw", "mg/kgw", "g/kgw",
                                              "mol/L",   "mmol/L",   "umol/L",   "mg/L",   "g/L"};
 const std::vector<std::string> amount_keys = {"value", "unit"};
+const std::vector<std::string> gas_units = {"atm", "bar", "kPa", "ppmv", "%"};
 const std::vector<std::string> until_keys = {"pH", "si", "alkalinity_meq_per_l", "langelier"};
 const std::vector<std::string> blend_bases = {"volume", "mass"};
 const std::vector<std::string> sweep_keys = {"label",  "step",        "at",      "variable", "from", "to",
@@ -510,6 +511,49 @@ process::MineralSpec read_mineral(const Entry& e, const std::string& file, const
     return m;
 }
 
+// A gas level: a bare number is the log10 partial pressure in atm; a table { value, unit }
+// gives the partial pressure in atm, bar or kPa, or the gas's share of the gas phase in ppmv
+// (parts per million by volume) or % (by volume), taken at a total pressure of 1 atm
+// (Dalton's law, p = x P): 420 ppmv of CO2 is 420e-6 atm, 21 % of O2 is 0.21 atm.
+// 1 atm = 101.325 kPa = 1.01325 bar exactly (the standard atmosphere, 10th CGPM 1954).
+// Returns the log10 partial pressure in atm, from -20 to 2 as for a bare number.
+double gas_level(tomlu::TableReader& g, const Entry& entry, const std::string& what) {
+    const std::string key = g.dotted(entry.name);
+    if (entry.node->is_integer() || entry.node->is_floating_point())
+        return *ranged(g, entry.name, -20.0, 2.0, "a log10 partial pressure in atm");
+    const toml::table* t = entry.node->as_table();
+    if (!t)
+        g.fail(entry.name, "expected " + what + " (a number), or { value = ..., unit = ... } with unit one of: " +
+                               name_list(gas_units) + "; found " + tomlu::type_name(*entry.node));
+    (void)g.node(entry.name);
+    reject_unknown_keys(*t, amount_keys, g.file(), key);
+    tomlu::TableReader r(*t, g.file(), key);
+    const double v = r.require_number("value", "the gas level, a number (value = ...)");
+    const std::string unit = r.require_string("unit", "the unit of the gas level, one of: " + name_list(gas_units));
+    double atm = 0.0;
+    if (unit == "atm") atm = v;
+    else if (unit == "bar") atm = v / 1.01325;
+    else if (unit == "kPa") atm = v / 101.325;
+    else if (unit == "ppmv") atm = v * 1e-6;
+    else if (unit == "%") atm = v / 100.0;
+    else
+        r.fail("unit", "unknown unit of a gas level '" + unit + "'; expected one of: " + name_list(gas_units) +
+                           " (or a bare number: the log10 partial pressure in atm)",
+               nearest_name(unit, gas_units));
+    if (!(v > 0.0))
+        r.fail("value", "expected a gas level above zero, found " + message_number(v) +
+                            " (a partial pressure of zero has no log10); leave a gas that is absent out");
+    const bool share = unit == "ppmv" || unit == "%";
+    if (share && atm > 1.0)
+        r.fail("value", "expected a share of the gas phase of at most 100 % (1e6 ppmv), found " + message_number(v) + " " +
+                            unit);
+    const double log_p = std::log10(atm);
+    if (log_p < -20.0 || log_p > 2.0)
+        r.fail("value", "expected a partial pressure from 1e-20 to 100 atm (log10 from -20 to 2), found " +
+                            message_number(v) + " " + unit + " = " + message_number(atm) + " atm");
+    return log_p;
+}
+
 process::EquilibrateStep read_equilibrate(tomlu::TableReader& r) {
     process::EquilibrateStep e;
     if (const toml::table* minerals = r.table("minerals")) {
@@ -522,10 +566,7 @@ process::EquilibrateStep read_equilibrate(tomlu::TableReader& r) {
             process::GasSpec gas;
             gas.name = entry.name;
             gas.where = entry.key_where;
-            if (!entry.node->is_integer() && !entry.node->is_floating_point())
-                g.fail(entry.name, "expected the log10 partial pressure of the gas in atm (a number), found " +
-                                       tomlu::type_name(*entry.node));
-            gas.log_partial_pressure_atm = *ranged(g, entry.name, -20.0, 2.0, "a log10 partial pressure in atm");
+            gas.log_partial_pressure_atm = gas_level(g, entry, "the log10 partial pressure of the gas in atm");
             e.gases.push_back(std::move(gas));
         }
     }
@@ -545,10 +586,7 @@ process::EquilibrateStep read_equilibrate(tomlu::TableReader& r) {
             process::GasSpec gas;
             gas.name = entry.name;
             gas.where = entry.key_where;
-            if (!entry.node->is_integer() && !entry.node->is_floating_point())
-                g.fail(entry.name, "expected the starting log10 partial pressure in atm (a number), found " +
-                                       tomlu::type_name(*entry.node));
-            gas.log_partial_pressure_atm = *ranged(g, entry.name, -20.0, 2.0, "a log10 partial pressure in atm");
+            gas.log_partial_pressure_atm = gas_level(g, entry, "the starting log10 partial pressure in atm");
             spec.gases.push_back(std::move(gas));
         }
         h.finish({"volume_l_per_kgw", "temperature_c", "gases"});
