@@ -854,6 +854,19 @@ TEST_CASE("edit_distance: Levenshtein, case-insensitive") {
     CHECK(edit_distance("ab", "ba") == 2);  // a transposition counts two
 }
 
+TEST_CASE("nearest_phase: a formula leads to the phase of that formula") {
+    using deltag::nearest_phase;
+    const std::vector<std::pair<std::string, std::string>> minerals = {
+        {"Calcite", "CaCO3"}, {"Aragonite", "CaCO3"}, {"Gypsum", "CaSO4:2H2O"}, {"Halite", "NaCl"}};
+    CHECK(nearest_phase("CaCO3", minerals) == "Calcite");  // the first of the two polymorphs
+    CHECK(nearest_phase("CaCO3(s)", minerals) == "Calcite");
+    CHECK(nearest_phase("NaCl", minerals) == "Halite");
+    CHECK(nearest_phase("Gipsum", minerals) == "Gypsum");   // else the nearest name
+    CHECK(nearest_phase("BaSO4", minerals).empty());        // no barite in this list
+    const std::vector<std::pair<std::string, std::string>> gases = {{"O2(g)", "O2"}, {"CO2(g)", "CO2"}};
+    CHECK(nearest_phase("CO2", gases) == "CO2(g)");
+}
+
 TEST_CASE("nearest_name") {
     const std::vector<std::string> minerals = {"Calcite", "Aragonite", "Gypsum", "Anhydrite"};
     CHECK(nearest_name("Calcit", minerals) == "Calcite");
@@ -904,6 +917,9 @@ TEST_CASE("nearest_name") {
         // Same elements: still suggested.
         CHECK(nearest_name("HCO3", {"NO3", "HCO3-"}) == "HCO3-");
         CHECK(nearest_name("SO4-2", {"SO4", "SO4^2-"}) == "SO4^2-");
+        // The phase mark left out: "CO2" where a gas is expected is CO2(g).
+        CHECK(nearest_name("CO2", {"H2S(g)", "CO2(g)", "O2(g)"}) == "CO2(g)");
+        CHECK(nearest_name("CH4", {"CO2(g)", "CH4(g)"}) == "CH4(g)");
         // Letters that look alike are a slip of the eye: "CI-" (capital i) is "Cl-".
         CHECK(nearest_name("CI-", {"Cl-", "Na+"}) == "Cl-");
         CHECK(nearest_name("C0", {"CO"}) == "CO");

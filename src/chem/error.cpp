@@ -112,6 +112,14 @@ std::string plain_charge(std::string_view name) {
     return t;
 }
 
+// A name without a phase mark at its end: "CO2(g)" -> "CO2", "CaCO3(s)" -> "CaCO3".
+std::string_view without_phase_mark(std::string_view name) {
+    for (std::string_view mark : {"(g)", "(s)", "(l)", "(aq)"})
+        if (name.size() > mark.size() && name.substr(name.size() - mark.size()) == mark)
+            return name.substr(0, name.size() - mark.size());
+    return name;
+}
+
 // The elements of a name that reads as a chemical formula; nothing for other names.
 std::optional<std::set<std::string>> formula_elements(std::string_view name) {
     try {
@@ -140,10 +148,13 @@ std::string look_alike(std::string_view name) {
 }  // namespace
 
 std::string nearest_name(std::string_view name, const std::vector<std::string>& candidates) {
-    // The same species with its charge written another way ("Cu2+" for "Cu^2+").
+    // The same species with its charge written another way ("Cu2+" for "Cu^2+"), or the
+    // same substance without its phase mark ("CO2" where a gas, "CO2(g)", is expected).
     const std::string plain = plain_charge(name);
     for (const auto& c : candidates)
         if (plain_charge(c) == plain) return c;
+    for (const auto& c : candidates)
+        if (without_phase_mark(c) == without_phase_mark(name)) return c;
     // A formula is not suggested in place of one of other elements: a one-letter slip
     // between formulas ("PO4" -> "SO4", "Mn" -> "Mg") names another substance, and would
     // lead the user astray rather than to what was meant; except for letters that look
@@ -165,6 +176,16 @@ std::string nearest_name(std::string_view name, const std::vector<std::string>& 
     // edit for names of one or two characters, so "e-" does not suggest "Cl-".
     const std::size_t limit = name.size() <= 2 ? 1 : std::max<std::size_t>(2, (name.size() + 1) / 3);
     return best_d <= limit ? best : std::string{};
+}
+
+std::string nearest_phase(std::string_view name, const std::vector<std::pair<std::string, std::string>>& phases) {
+    // A formula for a named phase: "CaCO3" where a mineral is expected is Calcite (or the
+    // first mineral of that formula in the list).
+    for (const auto& [phase, formula] : phases)
+        if (!formula.empty() && without_phase_mark(formula) == without_phase_mark(name)) return phase;
+    std::vector<std::string> names;
+    for (const auto& p : phases) names.push_back(p.first);
+    return nearest_name(name, names);
 }
 
 }  // namespace deltag
