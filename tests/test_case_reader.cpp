@@ -394,6 +394,11 @@ TEST_CASE("errors: pH and charge balance") {
         check_error("[water.a]\ncharge_balance = \"ph\"\n", "water.a.charge_balance", 2,
                     "expected \"pH\" or the name of an analyte to adjust, found \"ph\"", "pH");
     }
+    SUBCASE("pH in the wrong case with a measured pH: \"pH\" would be refused too, so it is not suggested") {
+        check_error("[water.a]\npH = 7.8\ncharge_balance = \"PH\"\n", "water.a.charge_balance", 3,
+                    "found \"PH\", but the pH is measured (pH = 7.8) and cannot also close the charge balance; name an "
+                    "analyte to adjust, such as \"Cl\", or leave charge_balance out");
+    }
 }
 
 TEST_CASE("errors: analytes") {

@@ -234,9 +234,15 @@ WaterAnalysis read_water(const std::string& name, const toml::node& node, const 
         w.charge_balance_where = r.location("charge_balance");
         if (cb->empty())
             r.fail("charge_balance", "expected \"pH\" or the name of an analyte to adjust, found an empty string");
-        // "ph", "PH": surely meant pH, not an analyte.
-        if (*cb != "pH" && edit_distance(*cb, "pH") == 0)
+        // "ph", "PH": surely meant pH, not an analyte. With a measured pH, "pH" would be
+        // refused too, so it is not suggested: a suggestion must itself be valid.
+        if (*cb != "pH" && edit_distance(*cb, "pH") == 0) {
+            if (w.ph)
+                r.fail("charge_balance", "found \"" + *cb + "\", but the pH is measured (pH = " + message_number(*w.ph) +
+                                             ") and cannot also close the charge balance; name an analyte to adjust, "
+                                             "such as \"Cl\", or leave charge_balance out");
             r.fail("charge_balance", "expected \"pH\" or the name of an analyte to adjust, found \"" + *cb + "\"", "pH");
+        }
         w.charge_balance = *cb;
     }
     if (r.has("units")) w.units = checked_unit(r, "units");
