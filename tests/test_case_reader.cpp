@@ -6,6 +6,7 @@
 // All waters in these tests are invented scenarios.
 #include <doctest/doctest.h>
 
+#include <cmath>
 #include <cstdio>
 #include <fstream>
 #include <optional>
@@ -200,6 +201,29 @@ TEST_CASE("every concentration unit is accepted, for the water and for one analy
         CHECK(c.waters[0].units == u);
         CHECK(c.waters[0].analytes[0].unit == u);
     }
+    // The Greek mu (U+03BC) looks like the micro sign (U+00B5) and is accepted too.
+    const auto c = parse_case("[water.a.analytes]\nCa = { value = 1, unit = \"\u03BCg/L\" }\n", "test.toml");
+    CHECK(c.waters[0].analytes[0].unit == "\u03BCg/L");
+}
+
+TEST_CASE("values below the detection limit, as a lab writes them") {
+    const auto c = parse_case("[water.a]\nbelow_detection = \"limit\"\n[water.a.analytes]\nFe = \"<0.05\"\n"
+                              "Mn = { value = \" < 2.5e-3 \", unit = \"mmol/L\" }\nCa = 40\n",
+                              "test.toml");
+    const auto& w = c.waters[0];
+    CHECK(w.below_detection == "limit");
+    CHECK(w.below_detection_where.line == 2);
+    REQUIRE(w.analytes.size() == 3);
+    CHECK(w.analytes[0].below_detection);
+    CHECK(w.analytes[0].value == 0.05);
+    CHECK(w.analytes[1].below_detection);
+    CHECK(w.analytes[1].value == 2.5e-3);
+    CHECK(w.analytes[1].unit == "mmol/L");
+    CHECK_FALSE(w.analytes[2].below_detection);
+    // The default rule is half the limit.
+    CHECK(parse_case("[water.a]\n", "test.toml").waters[0].below_detection == "half");
+    for (const auto& rule : deltag::below_detection_rules())
+        CHECK(parse_case("[water.a]\nbelow_detection = \"" + rule + "\"\n", "test.toml").waters[0].below_detection == rule);
 }
 
 TEST_CASE("the range limits themselves are accepted") {
@@ -330,8 +354,8 @@ TEST_CASE("errors: the keys of a water") {
     }
     SUBCASE("unknown unit, nearest name suggested") {
         check_error("[water.a]\nunits = \"mg/l\"\n", "water.a.units", 2,
-                    "unknown concentration unit 'mg/l'; expected one of: mg/L, ug/L, mmol/L, umol/L, mol/L, "
-                    "meq/L, mg/kg, mol/kgw, mmol/kgw",
+                    "unknown concentration unit 'mg/l'; expected one of: mg/L, ug/L, µg/L, mmol/L, umol/L, "
+                    "µmol/L, mol/L, meq/L, mg/kg, ppm, mol/kgw, mmol/kgw",
                     "mg/L");
     }
     SUBCASE("analytes not a table") {
@@ -370,6 +394,11 @@ TEST_CASE("errors: pH and charge balance") {
         check_error("[water.a]\ncharge_balance = \"ph\"\n", "water.a.charge_balance", 2,
                     "expected \"pH\" or the name of an analyte to adjust, found \"ph\"", "pH");
     }
+    SUBCASE("pH in the wrong case with a measured pH: \"pH\" would be refused too, so it is not suggested") {
+        check_error("[water.a]\npH = 7.8\ncharge_balance = \"PH\"\n", "water.a.charge_balance", 3,
+                    "found \"PH\", but the pH is measured (pH = 7.8) and cannot also close the charge balance; name an "
+                    "analyte to adjust, such as \"Cl\", or leave charge_balance out");
+    }
 }
 
 TEST_CASE("errors: analytes") {
@@ -381,10 +410,38 @@ TEST_CASE("errors: analytes") {
         check_error("[water.a.analytes]\nNO3 = { value = -2, as = \"N\" }\n", "water.a.analytes.NO3", 2,
                     "expected a concentration of zero or more, found -2");
     }
-    SUBCASE("a value that is not a number") {
-        check_error("[water.a]\n[water.a.analytes]\nCa = \"<0.1\"\n", "water.a.analytes.Ca", 3,
-                    "expected a concentration: a number, or a table { value = ..., unit = ..., as = ... }; "
-                    "found a string");
+    SUBCASE("a value that is neither a number nor a table") {
+        check_error("[water.a]\n[water.a.analytes]\nCa = [0.1]\n", "water.a.analytes.Ca", 3,
+                    "expected a concentration: a number, a value below the detection limit such as \"<0.05\", or a "
+                    "table { value = ..., unit = ..., as = ... }; found an array");
+    }
+    SUBCASE("a string that is not a value below detection") {
+        check_error("[water.a]\n[water.a.analytes]\nCa = \"0.1\"\n", "water.a.analytes.Ca", 3,
+                    "expected a concentration (a number, without quotes) or a value below the detection limit, "
+                    "written \"<\" and the limit, such as \"<0.05\"; found \"0.1\"");
+        check_error("[water.a.analytes]\nFe = \"ND\"\n", "water.a.analytes.Fe", 2, "found \"ND\"");
+    }
+    SUBCASE("a value below detection whose limit is not a number") {
+        for (const char* bad : {"<", "< ", "<0.05 mg/L", "<abc", "<0x10", "<inf", "<1e999", "<-0.05", "<<0.05"}) {
+            CAPTURE(bad);
+            check_error("[water.a.analytes]\nFe = \"" + std::string(bad) + "\"\n", "water.a.analytes.Fe", 2,
+                        "\": the limit is not a number");
+        }
+    }
+    SUBCASE("a detection limit of zero") {
+        check_error("[water.a.analytes]\nFe = \"<0\"\n", "water.a.analytes.Fe", 2,
+                    "expected a detection limit above zero after \"<\", found \"<0\"; a value measured as zero "
+                    "is written 0, without quotes");
+    }
+    SUBCASE("a value below detection in a table: the key is that of the value") {
+        check_error("[water.a.analytes.Fe]\nunit = \"mg/L\"\nvalue = \"<x\"\n", "water.a.analytes.Fe.value", 3,
+                    "the limit is not a number");
+    }
+    SUBCASE("an unknown rule for values below detection") {
+        check_error("[water.a]\nbelow_detection = \"halve\"\n", "water.a.below_detection", 2,
+                    "expected what a value below its detection limit (\"<0.05\") counts as: \"half\" the limit, "
+                    "\"zero\" or the \"limit\" itself; found \"halve\"",
+                    "half");
     }
     SUBCASE("a value that is not finite") {
         check_error("[water.a.analytes]\nCa = nan\n", "water.a.analytes.Ca", 2, "expected a finite number");
@@ -402,8 +459,8 @@ TEST_CASE("errors: analytes") {
                     "unknown key; expected one of: value, unit, as", "unit");
     }
     SUBCASE("a table with an unknown unit") {
-        check_error("[water.a.analytes]\nCa = { value = 4, unit = \"ppm\" }\n", "water.a.analytes.Ca.unit", 2,
-                    "unknown concentration unit 'ppm'");
+        check_error("[water.a.analytes]\nCa = { value = 4, unit = \"ppb\" }\n", "water.a.analytes.Ca.unit", 2,
+                    "unknown concentration unit 'ppb'", "ppm");
     }
     SUBCASE("a table with an empty 'as'") {
         check_error("[water.a.analytes]\nNO3 = { value = 4, as = \"\" }\n", "water.a.analytes.NO3.as", 2,
@@ -736,6 +793,64 @@ gases = { "CO2(g)" = 2, "O2(g)" = -20 }
     CHECK(e.gases[1].log_partial_pressure_atm == -20.0);
 }
 
+TEST_CASE("gas levels in atm, bar, kPa, ppmv and %, at a total pressure of 1 atm") {
+    // 1 atm = 101.325 kPa = 1.01325 bar exactly (the standard atmosphere, 10th CGPM 1954).
+    // By Dalton's law at 1 atm total, x ppmv is x*1e-6 atm and x % is x/100 atm. 420 ppmv of
+    // CO2 is about today's air (common practice); 20.95 % O2 is dry air (CRC Handbook,
+    // composition of dry air; from memory).
+    const auto c = parse_case(step_of("equilibrate", R"toml(gases = { "CO2(g)" = { value = 420, unit = "ppmv" }, "O2(g)" = { value = 20.95, unit = "%" }, "N2(g)" = { value = 1.01325, unit = "bar" }, "H2S(g)" = { value = 0.101325, unit = "kPa" }, "CH4(g)" = { value = 2, unit = "atm" } }
+headspace = { volume_l_per_kgw = 1, gases = { "CO2(g)" = { value = 5, unit = "%" } } }
+)toml"), "test.toml");
+    const auto& e = std::get<EquilibrateStep>(c.steps.at(0).action);
+    REQUIRE(e.gases.size() == 5);
+    CHECK(e.gases[0].log_partial_pressure_atm == doctest::Approx(std::log10(420e-6)));  // -3.3768
+    CHECK(e.gases[0].log_partial_pressure_atm == doctest::Approx(-3.37675).epsilon(1e-5));
+    CHECK(e.gases[1].log_partial_pressure_atm == doctest::Approx(std::log10(0.2095)));
+    CHECK(e.gases[2].log_partial_pressure_atm == doctest::Approx(0.0));   // 1.01325 bar = 1 atm
+    CHECK(e.gases[3].log_partial_pressure_atm == doctest::Approx(-3.0));  // 0.101325 kPa = 1e-3 atm
+    CHECK(e.gases[4].log_partial_pressure_atm == doctest::Approx(std::log10(2.0)));
+    REQUIRE(e.headspace.has_value());
+    CHECK(e.headspace->gases.at(0).log_partial_pressure_atm == doctest::Approx(std::log10(0.05)));
+}
+
+TEST_CASE("errors: gas levels with a unit") {
+    const std::string co2 = "step[1].gases.\"CO2(g)\"";
+    SUBCASE("an unknown unit, nearest suggested") {
+        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = { value = 420, unit = \"ppm\" } }\n"), co2 + ".unit",
+                    first,
+                    "unknown unit of a gas level 'ppm'; expected one of: atm, bar, kPa, ppmv, % (or a bare number: the "
+                    "log10 partial pressure in atm)",
+                    "ppmv");
+    }
+    SUBCASE("an unknown key") {
+        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = { value = 420, units = \"ppmv\" } }\n"), co2 + ".units",
+                    first, "unknown key; expected one of: value, unit", "unit");
+    }
+    SUBCASE("no unit") {
+        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = { value = 420 } }\n"), co2 + ".unit", first,
+                    "the unit of the gas level, one of: atm, bar, kPa, ppmv, %");
+    }
+    SUBCASE("zero") {
+        check_error(step_of("equilibrate", "gases = { \"O2(g)\" = { value = 0, unit = \"%\" } }\n"),
+                    "step[1].gases.\"O2(g)\".value", first,
+                    "expected a gas level above zero, found 0 (a partial pressure of zero has no log10); leave a gas "
+                    "that is absent out");
+    }
+    SUBCASE("more than the whole gas phase") {
+        check_error(step_of("equilibrate", "gases = { \"O2(g)\" = { value = 120, unit = \"%\" } }\n"),
+                    "step[1].gases.\"O2(g)\".value", first,
+                    "expected a share of the gas phase of at most 100 % (1e6 ppmv), found 120 %");
+    }
+    SUBCASE("beyond the range of a log10 partial pressure") {
+        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = { value = 200, unit = \"bar\" } }\n"), co2 + ".value",
+                    first, "expected a partial pressure from 1e-20 to 100 atm (log10 from -20 to 2), found 200 bar = 197.385 atm");
+    }
+    SUBCASE("in a headspace") {
+        check_error(step_of("equilibrate", "headspace = { volume_l_per_kgw = 1, gases = { \"CO2(g)\" = { value = 5, unit = \"vol%\" } } }\n"),
+                    "step[1].headspace.gases.\"CO2(g)\".unit", first, "unknown unit of a gas level 'vol%'");
+    }
+}
+
 TEST_CASE("dose targets: pH, saturation index, alkalinity, Langelier index") {
     auto target_of = [](const std::string& until) {
         const auto c = parse_case(step_of("dose", "reagent = \"CO2\"\nuntil = " + until + "\n"), "test.toml");
@@ -1023,7 +1138,8 @@ TEST_CASE("errors: equilibrate") {
     }
     SUBCASE("a gas given as a string") {
         check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = \"air\" }\n"), "step[1].gases.\"CO2(g)\"", first,
-                    "expected the log10 partial pressure of the gas in atm (a number), found a string");
+                    "expected the log10 partial pressure of the gas in atm (a number), or { value = ..., unit = ... } "
+                    "with unit one of: atm, bar, kPa, ppmv, %; found a string");
     }
     SUBCASE("a gas above 100 atm") {
         check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = 3 }\n"), "step[1].gases.\"CO2(g)\"", first,
@@ -1775,10 +1891,15 @@ TEST_CASE("errors: cells") {
                     "'Fe2+' does not take part in the anode's half-reaction \"Fe^2+ + 2 e- = Fe(s)\" (Fe^2+, Fe(s))",
                     "Fe^2+");
     }
-    SUBCASE("a cell's activity of a species in neither half-reaction, nearest suggested") {
+    SUBCASE("a cell's activity of a species in neither half-reaction: the species listed, another metal not suggested") {
+        // Zn^2+ is one letter from Cu^2+, but zinc is not copper: no "did you mean".
         check_error(cell_with(copper + iron + "[cell.activities]\n\"Cu^2+\" = 1e-6\n\"Zn^2+\" = 1e-6\n"),
                     "cell[1].activities.\"Zn^2+\"", cl + 4,
-                    "'Zn^2+' takes part in neither half-reaction of the cell (cathode: Cu^2+, Cu(s); anode: Fe^2+, Fe(s))",
+                    "'Zn^2+' takes part in neither half-reaction of the cell (cathode: Cu^2+, Cu(s); anode: Fe^2+, Fe(s))");
+    }
+    SUBCASE("a cell's activity with the charge written without ^ leads to the species") {
+        check_error(cell_with(copper + iron + "[cell.activities]\n\"Cu2+\" = 1e-6\n"),
+                    "cell[1].activities.\"Cu2+\"", cl + 3, "'Cu2+' takes part in neither half-reaction of the cell",
                     "Cu^2+");
     }
 }

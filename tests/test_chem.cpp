@@ -854,6 +854,19 @@ TEST_CASE("edit_distance: Levenshtein, case-insensitive") {
     CHECK(edit_distance("ab", "ba") == 2);  // a transposition counts two
 }
 
+TEST_CASE("nearest_phase: a formula leads to the phase of that formula") {
+    using deltag::nearest_phase;
+    const std::vector<std::pair<std::string, std::string>> minerals = {
+        {"Calcite", "CaCO3"}, {"Aragonite", "CaCO3"}, {"Gypsum", "CaSO4:2H2O"}, {"Halite", "NaCl"}};
+    CHECK(nearest_phase("CaCO3", minerals) == "Calcite");  // the first of the two polymorphs
+    CHECK(nearest_phase("CaCO3(s)", minerals) == "Calcite");
+    CHECK(nearest_phase("NaCl", minerals) == "Halite");
+    CHECK(nearest_phase("Gipsum", minerals) == "Gypsum");   // else the nearest name
+    CHECK(nearest_phase("BaSO4", minerals).empty());        // no barite in this list
+    const std::vector<std::pair<std::string, std::string>> gases = {{"O2(g)", "O2"}, {"CO2(g)", "CO2"}};
+    CHECK(nearest_phase("CO2", gases) == "CO2(g)");
+}
+
 TEST_CASE("nearest_name") {
     const std::vector<std::string> minerals = {"Calcite", "Aragonite", "Gypsum", "Anhydrite"};
     CHECK(nearest_name("Calcit", minerals) == "Calcite");
@@ -882,6 +895,36 @@ TEST_CASE("nearest_name") {
     SUBCASE("ties go to the first candidate") {
         CHECK(nearest_name("Cb", {"Ca", "Cc"}) == "Ca");
         CHECK(nearest_name("Cb", {"Cc", "Ca"}) == "Cc");
+    }
+    SUBCASE("a charge written another way leads to the species, before closer names") {
+        // "Cu2+" is one edit from both "Cu+" and "Cu^2+"; the charge 2+ says which is meant.
+        const std::vector<std::string> species = {"Cu+", "Cu^2+", "Fe^2+", "Fe^3+", "Na+", "SO4^2-"};
+        CHECK(nearest_name("Cu2+", species) == "Cu^2+");
+        CHECK(nearest_name("Cu+2", species) == "Cu^2+");
+        CHECK(nearest_name("Cu++", species) == "Cu^2+");
+        CHECK(nearest_name("Fe3+", species) == "Fe^3+");
+        CHECK(nearest_name("Fe+++", species) == "Fe^3+");
+        CHECK(nearest_name("SO4--", species) == "SO4^2-");
+        CHECK(nearest_name("Na1+", species) == "Na+");
+        CHECK(nearest_name("Cu1+", species) == "Cu+");
+    }
+    SUBCASE("no formula of other elements") {
+        // One letter apart, but another substance: no suggestion rather than a wrong one.
+        CHECK(nearest_name("PO4", {"SO4", "NO3"}).empty());
+        CHECK(nearest_name("HCO3", {"NO3", "SO4"}).empty());
+        CHECK(nearest_name("Mn", {"Mg", "Na"}).empty());
+        CHECK(nearest_name("CO", {"Co"}).empty());
+        // Same elements: still suggested.
+        CHECK(nearest_name("HCO3", {"NO3", "HCO3-"}) == "HCO3-");
+        CHECK(nearest_name("SO4-2", {"SO4", "SO4^2-"}) == "SO4^2-");
+        // The phase mark left out: "CO2" where a gas is expected is CO2(g).
+        CHECK(nearest_name("CO2", {"H2S(g)", "CO2(g)", "O2(g)"}) == "CO2(g)");
+        CHECK(nearest_name("CH4", {"CO2(g)", "CH4(g)"}) == "CH4(g)");
+        // Letters that look alike are a slip of the eye: "CI-" (capital i) is "Cl-".
+        CHECK(nearest_name("CI-", {"Cl-", "Na+"}) == "Cl-");
+        CHECK(nearest_name("C0", {"CO"}) == "CO");
+        // Names that are not formulas keep the plain edit distance.
+        CHECK(nearest_name("Gipsum", {"Gypsum"}) == "Gypsum");
     }
 }
 

@@ -161,9 +161,12 @@ void check_error(const WaterAnalysis& w, const std::string& key, int line, const
 
 TEST_CASE("the concentration units") {
     const auto& u = deltag::concentration_units();
-    for (const char* name : {"mg/L", "ug/L", "mmol/L", "umol/L", "mol/L", "meq/L", "mg/kg", "mol/kgw", "mmol/kgw"})
+    for (const char* name : {"mg/L", "ug/L", "\u00B5g/L", "mmol/L", "umol/L", "\u00B5mol/L", "mol/L", "meq/L", "mg/kg",
+                             "ppm", "mol/kgw", "mmol/kgw"})
         CHECK(std::find(u.begin(), u.end(), name) != u.end());
-    CHECK(u.size() == 9);
+    CHECK(u.size() == 12);
+    CHECK(deltag::is_concentration_unit("\u03BCg/L"));  // Greek mu, accepted like the micro sign
+    CHECK_FALSE(deltag::is_concentration_unit("ppb"));
 }
 
 TEST_CASE("mg/L: 40.078 mg/L Ca at density 0.99705 kg/L") {
@@ -324,6 +327,78 @@ TEST_CASE("mg/kg: per kg of solution, divided by 1 minus the dissolved mass frac
     }
 }
 
+TEST_CASE("ppm is mg per kg of solution (parts per million by mass)") {
+    // Definition: 1 ppm (mass) = 1e-6 kg per kg = 1 mg/kg (IUPAC Green Book, 3rd ed., 2007,
+    // section 2.10: ppm as 1e-6 of a mass fraction; from memory). So 35.45 ppm Cl is the
+    // mg/kg case above: 1e-3 / (1 - 35.45e-6) = 1.0000355e-3 mol/kgw, whatever the density,
+    // and not the 1e-3 / (0.99705 - 35.45e-6) = 1.0029945e-3 of 35.45 mg/L at 0.99705 kg/L.
+    for (double density : {0.99705, 1.2}) {
+        auto w = water(density);
+        add(w, "Cl", 35.45, "ppm");
+        CHECK(molality(convert(w), "Cl-") == near(1.0000355e-3).epsilon(1e-7));
+    }
+}
+
+TEST_CASE("ug/L, the micro sign and the Greek mu are one unit") {
+    // 40.078 ug/L Ca = 1.000 umol/L (as in the ug/L case above); the unit as the lab typed it.
+    for (const char* unit : {"ug/L", "\u00B5g/L", "\u03BCg/L"}) {
+        CAPTURE(unit);
+        auto w = water(1.0);
+        add(w, "Ca", 40.078, unit);
+        CHECK(molality(convert(w), "Ca^2+") == near(1e-6 / (1 - 40.078e-9)).epsilon(1e-9));
+    }
+    auto w = water(1.0);
+    add(w, "Na", 500.0, "\u00B5mol/L");
+    CHECK(molality(convert(w), "Na+") == near(5e-4 / (1 - 0.5 * 22.990e-6)).epsilon(1e-9));
+}
+
+TEST_CASE("values below the detection limit: half, zero or the limit, and a note naming them") {
+    // "<0.05" mmol/L Na with the rule: half -> 0.025 mmol/L, limit -> 0.05 mmol/L, zero -> no
+    // Na at all. Density 1 kg/L; water 1 - (mass of Na) kg/L, M(Na) = 22.990 g/mol.
+    auto lab = [](const std::string& rule, int rule_line) {
+        auto w = water(1.0);
+        w.below_detection = rule;
+        w.below_detection_where = SourceLocation{"test.toml", rule_line, 1};
+        add(w, "Na", 0.05, "mmol/L");
+        w.analytes.back().below_detection = true;
+        add(w, "Cl", 1.0, "mmol/L");
+        return w;
+    };
+    SUBCASE("half the limit, the default") {
+        const auto in = convert(lab("half", 0));
+        CHECK(molality(in, "Na+") == near(0.025e-3 / (1 - (0.025 * 22.990 + 35.45) * 1e-6)).epsilon(1e-9));
+        REQUIRE(in.notes.size() == 1);
+        CHECK(in.notes[0] == "values below the detection limit taken as half the detection limit (below_detection = "
+                             "\"half\", the default): Na <0.05 mmol/L: 0.025 mmol/L");
+    }
+    SUBCASE("the limit") {
+        const auto in = convert(lab("limit", 3));
+        CHECK(molality(in, "Na+") == near(0.05e-3 / (1 - (0.05 * 22.990 + 35.45) * 1e-6)).epsilon(1e-9));
+        REQUIRE(in.notes.size() == 1);
+        CHECK(contains(in.notes[0], "taken as the detection limit itself (below_detection = \"limit\"): Na <0.05 mmol/L"));
+    }
+    SUBCASE("zero") {
+        const auto in = convert(lab("zero", 3));
+        CHECK(find(in, "Na+") == nullptr);
+        REQUIRE(in.notes.size() == 1);
+        CHECK(contains(in.notes[0], "taken as zero (below_detection = \"zero\"): Na <0.05 mmol/L: 0 mmol/L"));
+    }
+    SUBCASE("no value below detection, no note") {
+        auto w = water(1.0);
+        add(w, "Na", 1.0);
+        CHECK(convert(w).notes.empty());
+    }
+}
+
+TEST_CASE("describe_lab_input passes the notes on as warnings") {
+    SpeciationInput in;
+    in.notes = {"a note"};
+    deltag::equilibrium::SpeciationResult r;
+    r.warnings = {"from the solver"};
+    deltag::describe_lab_input(in, r, db());
+    CHECK(r.warnings == std::vector<std::string>{"from the solver", "a note"});
+}
+
 TEST_CASE("mol/kgw and mmol/kgw are taken as they are") {
     auto w = water(1.3);
     add(w, "Na", 0.5, "mol/kgw");
@@ -417,6 +492,17 @@ TEST_CASE("errors: analytes") {
                     "unknown analyte 'Cll'; it is not an analyte of the database 'water-input-test' (its analytes: ",
                     "Cl");
     }
+    SUBCASE("no suggestion of another substance; HCO3 and CO3 are among the analytes named") {
+        auto w = water();
+        add(w, "PO4", 1.0, "", "", 8);  // one letter from SO4, but phosphate is not sulfate
+        check_error(w, "water.lab.analytes.PO4", 8,
+                    "(its analytes: Alkalinity, Ca, Cl, DIC, NO3, Na, SO4, SiO2, HCO3, CO3)");
+    }
+    SUBCASE("a charge written in the analyte's name leads to the analyte") {
+        auto w = water();
+        add(w, "HCO3-", 61.0, "", "", 8);
+        check_error(w, "water.lab.analytes.HCO3-", 8, "unknown analyte 'HCO3-'", "HCO3");
+    }
     SUBCASE("two analytes for one component") {
         auto w = water();
         add(w, "Alkalinity", 120.0, "", "CaCO3", 7);
@@ -426,8 +512,9 @@ TEST_CASE("errors: analytes") {
     }
     SUBCASE("an unknown unit") {
         auto w = water();
-        add(w, "Ca", 40.0, "ppm", "", 7);
-        check_error(w, "water.lab.analytes.Ca", 7, "unknown concentration unit 'ppm'; expected one of: mg/L, ug/L");
+        add(w, "Ca", 40.0, "mg/dL", "", 7);
+        check_error(w, "water.lab.analytes.Ca", 7, "unknown concentration unit 'mg/dL'; expected one of: mg/L, ug/L",
+                    "mg/L");
     }
     SUBCASE("an unknown unit, nearest name suggested") {
         auto w = water();
@@ -439,7 +526,7 @@ TEST_CASE("errors: analytes") {
         auto w = water();
         add(w, "SO4", 40.0, "", "N", 7);
         check_error(w, "water.lab.analytes.SO4.as", 7,
-                    "analyte SO4 cannot be given as 'N'; expected one of: CaCO3, S, SO4", "S");
+                    "analyte SO4 cannot be given as 'N'; expected one of: CaCO3, S, SO4");  // N is not S: no hint
     }
     SUBCASE("alkalinity as an element") {
         auto w = water();
@@ -471,6 +558,117 @@ TEST_CASE("errors: analytes") {
         add(w, "Cl", 500000.0, "", "", 8);
         check_error(w, "water.lab", 1,
                     "the analytes add up to more dissolved mass than the solution holds (1100 g per litre");
+    }
+}
+
+TEST_CASE("HCO3 and CO3 are taken as total alkalinity (Standard Methods 2320 B)") {
+    // Standard Methods 2320 B, Calculation: HCO3 = 1.22 x bicarbonate alkalinity as CaCO3,
+    // CO3 = 0.60 x carbonate alkalinity as CaCO3 (from memory); in equivalents
+    // alkalinity = HCO3 (mol) + 2 CO3 (mol). 61.016 mg/L HCO3 = 1 meq/L, 30.004 mg/L CO3 =
+    // 0.5 mmol/L = 1 meq/L (M(CO3) = 60.008); 2 meq/L in all. Density 1 kg/L; the dissolved
+    // mass counts the ions as given: water 1 - (61.016 + 30.004)e-6 kg/L.
+    SUBCASE("both ions, mg/L") {
+        auto w = water(1.0);
+        add(w, "HCO3", 61.016, "", "", 7);
+        add(w, "CO3", 30.004, "", "", 8);
+        const auto in = convert(w);
+        REQUIRE(in.components.size() == 1);
+        CHECK(in.components[0].kind == ComponentInput::Kind::alkalinity);
+        const double water_kg = 1 - (61.016 + 30.004) * 1e-6;
+        CHECK(molality(in, "HCO3-") == near(2e-3 / water_kg).epsilon(1e-6));
+        // The note: 2 meq/L x 50.043 mg/meq = 100.086 mg/L as CaCO3; by the Standard Methods
+        // factors, 61.016/1.22 + 30.004/0.60 = 50.01 + 50.01 = 100.0 (to their 3 digits).
+        REQUIRE(in.notes.size() == 1);
+        INFO(in.notes[0]);
+        CHECK(contains(in.notes[0], "HCO3 61.016 mg/L and CO3 30.004 mg/L taken as total alkalinity, 100.086 mg/L as CaCO3"));
+        CHECK(contains(in.notes[0], "alkalinity as CaCO3 = 50.04 x (HCO3/61.02 + 2 CO3/60.01) mg/L, Standard Methods 2320 B"));
+    }
+    SUBCASE("the published factors: 122 mg/L HCO3 is 100 mg/L alkalinity as CaCO3") {
+        // 1.22 x 100 = 122 mg/L HCO3 (Standard Methods 2320 B, from memory). The conversion
+        // gives 122/61.016 x 50.043 = 100.06, within the 3 digits of the factor.
+        auto w = water(1.0);
+        add(w, "HCO3", 122.0);
+        const auto in = convert(w);
+        CHECK(molality(in, "HCO3-") * (1 - 122e-6) * 50.043e3 == doctest::Approx(100.0).epsilon(0.005));
+    }
+    SUBCASE("mmol/L and meq/L: CO3 counts twice in mmol, once in meq") {
+        auto w = water(1.0);
+        add(w, "CO3", 1.0, "mmol/L");
+        add(w, "HCO3", 1.0, "meq/L");
+        const double water_kg = 1 - (60.008 + 61.016) * 1e-6;
+        CHECK(molality(convert(w), "HCO3-") == near(3e-3 / water_kg).epsilon(1e-6));
+    }
+    SUBCASE("as CaCO3: already alkalinity as CaCO3") {
+        auto w = water(1.0);
+        add(w, "HCO3", 50.043, "", "CaCO3");  // 1 meq/L; as HCO3 61.016 mg/L dissolved
+        CHECK(molality(convert(w), "HCO3-") == near(1e-3 / (1 - 61.016e-6)).epsilon(1e-6));
+    }
+    SUBCASE("with the other analytes") {
+        auto w = water(1.0);
+        add(w, "Ca", 40.078);
+        add(w, "HCO3", 61.016);
+        const auto in = convert(w);
+        CHECK(in.components.size() == 2);
+        CHECK(molality(in, "Ca^2+") == near(1e-3 / (1 - (40.078 + 61.016) * 1e-6)).epsilon(1e-6));
+    }
+}
+
+TEST_CASE("errors: HCO3 and CO3") {
+    SUBCASE("with Alkalinity") {
+        auto w = water();
+        add(w, "Alkalinity", 100.0, "", "CaCO3", 7);
+        add(w, "HCO3", 61.0, "", "", 8);
+        check_error(w, "water.lab.analytes.HCO3", 8,
+                    "HCO3 is taken as alkalinity (HCO3 and CO3 together give the total alkalinity, Standard Methods "
+                    "2320 B), and Alkalinity (line 7) gives the alkalinity too; give the alkalinity once: as HCO3 and "
+                    "CO3, or as Alkalinity");
+    }
+    SUBCASE("with DIC") {
+        auto w = water();
+        add(w, "CO3", 6.0, "", "", 7);
+        add(w, "DIC", 25.0, "", "", 9);
+        check_error(w, "water.lab.analytes.CO3", 7,
+                    "and DIC (line 9) gives the carbonate as a total; give HCO3 and CO3 (the alkalinity, with a "
+                    "measured pH) or DIC, not both");
+    }
+    SUBCASE("as something else") {
+        auto w = water();
+        add(w, "HCO3", 61.0, "", "C", 7);
+        check_error(w, "water.lab.analytes.HCO3.as", 7,
+                    "HCO3 cannot be given as 'C'; expected one of: CaCO3, HCO3 (or leave 'as' out: the mass of the ion HCO3)");
+    }
+    SUBCASE("as CaCO3 with a unit that is not a mass") {
+        auto w = water();
+        add(w, "CO3", 1.0, "mmol/L", "CaCO3", 7);
+        check_error(w, "water.lab.analytes.CO3.as", 7,
+                    "'as' = 'CaCO3' applies to a mass (mg/L as CaCO3), not to a value in mmol/L; leave 'as' out");
+    }
+    SUBCASE("an unknown unit") {
+        auto w = water();
+        add(w, "HCO3", 1.0, "mg/dl", "", 7);
+        check_error(w, "water.lab.analytes.HCO3", 7, "unknown concentration unit 'mg/dl'", "mg/L");
+    }
+    SUBCASE("without a measured pH") {
+        auto w = water();
+        w.ph.reset();
+        add(w, "HCO3", 61.0, "", "", 7);
+        check_error(w, "water.lab", 1, "the pH cannot come from the charge balance when the alkalinity is given");
+    }
+    SUBCASE("a database without an alkalinity analyte") {
+        std::string text(test_database);
+        text.replace(text.find("kind = \"alkalinity\"\n"), 20, "");
+        const Database no_alkalinity = Database::parse(text, "test-db.toml");
+        auto w = water();
+        add(w, "HCO3", 61.0, "", "", 7);
+        try {
+            (void)deltag::to_speciation_input(w, no_alkalinity, deltag::activity::ModelKind::davies);
+            FAIL("expected an InputError");
+        } catch (const InputError& e) {
+            CHECK(e.key() == "water.lab.analytes.HCO3");
+            CHECK(e.where().line == 7);
+            CHECK(contains(e.what(), "HCO3 is taken as alkalinity, and the database 'water-input-test' has no analyte "
+                                     "of kind alkalinity to take it"));
+        }
     }
 }
 

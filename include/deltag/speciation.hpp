@@ -113,6 +113,9 @@ struct SpeciationInput {
         double mol_per_kgw_per_unit = 0.0; // one unit of it, in mol/kgw of the component
     };
     std::optional<ChargeBalanceAnalyte> charge_balance_analyte;
+    // Not used by the solver: what reading a lab's values assumed, in words for the report
+    // (filled by to_speciation_input, passed on by deltag::describe_lab_input).
+    std::vector<std::string> notes;
 };
 
 // A lab analyte adjusted to close the charge balance: what was given, what the balance

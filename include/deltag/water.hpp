@@ -3,6 +3,7 @@
 
 #include <optional>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "deltag/database.hpp"
@@ -16,6 +17,9 @@ struct AnalyteValue {
     double value = 0.0;
     std::string unit;   // empty: the water's default unit
     std::string as;     // empty, an element (N, C, Si, ...) or "CaCO3"
+    // Written as a lab writes a value below its detection limit ("<0.05"): `value` is then the
+    // limit, and the water's below_detection rule says what is used in its place.
+    bool below_detection = false;
     SourceLocation where;
     std::string key;    // dotted key for messages: water.NAME.analytes.X
 };
@@ -37,12 +41,21 @@ struct WaterAnalysis {
     std::string units = "mg/L";                  // default unit of the analytes
     std::optional<double> density_kg_per_l;      // solution density; default from temperature
     std::vector<AnalyteValue> analytes;
+    // What a value below the detection limit counts as: "half" the limit (the default),
+    // "zero" or the "limit" itself. See below_detection_rules().
+    std::string below_detection = "half";
+    SourceLocation below_detection_where;
     SourceLocation where;                        // the [water.NAME] table
     SourceLocation charge_balance_where;
 };
 
-// Units a concentration may be given in.
+// Units a concentration may be given in. "ppm" is mg/kg of solution (parts per million by
+// mass); "ug/L", "µg/L" (micro sign) and "μg/L" (Greek mu) are one unit, as are the umol/L forms.
 const std::vector<std::string>& concentration_units();
+bool is_concentration_unit(std::string_view unit);
+
+// The rules for a value below its detection limit: "half", "zero", "limit".
+const std::vector<std::string>& below_detection_rules();
 
 // Turns a lab analysis into solver input: resolves analytes to components, converts units
 // (per litre of solution and per kg of solution to per kg of water, using the density and
@@ -51,6 +64,12 @@ const std::vector<std::string>& concentration_units();
 equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water,
                                                  const thermo::Database& db,
                                                  activity::ModelKind model);
+
+// After the solve of a lab water: adds to the result's warnings what reading the lab's values
+// assumed (input.notes: values below detection, HCO3 and CO3 taken as alkalinity), then
+// describes a charge-balance adjustment (below).
+void describe_lab_input(const equilibrium::SpeciationInput& input, equilibrium::SpeciationResult& result,
+                        const thermo::Database& db);
 
 // After the solve of a lab water whose charge balance adjusts an analyte: records in the
 // result what was given and what the balance needed (in the lab's unit and in mmol/kgw),

@@ -96,7 +96,7 @@ Computed compute_case(const std::string& case_path, const std::string& db_overri
     for (const auto& w : k.c.waters) {
         const equilibrium::SpeciationInput in = to_speciation_input(w, *k.l.db, k.c.activity_model);
         equilibrium::SpeciationResult r = equilibrium::speciate(*k.l.db, in);
-        describe_charge_balance_adjustment(in, r, *k.l.db);
+        describe_lab_input(in, r, *k.l.db);
         k.waters.push_back(process::state_from_result(r, in, *k.l.db));
     }
     k.steps = process::run_steps(*k.l.db, k.waters, k.c.steps);

@@ -3,8 +3,11 @@
 // applied, pH, pe and the charge-balance choice set.
 //
 // Units. Each unit has a basis and a measure:
-//   per litre of solution:      mg/L, ug/L (mass), mmol/L, umol/L, mol/L (amount), meq/L (equivalents)
-//   per kg of solution:         mg/kg (mass)
+//   per litre of solution:      mg/L, ug/L = µg/L (mass), mmol/L, umol/L, mol/L (amount), meq/L (equivalents)
+//   per kg of solution:         mg/kg = ppm (mass)
+// "ppm" is taken as it is defined, parts per million by mass: 1 mg per kg of solution, not
+// 1 mg/L. The two differ by the solution density (about 0.3 % for a fresh water at 25 °C,
+// more for a brine); a lab that writes ppm for mg/L should be read as mg/L.
 //   per kg of water:            mol/kgw, mmol/kgw (amount)
 // A mass refers to the analyte's mass_formula (SO4, SiO2, HCO3 for alkalinity), or to the
 // substance named by "as"; an amount (mol) refers to the same formula unit; equivalents are
@@ -47,8 +50,9 @@
 namespace deltag {
 
 const std::vector<std::string>& concentration_units() {
-    static const std::vector<std::string> units = {"mg/L",   "ug/L",  "mmol/L",  "umol/L",  "mol/L",
-                                                   "meq/L",  "mg/kg", "mol/kgw", "mmol/kgw"};
+    static const std::vector<std::string> units = {"mg/L",  "ug/L",  "µg/L",    "mmol/L",  "umol/L",
+                                                   "µmol/L", "mol/L", "meq/L", "mg/kg", "ppm",     "mol/kgw",
+                                                   "mmol/kgw"};
     return units;
 }
 
@@ -63,14 +67,27 @@ struct UnitInfo {
     double scale;  // to g, mol or eq
 };
 
-std::optional<UnitInfo> unit_info(std::string_view u) {
+// The micro prefix as labs type it: "u", the micro sign U+00B5 or the Greek mu U+03BC (the
+// same glyph in most fonts); all three mean 1e-6.
+std::string plain_micro(std::string_view u) {
+    for (std::string_view mu : {"\u00B5", "\u03BC"})
+        if (u.substr(0, mu.size()) == mu) {
+            std::string plain(1, 'u');
+            plain.append(u.substr(mu.size()));
+            return plain;
+        }
+    return std::string(u);
+}
+
+std::optional<UnitInfo> unit_info(std::string_view given) {
+    const std::string u = plain_micro(given);
     if (u == "mg/L") return UnitInfo{Basis::per_litre, Measure::mass, 1e-3};
     if (u == "ug/L") return UnitInfo{Basis::per_litre, Measure::mass, 1e-6};
     if (u == "mmol/L") return UnitInfo{Basis::per_litre, Measure::amount, 1e-3};
     if (u == "umol/L") return UnitInfo{Basis::per_litre, Measure::amount, 1e-6};
     if (u == "mol/L") return UnitInfo{Basis::per_litre, Measure::amount, 1.0};
     if (u == "meq/L") return UnitInfo{Basis::per_litre, Measure::equivalents, 1e-3};
-    if (u == "mg/kg") return UnitInfo{Basis::per_kg_solution, Measure::mass, 1e-3};
+    if (u == "mg/kg" || u == "ppm") return UnitInfo{Basis::per_kg_solution, Measure::mass, 1e-3};
     if (u == "mol/kgw") return UnitInfo{Basis::per_kg_water, Measure::amount, 1.0};
     if (u == "mmol/kgw") return UnitInfo{Basis::per_kg_water, Measure::amount, 1e-3};
     return std::nullopt;
@@ -200,6 +217,86 @@ Converted convert(const WaterAnalysis& w, const AnalyteValue& a, const thermo::A
     return c;
 }
 
+// HCO3 and CO3 as a lab reports them (bicarbonate and carbonate, mg/L as the ion), for a
+// database without analytes of those names: both are taken as the water's total alkalinity,
+// each ion counting its charge in equivalents,
+//   alkalinity (eq) = HCO3 (mol) + 2 CO3 (mol),
+// which in the trade's units is the Standard Methods 2320 B relation (Standard Methods for
+// the Examination of Water and Wastewater, method 2320 B, "Calculation": bicarbonate as
+// HCO3 = 1.22 x bicarbonate alkalinity as CaCO3, carbonate as CO3 = 0.60 x carbonate
+// alkalinity as CaCO3; from memory)
+//   alkalinity as CaCO3 (mg/L) = 50.04 x (HCO3 / 61.02 + 2 CO3 / 60.01),
+// 50.04 = M(CaCO3)/2, 61.02 = M(HCO3), 60.01 = M(CO3) (1.22 = 61.02/50.04 and
+// 0.60 = 60.01/(2 x 50.04)). Hydroxide and the weak bases other than carbonate are
+// neglected, as the relation does. "as CaCO3" means the value is already alkalinity as CaCO3.
+bool is_carbonate_ion(const std::string& name, const thermo::Database& db) {
+    return (name == "HCO3" || name == "CO3") && !db.find_analyte(name);
+}
+
+Converted convert_carbonate_ion(const WaterAnalysis& w, const AnalyteValue& a, const thermo::Analyte& alkalinity) {
+    const std::string key = analyte_key(w, a);
+    const std::string unit = a.unit.empty() ? w.units : a.unit;
+    const auto info = unit_info(unit);
+    if (!info)
+        throw InputError(a.where, key,
+                         "unknown concentration unit '" + unit + "'; expected one of: " + name_list(concentration_units()),
+                         nearest_name(unit, concentration_units()));
+    const chem::Formula ion = chem::parse_formula(a.name);
+    const int z = a.name == "HCO3" ? 1 : 2;
+    const std::vector<std::string> allowed = {"CaCO3", a.name};
+    if (!a.as.empty() && std::find(allowed.begin(), allowed.end(), a.as) == allowed.end())
+        throw InputError(a.where, key + ".as",
+                         a.name + " cannot be given as '" + a.as + "'; expected one of: " + name_list(allowed) +
+                             " (or leave 'as' out: the mass of the ion " + a.name + ")",
+                         nearest_name(a.as, allowed));
+    const bool as_caco3 = a.as == "CaCO3";
+    if (as_caco3 && info->measure != Measure::mass)
+        throw InputError(a.where, key + ".as",
+                         "'as' = 'CaCO3' applies to a mass (mg/L as CaCO3), not to a value in " + unit +
+                             "; leave 'as' out");
+    const double v = a.value * info->scale;
+    Converted c;
+    c.given = &a;
+    c.analyte = &alkalinity;
+    c.basis = info->basis;
+    switch (info->measure) {
+        case Measure::mass:
+            c.amount = as_caco3 ? v / (chem::parse_formula("CaCO3").molar_mass() / 2.0) : v / ion.molar_mass() * z;
+            break;
+        case Measure::amount: c.amount = v * z; break;
+        case Measure::equivalents: c.amount = v; break;
+    }
+    c.mass_kg = c.amount / z * ion.molar_mass() * 1e-3;  // dissolved mass as the ion
+    return c;
+}
+
+}  // namespace
+
+bool is_concentration_unit(std::string_view unit) { return unit_info(unit).has_value(); }
+
+// Values below the detection limit. The default is half the limit: zero would drop a
+// substance the lab could not rule out, the limit would count the largest amount it could
+// be; half lies between and is the usual substitution when few values of an analysis are
+// below detection (US EPA, Guidance for Data Quality Assessment, EPA QA/G-9, 2000, section
+// 4.7; from memory; common practice).
+const std::vector<std::string>& below_detection_rules() {
+    static const std::vector<std::string> rules = {"half", "zero", "limit"};
+    return rules;
+}
+
+namespace {
+
+double below_detection_factor(const std::string& rule) {
+    if (rule == "zero") return 0.0;
+    if (rule == "limit") return 1.0;
+    return 0.5;
+}
+
+// "0.05 mg/L" or "0.05 mg/L as N": a value in the lab's unit, for a note.
+std::string with_unit(double v, const WaterAnalysis& w, const AnalyteValue& a) {
+    return message_number(v) + " " + (a.unit.empty() ? w.units : a.unit) + (a.as.empty() ? "" : " as " + a.as);
+}
+
 }  // namespace
 
 equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, const thermo::Database& db,
@@ -208,16 +305,49 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
     const std::string wkey = water_key(water);
     const std::string cb_key = wkey + ".charge_balance";
 
+    equilibrium::SpeciationInput in;
+
+    // Values below the detection limit take the value the water's rule gives them.
+    const std::vector<AnalyteValue> analytes = [&] {
+        std::vector<AnalyteValue> out = water.analytes;
+        const double factor = below_detection_factor(water.below_detection);
+        std::string listed;
+        for (AnalyteValue& a : out) {
+            if (!a.below_detection) continue;
+            listed += (listed.empty() ? "" : ", ") + a.name + " <" + with_unit(a.value, water, a) + ": " +
+                      with_unit(a.value * factor, water, a);
+            a.value *= factor;
+        }
+        if (!listed.empty()) {
+            const std::string rule = water.below_detection == "half"   ? "half the detection limit"
+                                     : water.below_detection == "zero" ? "zero"
+                                                                       : "the detection limit itself";
+            in.notes.push_back("values below the detection limit taken as " + rule + " (below_detection = \"" +
+                               water.below_detection + "\"" +
+                               (water.below_detection_where.line == 0 ? ", the default" : "") + "): " + listed);
+        }
+        return out;
+    }();
+
     // Resolve and convert every analyte; one analyte per component.
     std::vector<Converted> converted;
     std::map<std::size_t, const AnalyteValue*> by_component;
-    for (const AnalyteValue& a : water.analytes) {
+    std::vector<const AnalyteValue*> carbonate_ions;  // HCO3, CO3: see convert_carbonate_ion
+    for (const AnalyteValue& a : analytes) {
+        if (is_carbonate_ion(a.name, db)) {
+            carbonate_ions.push_back(&a);
+            continue;
+        }
         const auto ai = db.find_analyte(a.name);
-        if (!ai)
+        if (!ai) {
+            auto names = db.analyte_names();
+            for (const char* ion : {"HCO3", "CO3"})
+                if (is_carbonate_ion(ion, db)) names.push_back(ion);
             throw InputError(a.where, analyte_key(water, a),
-                             "unknown analyte '" + a.name + "'; it is not an analyte of the database '" +
-                                 db.name() + "' (its analytes: " + name_list(db.analyte_names()) + ")",
-                             nearest_name(a.name, db.analyte_names()));
+                             "unknown analyte '" + a.name + "'; it is not an analyte of the database '" + db.name() +
+                                 "' (its analytes: " + name_list(names) + ")",
+                             nearest_name(a.name, names));
+        }
         const thermo::Analyte& an = db.analytes()[*ai];
         const auto [it, fresh] = by_component.emplace(an.component, &a);
         // Redox states of one element (Fe(2), Fe(3)) share a component; anything else doesn't.
@@ -232,6 +362,30 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
                                  "; give only one of them");
         }
         converted.push_back(convert(water, a, an, db));
+    }
+    const std::size_t first_carbonate_ion = converted.size();
+    if (!carbonate_ions.empty()) {
+        const AnalyteValue& ion = *carbonate_ions.front();
+        const auto& all = db.analytes();
+        const auto alk = std::find_if(all.begin(), all.end(),
+                                      [](const thermo::Analyte& x) { return x.kind == thermo::Analyte::Kind::alkalinity; });
+        if (alk == all.end())
+            throw InputError(ion.where, analyte_key(water, ion),
+                             ion.name + " is taken as alkalinity, and the database '" + db.name() +
+                                 "' has no analyte of kind alkalinity to take it");
+        if (const auto it = by_component.find(alk->component); it != by_component.end()) {
+            const AnalyteValue& other = *it->second;
+            const bool is_alkalinity = db.analytes()[*db.find_analyte(other.name)].kind == thermo::Analyte::Kind::alkalinity;
+            throw InputError(ion.where, analyte_key(water, ion),
+                             ion.name + " is taken as alkalinity (HCO3 and CO3 together give the total alkalinity, "
+                                        "Standard Methods 2320 B), and " +
+                                 other.name + " (line " + std::to_string(other.where.line) + ") " +
+                                 (is_alkalinity ? "gives the alkalinity too; give the alkalinity once: as HCO3 and CO3, "
+                                                  "or as " + other.name
+                                                : "gives the carbonate as a total; give HCO3 and CO3 (the alkalinity, "
+                                                  "with a measured pH) or " + other.name + ", not both"));
+        }
+        for (const AnalyteValue* a : carbonate_ions) converted.push_back(convert_carbonate_ion(water, *a, *alk));
     }
 
     // Per litre and per kg of solution to per kg of water (see the comment at the top).
@@ -253,7 +407,6 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
                              message_number(mass_fraction) + ", against a density of " + message_number(rho) +
                              " kg/L); check the units");
 
-    equilibrium::SpeciationInput in;
     in.label = water.name;
     in.temperature_c = water.temperature_c;
     in.activity_model = model;
@@ -303,8 +456,30 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
             const auto kind = c.analyte->kind == thermo::Analyte::Kind::alkalinity
                                   ? ComponentInput::Kind::alkalinity
                                   : ComponentInput::Kind::total;
-            in.components.push_back(ComponentInput{c.analyte->component, kind, molality});
+            // HCO3 and CO3 add up to one alkalinity.
+            const auto same = std::find_if(in.components.begin(), in.components.end(), [&](const ComponentInput& ci) {
+                return ci.component == c.analyte->component && ci.kind == kind;
+            });
+            if (same != in.components.end() && kind == ComponentInput::Kind::alkalinity) same->value += molality;
+            else in.components.push_back(ComponentInput{c.analyte->component, kind, molality});
         }
+    }
+    if (!carbonate_ions.empty()) {
+        double eq_per_kgw = 0.0;
+        std::string given;
+        for (std::size_t i = first_carbonate_ion; i < converted.size(); ++i) {
+            const Converted& c = converted[i];
+            eq_per_kgw += c.basis == Basis::per_litre          ? c.amount / water_per_litre
+                          : c.basis == Basis::per_kg_solution ? c.amount * rho / water_per_litre
+                                                              : c.amount;
+            given += (given.empty() ? "" : " and ") + c.given->name + " " + with_unit(c.given->value, water, *c.given);
+        }
+        // Back to a litre of solution for the trade's unit: eq/kgw x kgw/L x 50.04 g/eq.
+        const double caco3_eq_g = chem::parse_formula("CaCO3").molar_mass() / 2.0;
+        in.notes.push_back(given + " taken as total alkalinity, " + message_number(eq_per_kgw * water_per_litre * caco3_eq_g * 1e3) +
+                           " mg/L as CaCO3 (" + message_number(eq_per_kgw * 1e3) +
+                           " meq/kgw): alkalinity as CaCO3 = 50.04 x (HCO3/61.02 + 2 CO3/60.01) mg/L, Standard Methods "
+                           "2320 B; hydroxide and other weak bases neglected");
     }
     // Redox states given apart: the element's total, and its electrons as a split.
     for (const auto& [comp, te] : states) {
@@ -353,7 +528,7 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
             throw InputError(water.charge_balance_where, cb_key,
                              "cannot balance the charge on " + cb + ": its component " +
                                  db.species()[an.component].name + " has no charge; choose an ion such as Cl or Na, or \"pH\"");
-        const bool listed = std::any_of(water.analytes.begin(), water.analytes.end(),
+        const bool listed = std::any_of(analytes.begin(), analytes.end(),
                                         [&](const AnalyteValue& a) { return a.name == cb; });
         if (!listed)
             throw InputError(water.charge_balance_where, cb_key,
@@ -364,7 +539,7 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
                              "charge balance on " + cb + " needs a measured pH; give pH or set charge_balance = \"pH\"");
         in.charge_balance_component = an.component;
         // What the lab gave, for the report of the adjustment: one unit of it in mol/kgw.
-        const AnalyteValue& given = *std::find_if(water.analytes.begin(), water.analytes.end(),
+        const AnalyteValue& given = *std::find_if(analytes.begin(), analytes.end(),
                                                   [&](const AnalyteValue& a) { return a.name == cb; });
         AnalyteValue one = given;
         one.value = 1.0;
@@ -380,6 +555,12 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
         if (!present) in.components.push_back(ComponentInput{an.component, ComponentInput::Kind::total, 1e-4});
     }
     return in;
+}
+
+void describe_lab_input(const equilibrium::SpeciationInput& input, equilibrium::SpeciationResult& result,
+                        const thermo::Database& db) {
+    result.warnings.insert(result.warnings.end(), input.notes.begin(), input.notes.end());
+    describe_charge_balance_adjustment(input, result, db);
 }
 
 void describe_charge_balance_adjustment(const equilibrium::SpeciationInput& input, equilibrium::SpeciationResult& result,

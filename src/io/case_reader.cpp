@@ -33,6 +33,7 @@
 #include <filesystem>
 #include <fstream>
 #include <map>
+#include <regex>
 #include <sstream>
 #include <tuple>
 #include <utility>
@@ -56,7 +57,7 @@ const std::vector<std::string> top_level_keys = {"title", "database", "activity_
 const std::vector<std::string> water_keys = {"temperature_c",  "pH",    "pe",
                                              "eh_mv",          "reference", "dissolved_oxygen_mg_per_l",
                                              "charge_balance", "units", "density_kg_per_l",
-                                             "analytes"};
+                                             "below_detection", "analytes"};
 // Ways of giving a water's redox level; at most one of them.
 const std::vector<std::string> redox_keys = {"pe", "eh_mv", "dissolved_oxygen_mg_per_l"};
 const std::vector<std::string> analyte_keys = {"value", "unit", "as"};
@@ -76,7 +77,7 @@ std::optional<double> ranged(tomlu::TableReader& r, std::string_view key, double
 std::string checked_unit(tomlu::TableReader& r, std::string_view key) {
     const std::string u = *r.string(key);
     const auto& units = concentration_units();
-    if (std::find(units.begin(), units.end(), u) == units.end())
+    if (!is_concentration_unit(u))
         r.fail(key, "unknown concentration unit '" + u + "'; expected one of: " + name_list(units),
                nearest_name(u, units));
     return u;
@@ -111,6 +112,29 @@ SourceLocation key_where(const toml::table& t, std::string_view key, const std::
     return tomlu::where(t.source(), file);
 }
 
+// A value below the detection limit as a lab writes it: "<0.05" (spaces allowed around the
+// number). Returns the limit; anything else in quotes is an error at `where` and `key`.
+double below_detection_limit(const std::string& text, const SourceLocation& where, const std::string& key) {
+    const std::string form = "a value below the detection limit, written \"<\" and the limit, such as \"<0.05\"";
+    std::size_t i = text.find_first_not_of(' ');
+    if (i == std::string::npos || text[i] != '<')
+        throw InputError(where, key,
+                         "expected a concentration (a number, without quotes) or " + form + "; found \"" + text + "\"");
+    // The limit: a plain decimal number ("0.05", "5e-3"), spaces around it allowed.
+    static const std::regex decimal(R"(\s*([0-9]+\.?[0-9]*|\.[0-9]+)([eE][+-]?[0-9]+)?\s*)");
+    const std::string rest = text.substr(i + 1);
+    if (!std::regex_match(rest, decimal))
+        throw InputError(where, key, "expected " + form + "; found \"" + text + "\": the limit is not a number");
+    const double limit = std::strtod(rest.c_str(), nullptr);
+    if (!std::isfinite(limit))
+        throw InputError(where, key, "expected " + form + "; found \"" + text + "\": the limit is not a number");
+    if (!(limit > 0.0))
+        throw InputError(where, key,
+                         "expected a detection limit above zero after \"<\", found \"" + text +
+                             "\"; a value measured as zero is written 0, without quotes");
+    return limit;
+}
+
 AnalyteValue read_analyte(const std::string& name, const toml::node& node, const std::string& file,
                           const std::string& water_prefix) {
     AnalyteValue a;
@@ -121,9 +145,20 @@ AnalyteValue read_analyte(const std::string& name, const toml::node& node, const
         a.value = node.is_integer() ? static_cast<double>(node.as_integer()->get())
                                     : node.as_floating_point()->get();
         if (!std::isfinite(a.value)) throw InputError(a.where, a.key, "expected a finite number");
+    } else if (node.is_string()) {
+        a.value = below_detection_limit(node.as_string()->get(), a.where, a.key);
+        a.below_detection = true;
     } else if (const toml::table* t = node.as_table()) {
         tomlu::TableReader r(*t, file, a.key);
-        a.value = r.require_number("value", "the concentration, a number (value = ...)");
+        if (const toml::node* v = t->get("value"); v && v->is_string()) {
+            const std::string vkey = tomlu::join_key(a.key, "value");
+            a.value = below_detection_limit(v->as_string()->get(), tomlu::where(v->source(), file), vkey);
+            a.below_detection = true;
+            (void)r.node("value");
+        } else {
+            a.value = r.require_number("value", "the concentration, a number (value = ...) or a value below the "
+                                                "detection limit (value = \"<0.05\")");
+        }
         if (r.has("unit")) a.unit = checked_unit(r, "unit");
         if (auto as = r.string("as")) {
             if (as->empty())
@@ -134,8 +169,8 @@ AnalyteValue read_analyte(const std::string& name, const toml::node& node, const
         r.finish(analyte_keys);
     } else {
         throw InputError(a.where, a.key,
-                         "expected a concentration: a number, or a table { value = ..., unit = ..., "
-                         "as = ... }; found " + tomlu::type_name(node));
+                         "expected a concentration: a number, a value below the detection limit such as \"<0.05\", "
+                         "or a table { value = ..., unit = ..., as = ... }; found " + tomlu::type_name(node));
     }
     if (a.value < 0.0)
         throw InputError(a.where, a.key,
@@ -199,13 +234,29 @@ WaterAnalysis read_water(const std::string& name, const toml::node& node, const 
         w.charge_balance_where = r.location("charge_balance");
         if (cb->empty())
             r.fail("charge_balance", "expected \"pH\" or the name of an analyte to adjust, found an empty string");
-        // "ph", "PH": surely meant pH, not an analyte.
-        if (*cb != "pH" && edit_distance(*cb, "pH") == 0)
+        // "ph", "PH": surely meant pH, not an analyte. With a measured pH, "pH" would be
+        // refused too, so it is not suggested: a suggestion must itself be valid.
+        if (*cb != "pH" && edit_distance(*cb, "pH") == 0) {
+            if (w.ph)
+                r.fail("charge_balance", "found \"" + *cb + "\", but the pH is measured (pH = " + message_number(*w.ph) +
+                                             ") and cannot also close the charge balance; name an analyte to adjust, "
+                                             "such as \"Cl\", or leave charge_balance out");
             r.fail("charge_balance", "expected \"pH\" or the name of an analyte to adjust, found \"" + *cb + "\"", "pH");
+        }
         w.charge_balance = *cb;
     }
     if (r.has("units")) w.units = checked_unit(r, "units");
     w.density_kg_per_l = ranged(r, "density_kg_per_l", 0.9, 1.5, "a solution density", " kg/L");
+    if (auto rule = r.string("below_detection")) {
+        const auto& rules = below_detection_rules();
+        if (!is_one_of(*rule, rules))
+            r.fail("below_detection",
+                   "expected what a value below its detection limit (\"<0.05\") counts as: \"half\" the limit, "
+                   "\"zero\" or the \"limit\" itself; found \"" + *rule + "\"",
+                   nearest_name(*rule, rules));
+        w.below_detection = *rule;
+        w.below_detection_where = r.location("below_detection");
+    }
 
     if (const toml::table* analytes = r.table("analytes")) {
         for (const auto& e : in_file_order(*analytes, file))
@@ -265,6 +316,7 @@ const std::vector<std::string> mineral_directions = {"dissolve", "precipitate"};
 const std::vector<std::string> dose_units = {"mol/kgw", "mmol/kgw", "umol/kgw", "mg/kgw", "g/kgw",
                                              "mol/L",   "mmol/L",   "umol/L",   "mg/L",   "g/L"};
 const std::vector<std::string> amount_keys = {"value", "unit"};
+const std::vector<std::string> gas_units = {"atm", "bar", "kPa", "ppmv", "%"};
 const std::vector<std::string> until_keys = {"pH", "si", "alkalinity_meq_per_l", "langelier"};
 const std::vector<std::string> blend_bases = {"volume", "mass"};
 const std::vector<std::string> sweep_keys = {"label",  "step",        "at",      "variable", "from", "to",
@@ -465,6 +517,49 @@ process::MineralSpec read_mineral(const Entry& e, const std::string& file, const
     return m;
 }
 
+// A gas level: a bare number is the log10 partial pressure in atm; a table { value, unit }
+// gives the partial pressure in atm, bar or kPa, or the gas's share of the gas phase in ppmv
+// (parts per million by volume) or % (by volume), taken at a total pressure of 1 atm
+// (Dalton's law, p = x P): 420 ppmv of CO2 is 420e-6 atm, 21 % of O2 is 0.21 atm.
+// 1 atm = 101.325 kPa = 1.01325 bar exactly (the standard atmosphere, 10th CGPM 1954).
+// Returns the log10 partial pressure in atm, from -20 to 2 as for a bare number.
+double gas_level(tomlu::TableReader& g, const Entry& entry, const std::string& what) {
+    const std::string key = g.dotted(entry.name);
+    if (entry.node->is_integer() || entry.node->is_floating_point())
+        return *ranged(g, entry.name, -20.0, 2.0, "a log10 partial pressure in atm");
+    const toml::table* t = entry.node->as_table();
+    if (!t)
+        g.fail(entry.name, "expected " + what + " (a number), or { value = ..., unit = ... } with unit one of: " +
+                               name_list(gas_units) + "; found " + tomlu::type_name(*entry.node));
+    (void)g.node(entry.name);
+    reject_unknown_keys(*t, amount_keys, g.file(), key);
+    tomlu::TableReader r(*t, g.file(), key);
+    const double v = r.require_number("value", "the gas level, a number (value = ...)");
+    const std::string unit = r.require_string("unit", "the unit of the gas level, one of: " + name_list(gas_units));
+    double atm = 0.0;
+    if (unit == "atm") atm = v;
+    else if (unit == "bar") atm = v / 1.01325;
+    else if (unit == "kPa") atm = v / 101.325;
+    else if (unit == "ppmv") atm = v * 1e-6;
+    else if (unit == "%") atm = v / 100.0;
+    else
+        r.fail("unit", "unknown unit of a gas level '" + unit + "'; expected one of: " + name_list(gas_units) +
+                           " (or a bare number: the log10 partial pressure in atm)",
+               nearest_name(unit, gas_units));
+    if (!(v > 0.0))
+        r.fail("value", "expected a gas level above zero, found " + message_number(v) +
+                            " (a partial pressure of zero has no log10); leave a gas that is absent out");
+    const bool share = unit == "ppmv" || unit == "%";
+    if (share && atm > 1.0)
+        r.fail("value", "expected a share of the gas phase of at most 100 % (1e6 ppmv), found " + message_number(v) + " " +
+                            unit);
+    const double log_p = std::log10(atm);
+    if (log_p < -20.0 || log_p > 2.0)
+        r.fail("value", "expected a partial pressure from 1e-20 to 100 atm (log10 from -20 to 2), found " +
+                            message_number(v) + " " + unit + " = " + message_number(atm) + " atm");
+    return log_p;
+}
+
 process::EquilibrateStep read_equilibrate(tomlu::TableReader& r) {
     process::EquilibrateStep e;
     if (const toml::table* minerals = r.table("minerals")) {
@@ -477,10 +572,7 @@ process::EquilibrateStep read_equilibrate(tomlu::TableReader& r) {
             process::GasSpec gas;
             gas.name = entry.name;
             gas.where = entry.key_where;
-            if (!entry.node->is_integer() && !entry.node->is_floating_point())
-                g.fail(entry.name, "expected the log10 partial pressure of the gas in atm (a number), found " +
-                                       tomlu::type_name(*entry.node));
-            gas.log_partial_pressure_atm = *ranged(g, entry.name, -20.0, 2.0, "a log10 partial pressure in atm");
+            gas.log_partial_pressure_atm = gas_level(g, entry, "the log10 partial pressure of the gas in atm");
             e.gases.push_back(std::move(gas));
         }
     }
@@ -500,10 +592,7 @@ process::EquilibrateStep read_equilibrate(tomlu::TableReader& r) {
             process::GasSpec gas;
             gas.name = entry.name;
             gas.where = entry.key_where;
-            if (!entry.node->is_integer() && !entry.node->is_floating_point())
-                g.fail(entry.name, "expected the starting log10 partial pressure in atm (a number), found " +
-                                       tomlu::type_name(*entry.node));
-            gas.log_partial_pressure_atm = *ranged(g, entry.name, -20.0, 2.0, "a log10 partial pressure in atm");
+            gas.log_partial_pressure_atm = gas_level(g, entry, "the starting log10 partial pressure in atm");
             spec.gases.push_back(std::move(gas));
         }
         h.finish({"volume_l_per_kgw", "temperature_c", "gases"});
