@@ -371,7 +371,19 @@ minerals = { Calcite = 0.0, Aragonite = 0.0 }
 water = "raw"
 kind = "equilibrate"
 gases = { "CO3(g)" = -3.5 }
-)toml"), doctest::Contains("did you mean 'CO2(g)'"), InputError);
+)toml"), doctest::Contains("did you mean 'CO2(g)'"), InputError);    // A formula where a phase is expected leads to the phase of that formula.
+    CHECK_THROWS_WITH_AS(run(water + R"toml(
+[[step]]
+water = "raw"
+kind = "equilibrate"
+minerals = { CaCO3 = 0.0 }
+)toml"), doctest::Contains("'CaCO3' is not a mineral of the database 'core' (did you mean 'Calcite'?)"), InputError);
+    CHECK_THROWS_WITH_AS(run(water + R"toml(
+[[step]]
+water = "raw"
+kind = "equilibrate"
+gases = { "CO2" = -3.4 }
+)toml"), doctest::Contains("'CO2' is not a gas of the database 'core' (did you mean 'CO2(g)'?)"), InputError);
 }
 
 TEST_CASE("Langelier index agrees with the Standard Methods 2330 B hand calculation") {

@@ -58,15 +58,20 @@ void add_total(equilibrium::SpeciationInput& b, std::size_t j, double amount) {
 std::size_t mineral_index(const thermo::Database& db, const std::string& name, const SourceLocation& where,
                           const std::string& key) {
     if (auto i = db.find_mineral(name)) return *i;
+    // A formula where a mineral is expected ("CaCO3") leads to the mineral of that formula.
+    std::vector<std::pair<std::string, std::string>> phases;
+    for (const auto& m : db.minerals()) phases.emplace_back(m.name, m.formula.text);
     throw InputError(where, key, "'" + name + "' is not a mineral of the database '" + db.name() + "'",
-                     nearest_name(name, db.mineral_names()));
+                     nearest_phase(name, phases));
 }
 
 std::size_t gas_index(const thermo::Database& db, const std::string& name, const SourceLocation& where,
                       const std::string& key) {
     if (auto i = db.find_gas(name)) return *i;
+    std::vector<std::pair<std::string, std::string>> phases;
+    for (const auto& g : db.gases()) phases.emplace_back(g.name, g.formula.text);
     throw InputError(where, key, "'" + name + "' is not a gas of the database '" + db.name() + "'",
-                     nearest_name(name, db.gas_names()));
+                     nearest_phase(name, phases));
 }
 
 // The element of a component, for messages (Fe for Fe^2+).
