@@ -315,6 +315,16 @@ TEST_CASE("series_csv: header, rows, quoting and empty cells") {
     CHECK(series_csv(p).rfind("x,Calcite,", 0) == 0);
 }
 
+TEST_CASE("series_csv: numbers without binary noise, and no -0") {
+    // A sweep that steps pH 6.35 by 0.1 lands on 6.449999999999999; the table says 6.45
+    // (before, the shortest round-trip text wrote every noisy digit).
+    LinePlot p;
+    p.x_label = "pH";
+    p.series = {Series{"SI Calcite", {6.35, 6.35 + 0.1, 0.1 * 3}, {-0.0, 0.1 + 0.2, 1e-300}}};
+    const std::string csv = series_csv(p);
+    CHECK(csv == "pH,SI Calcite\n6.35,0\n6.45,0.3\n0.3,1e-300\n");
+}
+
 TEST_CASE("series_csv: errors") {
     LinePlot p = sample_plot();
     p.series[1].x[2] = 3.5;

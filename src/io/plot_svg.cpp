@@ -7,6 +7,8 @@
 // pattern and marker shape, so the curves stay apart in grey print.
 #include "deltag/plot.hpp"
 
+#include "io/text_format.hpp"
+
 #include <algorithm>
 #include <array>
 #include <charconv>
@@ -31,93 +33,14 @@ constexpr double kTitleSize = 16.0, kLabelSize = 13.0, kTickSize = 11.0, kLegend
                  kNoteSize = 10.5;
 constexpr std::string_view kFont = "DejaVu Sans, Liberation Sans, Arial, sans-serif";
 
-// ---- text ---------------------------------------------------------------------------------
-
-
-// Number of code points in UTF-8 text (continuation bytes are not counted).
-std::size_t code_points(std::string_view s) {
-    return static_cast<std::size_t>(
-        std::count_if(s.begin(), s.end(), [](char c) { return (static_cast<unsigned char>(c) & 0xC0) != 0x80; }));
-}
-
-// Rough rendered width of text in a sans-serif font.
-double text_width(std::string_view s, double font_size) {
-    return 0.6 * font_size * static_cast<double>(code_points(s));
-}
-
-// Splits text into lines of at most max_chars code points at spaces (a longer word stays
-// whole); '\n' always breaks.
-std::vector<std::string> wrap(std::string_view text, std::size_t max_chars) {
-    std::vector<std::string> lines;
-    std::size_t start = 0;
-    while (start <= text.size()) {
-        const std::size_t nl = text.find('\n', start);
-        const std::string_view para = text.substr(start, nl == std::string_view::npos ? std::string_view::npos : nl - start);
-        std::string line;
-        std::size_t pos = 0;
-        while (pos < para.size()) {
-            const std::size_t sp = para.find(' ', pos);
-            const std::string_view word = para.substr(pos, sp == std::string_view::npos ? std::string_view::npos : sp - pos);
-            if (!word.empty()) {
-                if (!line.empty() && code_points(line) + 1 + code_points(word) > max_chars) {
-                    lines.push_back(line);
-                    line.clear();
-                }
-                if (!line.empty()) line += ' ';
-                line += word;
-            }
-            if (sp == std::string_view::npos) break;
-            pos = sp + 1;
-        }
-        lines.push_back(line);
-        if (nl == std::string_view::npos) break;
-        start = nl + 1;
-    }
-    while (!lines.empty() && lines.back().empty()) lines.pop_back();
-    return lines;
-}
-
-std::size_t chars_for_width(double width, double font_size) {
-    return std::max<std::size_t>(8, static_cast<std::size_t>(width / (0.6 * font_size)));
-}
-
-// ---- numbers ------------------------------------------------------------------------------
-
-std::string fixed(double v, int decimals) {
-    std::array<char, 64> buf{};
-    auto [end, ec] = std::to_chars(buf.data(), buf.data() + buf.size(), v, std::chars_format::fixed, decimals);
-    if (ec != std::errc()) throw std::logic_error("internal error: number does not fit its buffer");
-    return std::string(buf.data(), end);
-}
-
-// Coordinates: two decimals, trailing zeros dropped.
-std::string coord(double v) {
-    if (!std::isfinite(v)) throw std::logic_error("internal error: non-finite SVG coordinate");
-    std::string s = fixed(v, 2);
-    while (s.back() == '0') s.pop_back();
-    if (s.back() == '.') s.pop_back();
-    if (s == "-0") s = "0";
-    return s;
-}
-
-// Shortest text that reads back to the same double.
-std::string round_trip(double v) {
-    std::array<char, 64> buf{};
-    auto [end, ec] = std::to_chars(buf.data(), buf.data() + buf.size(), v);
-    if (ec != std::errc()) throw std::logic_error("internal error: number does not fit its buffer");
-    return std::string(buf.data(), end);
-}
+using text::chars_for_width;
+using text::coord;
+using text::csv_field;
+using text::fixed;
+using text::text_width;
+using text::wrap;
 
 double pow10(int e) { return std::pow(10.0, static_cast<double>(e)); }
-
-// ---- CSV ----------------------------------------------------------------------------------
-
-std::string csv_field(const std::string& s) {
-    if (s.find_first_of(",\"\n\r") == std::string::npos) return s;
-    std::string q = "\"";
-    for (char c : s) q += c == '"' ? std::string("\"\"") : std::string(1, c);
-    return q + "\"";
-}
 
 void check_lengths(const LinePlot& plot) {
     for (const auto& s : plot.series)
@@ -261,7 +184,8 @@ std::string series_csv(const LinePlot& plot) {
                                         "' does not have the same x values as series '" +
                                         plot.series.front().name + "'");
     }
-    auto cell = [](double v) { return std::isfinite(v) ? round_trip(v) : std::string(); };
+    // Numbers at 15 significant digits: no binary noise such as 6.450000000000001.
+    auto cell = [](double v) { return text::csv_number(v); };
     std::string out = csv_field(plot.x_label.empty() ? std::string("x") : plot.x_label);
     for (const auto& s : plot.series) {
         out += ',';
