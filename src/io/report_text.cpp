@@ -7,6 +7,7 @@
 
 #include "deltag/constants.hpp"
 #include "deltag/report.hpp"
+#include "io/text_format.hpp"
 
 namespace deltag::io {
 
@@ -260,7 +261,7 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx, co
             const auto& d = *item.dose;
             out += "  " + pad("dose", 22) +
                    fmt::format("{} {:.4g} mmol/kgw = {:.4g} mg/L{}\n", d.reagent, d.mol_per_kgw * 1000.0, d.mg_per_l,
-                               d.found_by_target ? fmt::format(" (found for the target; reached {:.6g})", d.target_reached) : "");
+                               d.found_by_target ? fmt::format(" (found for the target; reached {})", text::trimmed(d.target_reached, 6)) : "");
         }
         out += "\n";
         const std::string transfers = transfers_block(db, r);
@@ -305,7 +306,7 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx, co
     }
     out += "\n" + std::string(caution_text()) + "\n";
     if (!cells.empty() || !diagrams.empty()) out += std::string(electro_caution_text()) + "\n";
-    return out;
+    return text::drop_negative_zeros(out);
 }
 
 std::string_view electro_caution_text() {
@@ -328,7 +329,7 @@ std::string cell_text(const electro::CellResult& c) {
     out += "  " + std::string(c.spontaneous ? "runs as written: reduction at the cathode, oxidation at the anode (E > 0)"
                                             : "runs the other way: the written anode is reduced (E < 0)") + "\n";
     for (const auto& w : c.warnings) out += "  - " + w + "\n";
-    return out;
+    return text::drop_negative_zeros(out);
 }
 
 std::string text_report(const thermo::Database& db, const ReportContext& ctx,
