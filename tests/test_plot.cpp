@@ -173,6 +173,23 @@ TEST_CASE("line_plot_svg: the legend sits outside the plot area on the right") {
     CHECK(legend_x + legend_w <= attribute(svg, "<svg", "width"));
 }
 
+TEST_CASE("line_plot_svg: a legend name longer than a line is shown whole, inside its box") {
+    // Before, the box was capped at about 200 px, so a long unbreakable name ran out of it.
+    LinePlot p = sample_plot();
+    const std::string name = "Hydroxyapatite-Ca5(PO4)3OH-calculated";  // ASCII, no space
+    p.series[1].name = name;
+    const std::string svg = line_plot_svg(p);
+    CHECK(svg.find(">" + name + "</text>") != std::string::npos);
+    const auto legend = svg.find("class=\"legend\"");
+    REQUIRE(legend != std::string::npos);
+    const double legend_x = attribute(svg, "<rect", "x", legend);
+    const double legend_w = attribute(svg, "<rect", "width", legend);
+    // The text starts past the sample (10 + 30 + 8 px) and needs 0.6 em per character at 12 px.
+    CHECK(legend_w >= 10.0 + 30.0 + 8.0 + 0.6 * 12.0 * static_cast<double>(name.size()));
+    CHECK(legend_x + legend_w <= attribute(svg, "<svg", "width"));
+    CHECK(legend_x > attribute(svg, "<clipPath", "x") + attribute(svg, "<clipPath", "width"));
+}
+
 TEST_CASE("line_plot_svg: XML special characters are escaped, Unicode passes through") {
     LinePlot p = sample_plot();
     p.title = "R&D <test> \"quoted\" 'single'";

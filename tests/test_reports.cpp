@@ -252,6 +252,24 @@ TEST_CASE("indices without an answer: the reason in text and JSON, null values, 
     CHECK(csv.find(",,,") != std::string::npos);  // langelier, ryznar empty; ccpp present
 }
 
+TEST_CASE("text report: sweep column headers are never cut, and the values line up under them") {
+    // Before, each header was cut to 15 characters ("CCPP (mg/L as C").
+    process::SweepOutcome sw;
+    sw.label = "cycles";
+    sw.x_label = "cycles of concentration (-)";
+    sw.x = {1.0, 2.0};
+    sw.series = {{"pH", {7.8, 8.1}}, {"CCPP (mg/L as CaCO3)", {-3.25, 12.5}}};
+    const std::string t = io::text_report(core(), context(), {}, {{sw, "", ""}});
+    const auto head = t.find("CCPP (mg/L as CaCO3)\n");
+    REQUIRE(head != std::string::npos);
+    // The values of the last column end where its header ends.
+    const auto line_start = t.rfind('\n', head) + 1;
+    const std::size_t header_end = head + std::string("CCPP (mg/L as CaCO3)").size() - line_start;
+    const auto row = t.find("12.5000\n", head);
+    REQUIRE(row != std::string::npos);
+    CHECK(row + 7 - (t.rfind('\n', row) + 1) == header_end);
+}
+
 TEST_CASE("a sweep's points without a value are null in JSON, n/a in text, and noted") {
     process::SweepOutcome sw;
     sw.label = "share";

@@ -258,7 +258,9 @@ std::string line_plot_svg(const LinePlot& plot) {
         legend_h += kLegendLine * static_cast<double>(lines.size()) + kLegendGap;
         legend_names.push_back(std::move(lines));
     }
-    const double legend_w = kLegendPad + kSample + 8.0 + std::min(legend_text_w, kLegendTextMax + 12.0) + kLegendPad;
+    // As wide as its widest line: names are wrapped at words, and a word longer than a line is
+    // never cut, so the box grows to hold it (the plot area gives way).
+    const double legend_w = kLegendPad + kSample + 8.0 + legend_text_w + kLegendPad;
 
     double tick_w = 0.0;
     for (const auto& l : ylabels) tick_w = std::max(tick_w, text_width(l, kTickSize));

@@ -282,12 +282,18 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx, co
         out += fmt::format("Sweep '{}': {} points of {}\n", sw.sweep.label, sw.sweep.x.size(), sw.sweep.x_label);
         out += rule('=');
         out += "  " + pad(sw.sweep.x_label, 30);
-        for (const auto& [name, v] : sw.sweep.series) out += fmt::format("{:>16}", name.substr(0, 15));
+        // Each column as wide as its whole header (never cut), at least 16.
+        std::vector<std::size_t> widths;
+        for (const auto& [name, v] : sw.sweep.series) widths.push_back(std::max<std::size_t>(16, width(name) + 2));
+        std::size_t col = 0;
+        for (const auto& [name, v] : sw.sweep.series) out += std::string(widths[col++] - width(name), ' ') + name;
         out += "\n";
         for (std::size_t i = 0; i < sw.sweep.x.size(); ++i) {
             out += "  " + pad(fmt::format("{:.4g}", sw.sweep.x[i]), 30);
+            col = 0;
             for (const auto& [name, v] : sw.sweep.series)
-                out += std::isfinite(v[i]) ? fmt::format("{:>16.4f}", v[i]) : fmt::format("{:>16}", "n/a");
+                out += std::isfinite(v[i]) ? fmt::format("{:>{}.4f}", v[i], widths[col++])
+                                           : fmt::format("{:>{}}", "n/a", widths[col++]);
             out += "\n";
         }
         if (!sw.sweep.notes.empty()) {
