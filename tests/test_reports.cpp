@@ -270,6 +270,27 @@ TEST_CASE("text report: sweep column headers are never cut, and the values line 
     CHECK(row + 7 - (t.rfind('\n', row) + 1) == header_end);
 }
 
+TEST_CASE("sweep plot: pH, CCPP and the indices on panels of their own") {
+    // Invented numbers. Before, all four curves shared one axis from -50 to 150.
+    process::SweepOutcome sw;
+    sw.label = "cycles";
+    sw.x_label = "cycles of concentration (-)";
+    sw.x = {1.0, 2.0, 3.0};
+    sw.series = {{"pH", {7.6, 8.0, 8.3}},
+                 {"SI Calcite", {-0.3, 0.2, 0.6}},
+                 {"Langelier index", {-0.4, 0.1, 0.5}},
+                 {"CCPP (mg/L as CaCO3)", {-40.0, 30.0, 120.0}}};
+    const std::string svg = io::sweep_svg(sw, "Cycles (invented)");
+    std::size_t panels = 0;
+    for (auto at = svg.find("<svg x=\"0\""); at != std::string::npos; at = svg.find("<svg x=\"0\"", at + 1)) ++panels;
+    CHECK(panels == 3);  // pH; SI and LSI together (both log units); CCPP
+    CHECK(svg.find(">saturation index, Langelier index (log units)</text>") != std::string::npos);
+    CHECK(svg.find(">CCPP (mg/L as CaCO3)</text>") != std::string::npos);
+    // Only SI sweeps keep the single plot.
+    sw.series = {{"SI Calcite", {-0.3, 0.2, 0.6}}, {"SI Gypsum", {-2.0, -1.5, -1.0}}};
+    CHECK(io::sweep_svg(sw, "t").find("<svg x=\"0\"") == std::string::npos);
+}
+
 TEST_CASE("a sweep's points without a value are null in JSON, n/a in text, and noted") {
     process::SweepOutcome sw;
     sw.label = "share";

@@ -205,9 +205,11 @@ std::string series_csv(const LinePlot& plot) {
 
 // ---- SVG ----------------------------------------------------------------------------------
 
-std::string line_plot_svg(const LinePlot& plot) {
-    if (plot.series.empty()) throw std::invalid_argument("plot '" + plot.title + "' has no series");
-    check_lengths(plot);
+namespace {
+
+// One panel: a whole SVG document of the given minimum height, its clip path under clip_id;
+// the height drawn goes to height_out.
+std::string panel_svg(const LinePlot& plot, const std::string& clip_id, double min_height, double& height_out) {
 
     // Data ranges: x over every finite x (so the whole swept range shows even where a value
     // is missing), y over every drawable point and every reference line.
@@ -270,7 +272,8 @@ std::string line_plot_svg(const LinePlot& plot) {
     const auto xtitle_lines = wrap(plot.x_label, chars_for_width(plot_right - plot_left, kLabelSize));
     const double below = 22.0 + 17.0 * static_cast<double>(std::max<std::size_t>(1, xtitle_lines.size())) +
                          (note_lines.empty() ? 8.0 : 14.0 + 13.0 * static_cast<double>(note_lines.size()));
-    const double height = std::max(kMinHeight, plot_top + std::max(240.0, legend_h) + below);
+    const double height = std::max(min_height, plot_top + std::max(240.0, legend_h) + below);
+    height_out = height;
     const double plot_bottom = height - below;
 
     auto px = [&](double x) { return plot_left + (x - xs.low) / (xs.high - xs.low) * (plot_right - plot_left); };
@@ -283,7 +286,7 @@ std::string line_plot_svg(const LinePlot& plot) {
          "\" role=\"img\">\n";
     o += "<title>" + xml_escape(plot.title) + "</title>\n";
     if (!plot.note.empty()) o += "<desc>" + xml_escape(plot.note) + "</desc>\n";
-    o += "<defs><clipPath id=\"deltag-plot-area\"><rect x=\"" + coord(plot_left) + "\" y=\"" + coord(plot_top) +
+    o += "<defs><clipPath id=\"" + clip_id + "\"><rect x=\"" + coord(plot_left) + "\" y=\"" + coord(plot_top) +
          "\" width=\"" + coord(plot_right - plot_left) + "\" height=\"" + coord(plot_bottom - plot_top) +
          "\"/></clipPath></defs>\n";
     o += "<rect width=\"" + coord(kWidth) + "\" height=\"" + coord(height) + "\" fill=\"#FFFFFF\"/>\n";
@@ -353,7 +356,7 @@ std::string line_plot_svg(const LinePlot& plot) {
             o += "<path d=\"" + d + "\" fill=\"none\" stroke=\"" + std::string(st.colour) +
                  "\" stroke-width=\"2\" stroke-linejoin=\"round\"";
             if (!st.dash.empty()) o += " stroke-dasharray=\"" + std::string(st.dash) + "\"";
-            o += " clip-path=\"url(#deltag-plot-area)\"/>\n";  // markers are not clipped: a point on
+            o += " clip-path=\"url(#" + clip_id + ")\"/>\n";  // markers are not clipped: a point on
                                                                   // the frame stays whole
         }
         // Markers: at most about 24 per series, staggered between series so they do not sit
@@ -450,6 +453,83 @@ std::string line_plot_svg(const LinePlot& plot) {
     }
     o += "</svg>\n";
     return o;
+}
+
+bool drawable(const Series& s) {
+    for (std::size_t i = 0; i < s.x.size(); ++i)
+        if (finite_point(s, i)) return true;
+    return false;
+}
+
+}  // namespace
+
+std::string line_plot_svg(const LinePlot& plot) {
+    if (plot.series.empty()) throw std::invalid_argument("plot '" + plot.title + "' has no series");
+    check_lengths(plot);
+    std::vector<std::string> panels;
+    for (const auto& s : plot.series)
+        if (std::find(panels.begin(), panels.end(), s.panel) == panels.end()) panels.push_back(s.panel);
+    double height = 0.0;
+    if (panels.size() < 2) return panel_svg(plot, "deltag-plot-area", kMinHeight, height);
+
+    // Panels stacked one above another, each a nested SVG document of its own.
+    const std::string& ref_panel = plot.reference_panel.empty() ? panels.front() : plot.reference_panel;
+    std::vector<LinePlot> parts;
+    std::vector<std::string> empty;
+    for (const auto& name : panels) {
+        LinePlot p;
+        p.x_label = plot.x_label;
+        p.y_label = name.empty() ? plot.y_label : name;
+        for (const auto& s : plot.series)
+            if (s.panel == name) p.series.push_back(s);
+        if (name == ref_panel) p.y_reference_lines = plot.y_reference_lines;
+        if (std::none_of(p.series.begin(), p.series.end(), drawable)) {
+            empty.push_back(p.y_label);
+            continue;
+        }
+        parts.push_back(std::move(p));
+    }
+    if (parts.empty())
+        throw std::invalid_argument("plot '" + plot.title + "' has no point with finite x and y values");
+    // The x range is shared: every panel gets the x extremes of the whole plot as an invisible
+    // (non-finite y) point, so the axes line up.
+    double xmin = std::numeric_limits<double>::infinity(), xmax = -xmin;
+    for (const auto& s : plot.series)
+        for (double x : s.x)
+            if (std::isfinite(x)) {
+                xmin = std::min(xmin, x);
+                xmax = std::max(xmax, x);
+            }
+    std::string note = plot.note;
+    if (!empty.empty()) {
+        std::string names;
+        for (const auto& e : empty) names += (names.empty() ? "" : "; ") + e;
+        note = "No value to draw for: " + names + ". " + note;
+    }
+    parts.front().title = plot.title;
+    parts.back().note = note;
+    std::string body;
+    double y = 0.0;
+    for (std::size_t k = 0; k < parts.size(); ++k) {
+        LinePlot& p = parts[k];
+        // The shared x range rides on the first series as a gap point at each end (not drawn,
+        // not in any table).
+        p.series.front().x.insert(p.series.front().x.begin(), xmin);
+        p.series.front().y.insert(p.series.front().y.begin(), std::numeric_limits<double>::quiet_NaN());
+        p.series.front().x.push_back(xmax);
+        p.series.front().y.push_back(std::numeric_limits<double>::quiet_NaN());
+        std::string svg = panel_svg(p, "deltag-plot-area-" + std::to_string(k + 1), 300.0, height);
+        const std::string head = "<svg xmlns=\"http://www.w3.org/2000/svg\" ";
+        svg.replace(0, head.size(), "<svg x=\"0\" y=\"" + coord(y) + "\" ");
+        body += svg;
+        y += height;
+    }
+    std::string o = "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"" + coord(kWidth) + "\" height=\"" + coord(y) +
+                    "\" viewBox=\"0 0 " + coord(kWidth) + " " + coord(y) + "\" font-family=\"" + std::string(kFont) +
+                    "\" role=\"img\">\n";
+    o += "<title>" + xml_escape(plot.title) + "</title>\n";
+    if (!note.empty()) o += "<desc>" + xml_escape(note) + "</desc>\n";
+    return o + body + "</svg>\n";
 }
 
 // Escapes XML special characters; control characters are dropped (tab and newline become a

@@ -304,12 +304,25 @@ LinePlot plot_of(const process::SweepOutcome& sweep, const std::string& title) {
         any_langelier = any_langelier || lsi;
         all_si = all_si && (name.rfind("SI ", 0) == 0 || lsi);
     }
-    p.y_label = !all_si ? "value (units in the legend)"
-                : any_langelier ? "saturation index, Langelier index (log units)"
-                                : "saturation index (log units)";
-    for (const auto& [name, v] : sweep.series) p.series.push_back(Series{name, sweep.x, v});
-    if (all_si) p.y_reference_lines.emplace_back(0.0, "saturation");
-    p.note = "deltag " + std::string("sweep '") + sweep.label + "'. Equilibrium calculation; decisions rest with licensed engineers.";
+    const std::string log_panel = any_langelier ? "saturation index, Langelier index (log units)"
+                                                : "saturation index (log units)";
+    // One panel per kind of quantity: the log-unit indices share one (zero at equilibrium);
+    // every other quantity (pH, CCPP in mg/L, ...) gets its own, titled by its name and unit,
+    // so a range in mg/L does not flatten the indices into a line.
+    bool any_si = false;
+    for (const auto& [name, v] : sweep.series) {
+        const bool log_units = name.rfind("SI ", 0) == 0 || name == "Langelier index";
+        any_si = any_si || log_units;
+        p.series.push_back(Series{name, sweep.x, v, log_units ? log_panel : name});
+    }
+    p.y_label = all_si ? log_panel : sweep.series.size() == 1 ? sweep.series.front().first : "value (units in the legend)";
+    if (any_si) {
+        p.y_reference_lines.emplace_back(0.0, "saturation");
+        p.reference_panel = log_panel;
+    }
+    p.note = "deltag sweep '";  // appended piece by piece: "..." + std::string trips GCC 12's -Wrestrict
+    p.note += sweep.label;
+    p.note += "'. Equilibrium calculation; decisions rest with licensed engineers.";
     return p;
 }
 }  // namespace
