@@ -309,14 +309,14 @@ LinePlot plot_of(const process::SweepOutcome& sweep, const std::string& title) {
     // One panel per kind of quantity: the log-unit indices share one (zero at equilibrium);
     // every other quantity (pH, CCPP in mg/L, ...) gets its own, titled by its name and unit,
     // so a range in mg/L does not flatten the indices into a line.
-    bool any_si = false;
+    bool any_log_units = false;
     for (const auto& [name, v] : sweep.series) {
         const bool log_units = name.rfind("SI ", 0) == 0 || name == "Langelier index";
-        any_si = any_si || log_units;
+        any_log_units = any_log_units || log_units;
         p.series.push_back(Series{name, sweep.x, v, log_units ? log_panel : name});
     }
     p.y_label = all_si ? log_panel : sweep.series.size() == 1 ? sweep.series.front().first : "value (units in the legend)";
-    if (any_si) {
+    if (any_log_units) {
         p.y_reference_lines.emplace_back(0.0, "saturation");
         p.reference_panel = log_panel;
     }
