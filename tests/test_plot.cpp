@@ -225,6 +225,13 @@ TEST_CASE("line_plot_svg: series of different panels are stacked, each with its 
     CHECK(si_part.find(">invented scenario</text>") != std::string::npos);
     // The panels share the x range (1 to 4), though pH stops at 3: same tick labels each.
     CHECK(count(svg, ">4</text>") >= 3);
+    // The plot areas line up under one another (same left edge and width), though the tick
+    // labels ("8.2", "140", "0.4") and legends differ in width.
+    for (const char* id : {"deltag-plot-area-2", "deltag-plot-area-3"}) {
+        const auto at = svg.find(std::string("id=\"") + id);
+        CHECK(attribute(svg, "<rect", "x", at) == doctest::Approx(attribute(svg, "<clipPath", "x")));
+        CHECK(attribute(svg, "<rect", "width", at) == doctest::Approx(attribute(svg, "<clipPath", "width")));
+    }
     // The outer height is the sum of the panels'.
     double sum = 0.0;
     for (auto at = svg.find("<svg x=\"0\""); at != std::string::npos; at = svg.find("<svg x=\"0\"", at + 1))

@@ -207,9 +207,15 @@ std::string series_csv(const LinePlot& plot) {
 
 namespace {
 
-// One panel: a whole SVG document of the given minimum height, its clip path under clip_id;
-// the height drawn goes to height_out.
-std::string panel_svg(const LinePlot& plot, const std::string& clip_id, double min_height, double& height_out) {
+// The frame of one panel: what the caller asks for (minimum height, and the least left margin
+// and legend width, so stacked panels line their plot areas up) and what was drawn.
+struct PanelFrame {
+    double min_height = kMinHeight, min_plot_left = 0.0, min_legend_w = 0.0;
+    double height = 0.0, plot_left = 0.0, legend_w = 0.0;  // out
+};
+
+// One panel: a whole SVG document, its clip path under clip_id.
+std::string panel_svg(const LinePlot& plot, const std::string& clip_id, PanelFrame& frame) {
 
     // Data ranges: x over every finite x (so the whole swept range shows even where a value
     // is missing), y over every drawable point and every reference line.
@@ -262,18 +268,20 @@ std::string panel_svg(const LinePlot& plot, const std::string& clip_id, double m
     }
     // As wide as its widest line: names are wrapped at words, and a word longer than a line is
     // never cut, so the box grows to hold it (the plot area gives way).
-    const double legend_w = kLegendPad + kSample + 8.0 + legend_text_w + kLegendPad;
+    const double legend_w = std::max(frame.min_legend_w, kLegendPad + kSample + 8.0 + legend_text_w + kLegendPad);
+    frame.legend_w = legend_w;
 
     double tick_w = 0.0;
     for (const auto& l : ylabels) tick_w = std::max(tick_w, text_width(l, kTickSize));
-    const double plot_left = 26.0 + 10.0 + tick_w + 8.0;
+    const double plot_left = std::max(frame.min_plot_left, 26.0 + 10.0 + tick_w + 8.0);
+    frame.plot_left = plot_left;
     const double plot_right = kWidth - 16.0 - legend_w - 18.0;
     const double plot_top = title_lines.empty() ? 22.0 : 30.0 + 20.0 * static_cast<double>(title_lines.size());
     const auto xtitle_lines = wrap(plot.x_label, chars_for_width(plot_right - plot_left, kLabelSize));
     const double below = 22.0 + 17.0 * static_cast<double>(std::max<std::size_t>(1, xtitle_lines.size())) +
                          (note_lines.empty() ? 8.0 : 14.0 + 13.0 * static_cast<double>(note_lines.size()));
-    const double height = std::max(min_height, plot_top + std::max(240.0, legend_h) + below);
-    height_out = height;
+    const double height = std::max(frame.min_height, plot_top + std::max(240.0, legend_h) + below);
+    frame.height = height;
     const double plot_bottom = height - below;
 
     auto px = [&](double x) { return plot_left + (x - xs.low) / (xs.high - xs.low) * (plot_right - plot_left); };
@@ -284,7 +292,7 @@ std::string panel_svg(const LinePlot& plot, const std::string& clip_id, double m
     o += "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"" + coord(kWidth) + "\" height=\"" + coord(height) +
          "\" viewBox=\"0 0 " + coord(kWidth) + " " + coord(height) + "\" font-family=\"" + std::string(kFont) +
          "\" role=\"img\">\n";
-    o += "<title>" + xml_escape(plot.title) + "</title>\n";
+    if (!plot.title.empty() || clip_id == "deltag-plot-area") o += "<title>" + xml_escape(plot.title) + "</title>\n";
     if (!plot.note.empty()) o += "<desc>" + xml_escape(plot.note) + "</desc>\n";
     o += "<defs><clipPath id=\"" + clip_id + "\"><rect x=\"" + coord(plot_left) + "\" y=\"" + coord(plot_top) +
          "\" width=\"" + coord(plot_right - plot_left) + "\" height=\"" + coord(plot_bottom - plot_top) +
@@ -469,8 +477,8 @@ std::string line_plot_svg(const LinePlot& plot) {
     std::vector<std::string> panels;
     for (const auto& s : plot.series)
         if (std::find(panels.begin(), panels.end(), s.panel) == panels.end()) panels.push_back(s.panel);
-    double height = 0.0;
-    if (panels.size() < 2) return panel_svg(plot, "deltag-plot-area", kMinHeight, height);
+    PanelFrame single;
+    if (panels.size() < 2) return panel_svg(plot, "deltag-plot-area", single);
 
     // Panels stacked one above another, each a nested SVG document of its own.
     const std::string& ref_panel = plot.reference_panel.empty() ? panels.front() : plot.reference_panel;
@@ -508,21 +516,33 @@ std::string line_plot_svg(const LinePlot& plot) {
     }
     parts.front().title = plot.title;
     parts.back().note = note;
-    std::string body;
-    double y = 0.0;
-    for (std::size_t k = 0; k < parts.size(); ++k) {
-        LinePlot& p = parts[k];
-        // The shared x range rides on the first series as a gap point at each end (not drawn,
-        // not in any table).
+    // The shared x range rides on the first series of each panel as a gap point at each end
+    // (not drawn, not in any table).
+    for (LinePlot& p : parts) {
         p.series.front().x.insert(p.series.front().x.begin(), xmin);
         p.series.front().y.insert(p.series.front().y.begin(), std::numeric_limits<double>::quiet_NaN());
         p.series.front().x.push_back(xmax);
         p.series.front().y.push_back(std::numeric_limits<double>::quiet_NaN());
-        std::string svg = panel_svg(p, "deltag-plot-area-" + std::to_string(k + 1), 300.0, height);
+    }
+    // Two passes: the first finds the widest tick labels and legend, the second draws every
+    // panel with them, so the plot areas line up under one another.
+    PanelFrame shared;
+    shared.min_height = 300.0;
+    for (std::size_t k = 0; k < parts.size(); ++k) {
+        PanelFrame f = shared;
+        (void)panel_svg(parts[k], "deltag-plot-area", f);
+        shared.min_plot_left = std::max(shared.min_plot_left, f.plot_left);
+        shared.min_legend_w = std::max(shared.min_legend_w, f.legend_w);
+    }
+    std::string body;
+    double y = 0.0;
+    for (std::size_t k = 0; k < parts.size(); ++k) {
+        PanelFrame f = shared;
+        std::string svg = panel_svg(parts[k], "deltag-plot-area-" + std::to_string(k + 1), f);
         const std::string head = "<svg xmlns=\"http://www.w3.org/2000/svg\" ";
         svg.replace(0, head.size(), "<svg x=\"0\" y=\"" + coord(y) + "\" ");
         body += svg;
-        y += height;
+        y += f.height;
     }
     std::string o = "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"" + coord(kWidth) + "\" height=\"" + coord(y) +
                     "\" viewBox=\"0 0 " + coord(kWidth) + " " + coord(y) + "\" font-family=\"" + std::string(kFont) +
