@@ -173,6 +173,87 @@ TEST_CASE("line_plot_svg: the legend sits outside the plot area on the right") {
     CHECK(legend_x + legend_w <= attribute(svg, "<svg", "width"));
 }
 
+TEST_CASE("line_plot_svg: a legend name longer than a line is shown whole, inside its box") {
+    // Before, the box was capped at about 200 px, so a long unbreakable name ran out of it.
+    LinePlot p = sample_plot();
+    const std::string name = "Hydroxyapatite-Ca5(PO4)3OH-calculated";  // ASCII, no space
+    p.series[1].name = name;
+    const std::string svg = line_plot_svg(p);
+    CHECK(svg.find(">" + name + "</text>") != std::string::npos);
+    const auto legend = svg.find("class=\"legend\"");
+    REQUIRE(legend != std::string::npos);
+    const double legend_x = attribute(svg, "<rect", "x", legend);
+    const double legend_w = attribute(svg, "<rect", "width", legend);
+    // The text starts past the sample (10 + 30 + 8 px) and needs 0.6 em per character at 12 px.
+    CHECK(legend_w >= 10.0 + 30.0 + 8.0 + 0.6 * 12.0 * static_cast<double>(name.size()));
+    CHECK(legend_x + legend_w <= attribute(svg, "<svg", "width"));
+    CHECK(legend_x > attribute(svg, "<clipPath", "x") + attribute(svg, "<clipPath", "width"));
+}
+
+TEST_CASE("line_plot_svg: series of different panels are stacked, each with its own y axis") {
+    // Invented: pH 7.6-8.4 and CCPP -20..140 mg/L against cycles. On one axis the pH would
+    // be a flat line near zero; on panels each has its own range.
+    LinePlot p;
+    p.title = "Cycles (invented)";
+    p.x_label = "cycles of concentration (-)";
+    p.note = "invented scenario";
+    p.series = {Series{"pH", {1, 2, 3}, {7.6, 8.0, 8.4}, "pH"},
+                Series{"CCPP (mg/L as CaCO3)", {1, 2, 3}, {-20, 60, 140}, "CCPP (mg/L as CaCO3)"},
+                Series{"SI Calcite", {2, 3, 4}, {-0.2, 0.3, 0.6}, "saturation index (log units)"}};
+    p.y_reference_lines = {{0.0, "saturation"}};
+    p.reference_panel = "saturation index (log units)";
+    const std::string svg = line_plot_svg(p);
+    CHECK(count(svg, "<svg") == 4);  // the document and three panels
+    CHECK(count(svg, "<svg x=\"0\" y=\"") == 3);
+    CHECK(count(svg, "id=\"deltag-plot-area-1\"") == 1);
+    CHECK(count(svg, "id=\"deltag-plot-area-3\"") == 1);
+    CHECK(count(svg, "url(#deltag-plot-area-2)") == 1);
+    // Each panel has its own axis title; the pH panel's ticks are tenths, not tens of mg/L.
+    const auto ph_panel = svg.find("<svg x=\"0\" y=\"0\"");
+    const auto ccpp_panel = svg.find("<svg x=\"0\" y=\"", ph_panel + 1);
+    const auto si_panel = svg.find("<svg x=\"0\" y=\"", ccpp_panel + 1);
+    REQUIRE(si_panel != std::string::npos);
+    const std::string ph_part = svg.substr(ph_panel, ccpp_panel - ph_panel);
+    const std::string si_part = svg.substr(si_panel);
+    CHECK(ph_part.find(">8.2</text>") != std::string::npos);
+    CHECK(ph_part.find(">Cycles (invented)</text>") != std::string::npos);  // title on the first
+    CHECK(si_part.find(">saturation index (log units)</text>") != std::string::npos);
+    CHECK(si_part.find(">0.4</text>") != std::string::npos);
+    // The reference line only on its panel; the note closes the last panel.
+    CHECK(count(svg, ">saturation</text>") == 1);
+    CHECK(si_part.find(">saturation</text>") != std::string::npos);
+    CHECK(si_part.find(">invented scenario</text>") != std::string::npos);
+    // The panels share the x range (1 to 4), though pH stops at 3: same tick labels each.
+    CHECK(count(svg, ">4</text>") >= 3);
+    // The plot areas line up under one another (same left edge and width), though the tick
+    // labels ("8.2", "140", "0.4") and legends differ in width.
+    for (const char* id : {"deltag-plot-area-2", "deltag-plot-area-3"}) {
+        const auto at = svg.find(std::string("id=\"") + id);
+        CHECK(attribute(svg, "<rect", "x", at) == doctest::Approx(attribute(svg, "<clipPath", "x")));
+        CHECK(attribute(svg, "<rect", "width", at) == doctest::Approx(attribute(svg, "<clipPath", "width")));
+    }
+    // The outer height is the sum of the panels'.
+    double sum = 0.0;
+    for (auto at = svg.find("<svg x=\"0\""); at != std::string::npos; at = svg.find("<svg x=\"0\"", at + 1))
+        sum += attribute(svg, "<svg", "height", at);
+    CHECK(attribute(svg, "<svg", "height") == doctest::Approx(sum));
+}
+
+TEST_CASE("line_plot_svg: a panel with nothing to draw is left out and named in the note") {
+    LinePlot p;
+    p.title = "t";
+    p.x_label = "x";
+    p.note = "invented scenario";
+    p.series = {Series{"pH", {1, 2}, {7.0, 7.5}, "pH"},
+                Series{"Langelier index", {1, 2}, {nan_value, nan_value}, "Langelier index"}};
+    const std::string svg = line_plot_svg(p);
+    CHECK(count(svg, "<svg x=\"0\"") == 1);
+    CHECK(svg.find("No value to draw for: Langelier index.") != std::string::npos);
+    p.series[0].y = {nan_value, nan_value};
+    CHECK_THROWS_WITH_AS(line_plot_svg(p), doctest::Contains("has no point with finite x and y values"),
+                         std::invalid_argument);
+}
+
 TEST_CASE("line_plot_svg: XML special characters are escaped, Unicode passes through") {
     LinePlot p = sample_plot();
     p.title = "R&D <test> \"quoted\" 'single'";
@@ -313,6 +394,16 @@ TEST_CASE("series_csv: header, rows, quoting and empty cells") {
     CHECK(lower(csv).find("nan") == std::string::npos);
     p.x_label.clear();
     CHECK(series_csv(p).rfind("x,Calcite,", 0) == 0);
+}
+
+TEST_CASE("series_csv: numbers without binary noise, and no -0") {
+    // A sweep that steps pH 6.35 by 0.1 lands on 6.449999999999999; the table says 6.45
+    // (before, the shortest round-trip text wrote every noisy digit).
+    LinePlot p;
+    p.x_label = "pH";
+    p.series = {Series{"SI Calcite", {6.35, 6.35 + 0.1, 0.1 * 3}, {-0.0, 0.1 + 0.2, 1e-300}}};
+    const std::string csv = series_csv(p);
+    CHECK(csv == "pH,SI Calcite\n6.35,0\n6.45,0.3\n0.3,1e-300\n");
 }
 
 TEST_CASE("series_csv: errors") {

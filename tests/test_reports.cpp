@@ -2,10 +2,14 @@
 // refusal to write a non-finite number.
 #include <doctest/doctest.h>
 
+#include <algorithm>
 #include <cmath>
 #include <limits>
 #include <nlohmann/json.hpp>
 #include <stdexcept>
+#include <string>
+#include <utility>
+#include <vector>
 
 #include "deltag/report.hpp"
 #include "deltag/water.hpp"
@@ -248,6 +252,45 @@ TEST_CASE("indices without an answer: the reason in text and JSON, null values, 
     CHECK(csv.find(",,,") != std::string::npos);  // langelier, ryznar empty; ccpp present
 }
 
+TEST_CASE("text report: sweep column headers are never cut, and the values line up under them") {
+    // Before, each header was cut to 15 characters ("CCPP (mg/L as C").
+    process::SweepOutcome sw;
+    sw.label = "cycles";
+    sw.x_label = "cycles of concentration (-)";
+    sw.x = {1.0, 2.0};
+    sw.series = {{"pH", {7.8, 8.1}}, {"CCPP (mg/L as CaCO3)", {-3.25, 12.5}}};
+    const std::string t = io::text_report(core(), context(), {}, {{sw, "", ""}});
+    const auto head = t.find("CCPP (mg/L as CaCO3)\n");
+    REQUIRE(head != std::string::npos);
+    // The values of the last column end where its header ends.
+    const auto line_start = t.rfind('\n', head) + 1;
+    const std::size_t header_end = head + std::string("CCPP (mg/L as CaCO3)").size() - line_start;
+    const auto row = t.find("12.5000\n", head);
+    REQUIRE(row != std::string::npos);
+    CHECK(row + 7 - (t.rfind('\n', row) + 1) == header_end);
+}
+
+TEST_CASE("sweep plot: pH, CCPP and the indices on panels of their own") {
+    // Invented numbers. Before, all four curves shared one axis from -50 to 150.
+    process::SweepOutcome sw;
+    sw.label = "cycles";
+    sw.x_label = "cycles of concentration (-)";
+    sw.x = {1.0, 2.0, 3.0};
+    sw.series = {{"pH", {7.6, 8.0, 8.3}},
+                 {"SI Calcite", {-0.3, 0.2, 0.6}},
+                 {"Langelier index", {-0.4, 0.1, 0.5}},
+                 {"CCPP (mg/L as CaCO3)", {-40.0, 30.0, 120.0}}};
+    const std::string svg = io::sweep_svg(sw, "Cycles (invented)");
+    std::size_t panels = 0;
+    for (auto at = svg.find("<svg x=\"0\""); at != std::string::npos; at = svg.find("<svg x=\"0\"", at + 1)) ++panels;
+    CHECK(panels == 3);  // pH; SI and LSI together (both log units); CCPP
+    CHECK(svg.find(">saturation index, Langelier index (log units)</text>") != std::string::npos);
+    CHECK(svg.find(">CCPP (mg/L as CaCO3)</text>") != std::string::npos);
+    // Only SI sweeps keep the single plot.
+    sw.series = {{"SI Calcite", {-0.3, 0.2, 0.6}}, {"SI Gypsum", {-2.0, -1.5, -1.0}}};
+    CHECK(io::sweep_svg(sw, "t").find("<svg x=\"0\"") == std::string::npos);
+}
+
 TEST_CASE("a sweep's points without a value are null in JSON, n/a in text, and noted") {
     process::SweepOutcome sw;
     sw.label = "share";
@@ -264,4 +307,100 @@ TEST_CASE("a sweep's points without a value are null in JSON, n/a in text, and n
     CHECK(t.find("pHs does not exist") != std::string::npos);
     CHECK(t.find("nan") == std::string::npos);
     CHECK(io::sweep_csv(sw).find("nan") == std::string::npos);
+}
+
+// --- numbers as printed: no signed zero, no search noise, CSV like the JSON ---------------
+
+TEST_CASE("text report: a value that rounds to zero prints unsigned; a dose target met prints as met") {
+    // Before: fmt "{:+.2f}" printed -0.00 for a balance of -1e-4 %, and the dose line said
+    // "reached -3.35243e-08" for an SI target of 0 met to 1e-6.
+    SpeciationResult r = sample();
+    r.charge_balance_error_percent = -1e-4;
+    process::DoseOutcome dose;
+    dose.reagent = "NaOH";
+    dose.mol_per_kgw = 1.2e-4;
+    dose.mg_per_l = 4.8;
+    dose.found_by_target = true;
+    dose.target_reached = -3.35243e-08;
+    const io::ReportItem item{"dose", r, std::nullopt, dose};
+    const std::string t = io::text_report(core(), context(), {item});
+    CHECK(t.find("-0.00") == std::string::npos);
+    CHECK(t.find("\u22120.00") == std::string::npos);
+    CHECK(t.find("0.00 % (cations") != std::string::npos);
+    CHECK(t.find("(found for the target; reached 0)") != std::string::npos);
+    CHECK(t.find("3.35243") == std::string::npos);
+}
+
+TEST_CASE("CSV report: the dose columns the JSON has, and numbers at full precision") {
+    SpeciationResult r = sample();
+    r.ionic_strength = 0.0123456789012;  // invented; more digits than the old 6 the CSV kept
+    r.ph = 6.35 + 0.1;                   // 6.449999999999999 in binary: written 6.45
+    process::DoseOutcome dose;
+    dose.reagent = "Ca(OH)2";
+    dose.mol_per_kgw = 2.5e-4;
+    dose.mg_per_l = 18.52;
+    dose.found_by_target = true;
+    dose.target_reached = 8.3;
+    const io::ReportItem dosed{"dose", r, std::nullopt, dose};
+    const io::ReportItem plain{"water", sample(), std::nullopt, std::nullopt};
+    const std::string csv = io::csv_report(core(), context(), {dosed, plain});
+    const auto j = nlohmann::json::parse(io::json_report(core(), context(), {dosed, plain}));
+
+    // Splits the CSV into records of fields (no field here is quoted but the reagent's).
+    std::vector<std::vector<std::string>> rows;
+    std::size_t start = 0;
+    while (start < csv.size()) {
+        const std::size_t end = csv.find('\n', start);
+        std::vector<std::string> f;
+        std::string cur;
+        bool quoted = false;
+        for (std::size_t i = start; i < end; ++i) {
+            const char c = csv[i];
+            if (c == '"') quoted = !quoted;
+            else if (c == ',' && !quoted) f.push_back(std::exchange(cur, {}));
+            else cur += c;
+        }
+        f.push_back(cur);
+        rows.push_back(f);
+        start = end + 1;
+    }
+    REQUIRE(rows.size() == 3);
+    auto column = [&](const std::string& name) {
+        const auto it = std::find(rows[0].begin(), rows[0].end(), name);
+        REQUIRE(it != rows[0].end());
+        return static_cast<std::size_t>(it - rows[0].begin());
+    };
+    const auto& jd = j["results"][0]["dose"];
+    CHECK(rows[1][column("dose_reagent")] == jd["reagent"].get<std::string>());
+    CHECK(std::stod(rows[1][column("dose_mol_per_kgw")]) == jd["mol_per_kgw"].get<double>());
+    CHECK(std::stod(rows[1][column("dose_mg_per_l")]) == jd["mg_per_l"].get<double>());
+    CHECK(std::stod(rows[1][column("dose_target_reached")]) == jd["target_reached"].get<double>());
+    // A water without a dose: empty dose cells, as the JSON has no "dose".
+    CHECK_FALSE(j["results"][1].contains("dose"));
+    for (const char* c : {"dose_reagent", "dose_mol_per_kgw", "dose_mg_per_l", "dose_target_reached"})
+        CHECK(rows[2][column(c)].empty());
+    // Full precision, without noise.
+    CHECK(rows[1][column("ionic_strength")] == "0.0123456789012");
+    CHECK(rows[1][column("pH")] == "6.45");
+    CHECK(csv.find("6.449999999999999") == std::string::npos);
+    // A quoted reagent would need quotes only with a comma; Ca(OH)2 has none.
+    CHECK(csv.find("Ca(OH)2") != std::string::npos);
+}
+
+TEST_CASE("JSON: a cell's electron count is an integer") {
+    // Before: {"n_electrons": 2.0}. The values are invented; only the types are checked.
+    electro::CellResult c;
+    c.label = "couple";
+    c.cathode = "Cu^2+ + 2 e- = Cu(s)";
+    c.anode = "Zn^2+ + 2 e- = Zn(s)";
+    c.n = 2.0;
+    c.e0_v = 1.1;
+    c.e_v = 1.1;
+    const auto j = nlohmann::json::parse(io::cells_json({c}));
+    CHECK(j["cells"][0]["n_electrons"].is_number_integer());
+    CHECK(j["cells"][0]["n_electrons"].get<long long>() == 2);
+    const auto whole = nlohmann::json::parse(io::json_report(core(), context(), {}, {}, {c}));
+    CHECK(whole["cells"][0]["n_electrons"].is_number_integer());
+    // The text shows it without a decimal point as before.
+    CHECK(io::cell_text(c).find("electrons n" + std::string(24 - 11, ' ') + "2\n") != std::string::npos);
 }

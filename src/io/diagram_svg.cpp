@@ -23,6 +23,7 @@
 
 #include "deltag/chem.hpp"
 #include "deltag/plot.hpp"
+#include "io/text_format.hpp"
 
 namespace deltag::io {
 
@@ -53,81 +54,11 @@ constexpr ClassStyle kCorrosion{"#F7DCCB", "#D55E00", -45.0};
 constexpr ClassStyle kPassivation{"#D3EDE3", "#009E73", 45.0};
 constexpr ClassStyle kImmunity{"#D2E4F1", "", 0.0};
 
-// ---- text ---------------------------------------------------------------------------------
-
-
-std::size_t code_points(std::string_view s) {
-    return static_cast<std::size_t>(
-        std::count_if(s.begin(), s.end(), [](char c) { return (static_cast<unsigned char>(c) & 0xC0) != 0x80; }));
-}
-
-// Rough rendered width of text in a sans-serif font; bold runs wider.
-double text_width(std::string_view s, double size, bool bold = false) {
-    return (bold ? 0.66 : 0.6) * size * static_cast<double>(code_points(s));
-}
-
-// Lines of at most max_chars code points, broken at spaces; '\n' always breaks.
-std::vector<std::string> wrap(std::string_view text, std::size_t max_chars) {
-    std::vector<std::string> lines;
-    std::size_t start = 0;
-    while (start <= text.size()) {
-        const std::size_t nl = text.find('\n', start);
-        const std::string_view para = text.substr(start, nl == std::string_view::npos ? std::string_view::npos : nl - start);
-        std::string line;
-        std::size_t pos = 0;
-        while (pos <= para.size()) {
-            const std::size_t sp = para.find(' ', pos);
-            const std::string_view word = para.substr(pos, sp == std::string_view::npos ? std::string_view::npos : sp - pos);
-            if (!word.empty()) {
-                if (!line.empty() && code_points(line) + 1 + code_points(word) > max_chars) {
-                    lines.push_back(line);
-                    line.clear();
-                }
-                if (!line.empty()) line += ' ';
-                line += word;
-            }
-            if (sp == std::string_view::npos) break;
-            pos = sp + 1;
-        }
-        if (!line.empty()) lines.push_back(line);
-        if (nl == std::string_view::npos) break;
-        start = nl + 1;
-    }
-    return lines;
-}
-
-// ---- numbers ------------------------------------------------------------------------------
-
-std::string fixed(double v, int decimals) {
-    std::array<char, 64> buf{};
-    auto [end, ec] = std::to_chars(buf.data(), buf.data() + buf.size(), v, std::chars_format::fixed, decimals);
-    if (ec != std::errc()) throw std::logic_error("internal error: number does not fit its buffer");
-    std::string s(buf.data(), end);
-    if (s.find_first_not_of("-0.") == std::string::npos && s.front() == '-') s.erase(0, 1);  // no "-0"
-    return s;
-}
-
-std::string coord(double v) {
-    if (!std::isfinite(v)) throw std::logic_error("internal error: non-finite coordinate in an Eh-pH diagram");
-    std::string s = fixed(v, 2);
-    while (s.back() == '0') s.pop_back();
-    if (s.back() == '.') s.pop_back();
-    return s;
-}
-
-std::string round_trip(double v) {
-    if (!std::isfinite(v)) throw std::logic_error("internal error: non-finite number in an Eh-pH diagram table");
-    std::array<char, 64> buf{};
-    auto [end, ec] = std::to_chars(buf.data(), buf.data() + buf.size(), v);
-    if (ec != std::errc()) throw std::logic_error("internal error: number does not fit its buffer");
-    return std::string(buf.data(), end);
-}
-
-// A typographic minus for printed numbers.
-std::string minus(std::string s) {
-    if (!s.empty() && s.front() == '-') s.replace(0, 1, "\u2212");
-    return s;
-}
+using text::coord;
+using text::fixed;
+using text::text_width;
+using text::wrap;
+std::string minus(std::string s) { return text::typographic_minus(std::move(s)); }
 
 std::string superscript(std::string_view s) {
     static const char* sup[] = {"⁰", "¹", "²", "³", "⁴", "⁵", "⁶", "⁷", "⁸", "⁹"};
@@ -318,11 +249,11 @@ std::string pattern_defs() {
 // ---- CSV ----------------------------------------------------------------------------------
 
 std::string diagram_csv(const DiagramResult& d) {
-    auto field = [](const std::string& s) {
-        if (s.find_first_of(",\"\n\r") == std::string::npos) return s;
-        std::string q = "\"";
-        for (char c : s) q += c == '"' ? std::string("\"\"") : std::string(1, c);
-        return q + "\"";
+    auto field = [](const std::string& s) { return text::csv_field(s); };
+    // Numbers at 15 significant digits (no binary noise); a non-finite one is a bug upstream.
+    auto round_trip = [](double v) {
+        if (!std::isfinite(v)) throw std::logic_error("internal error: non-finite number in an Eh-pH diagram table");
+        return text::csv_number(v);
     };
     std::string out = "region_a,region_b,ph_1,eh_1_v,ph_2,eh_2_v\n";
     auto row = [&](const std::string& a, const std::string& b, electro::PhEh p, electro::PhEh q) {
@@ -408,8 +339,7 @@ std::string diagram_svg(const DiagramResult& d) {
     std::vector<std::vector<std::string>> legend_lines;
     double legend_h = 2.0 * kLegendPad - kLegendGap + 18.0;  // with a heading
     for (const auto& it : legend) {
-        auto lines = wrap(it.text, static_cast<std::size_t>(std::min(kLegendTextMax, legend_w - 3.0 * kLegendPad - kSampleW) /
-                                                           (0.6 * kLegendSize)));
+        auto lines = wrap(it.text, text::chars_for_width(std::min(kLegendTextMax, legend_w - 3.0 * kLegendPad - kSampleW), kLegendSize));
         legend_h += kLegendLine * static_cast<double>(lines.size()) + kLegendGap;
         legend_lines.push_back(std::move(lines));
     }
@@ -764,8 +694,8 @@ std::string diagram_svg(const DiagramResult& d) {
         for (std::size_t i = 0; i < unlabelled.size(); ++i) note += (i ? "; " : " ") + unlabelled[i];
         note += ".";
     }
-    const auto subtitle_lines = wrap(subtitle, static_cast<std::size_t>((kWidth - 40.0) / (0.6 * kSubtitleSize)));
-    const auto note_lines = wrap(note, static_cast<std::size_t>((kWidth - 40.0) / (0.6 * kNoteSize)));
+    const auto subtitle_lines = wrap(subtitle, text::chars_for_width(kWidth - 40.0, kSubtitleSize));
+    const auto note_lines = wrap(note, text::chars_for_width(kWidth - 40.0, kNoteSize));
     const double title_block = 28.0 + 16.0 * static_cast<double>(subtitle_lines.size());
     const double shift = std::max(0.0, title_block + 24.0 - top);  // more subtitle lines push the plot down
     const double note_top = bottom + shift + 58.0;

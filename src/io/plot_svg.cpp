@@ -7,6 +7,8 @@
 // pattern and marker shape, so the curves stay apart in grey print.
 #include "deltag/plot.hpp"
 
+#include "io/text_format.hpp"
+
 #include <algorithm>
 #include <array>
 #include <charconv>
@@ -31,93 +33,14 @@ constexpr double kTitleSize = 16.0, kLabelSize = 13.0, kTickSize = 11.0, kLegend
                  kNoteSize = 10.5;
 constexpr std::string_view kFont = "DejaVu Sans, Liberation Sans, Arial, sans-serif";
 
-// ---- text ---------------------------------------------------------------------------------
-
-
-// Number of code points in UTF-8 text (continuation bytes are not counted).
-std::size_t code_points(std::string_view s) {
-    return static_cast<std::size_t>(
-        std::count_if(s.begin(), s.end(), [](char c) { return (static_cast<unsigned char>(c) & 0xC0) != 0x80; }));
-}
-
-// Rough rendered width of text in a sans-serif font.
-double text_width(std::string_view s, double font_size) {
-    return 0.6 * font_size * static_cast<double>(code_points(s));
-}
-
-// Splits text into lines of at most max_chars code points at spaces (a longer word stays
-// whole); '\n' always breaks.
-std::vector<std::string> wrap(std::string_view text, std::size_t max_chars) {
-    std::vector<std::string> lines;
-    std::size_t start = 0;
-    while (start <= text.size()) {
-        const std::size_t nl = text.find('\n', start);
-        const std::string_view para = text.substr(start, nl == std::string_view::npos ? std::string_view::npos : nl - start);
-        std::string line;
-        std::size_t pos = 0;
-        while (pos < para.size()) {
-            const std::size_t sp = para.find(' ', pos);
-            const std::string_view word = para.substr(pos, sp == std::string_view::npos ? std::string_view::npos : sp - pos);
-            if (!word.empty()) {
-                if (!line.empty() && code_points(line) + 1 + code_points(word) > max_chars) {
-                    lines.push_back(line);
-                    line.clear();
-                }
-                if (!line.empty()) line += ' ';
-                line += word;
-            }
-            if (sp == std::string_view::npos) break;
-            pos = sp + 1;
-        }
-        lines.push_back(line);
-        if (nl == std::string_view::npos) break;
-        start = nl + 1;
-    }
-    while (!lines.empty() && lines.back().empty()) lines.pop_back();
-    return lines;
-}
-
-std::size_t chars_for_width(double width, double font_size) {
-    return std::max<std::size_t>(8, static_cast<std::size_t>(width / (0.6 * font_size)));
-}
-
-// ---- numbers ------------------------------------------------------------------------------
-
-std::string fixed(double v, int decimals) {
-    std::array<char, 64> buf{};
-    auto [end, ec] = std::to_chars(buf.data(), buf.data() + buf.size(), v, std::chars_format::fixed, decimals);
-    if (ec != std::errc()) throw std::logic_error("internal error: number does not fit its buffer");
-    return std::string(buf.data(), end);
-}
-
-// Coordinates: two decimals, trailing zeros dropped.
-std::string coord(double v) {
-    if (!std::isfinite(v)) throw std::logic_error("internal error: non-finite SVG coordinate");
-    std::string s = fixed(v, 2);
-    while (s.back() == '0') s.pop_back();
-    if (s.back() == '.') s.pop_back();
-    if (s == "-0") s = "0";
-    return s;
-}
-
-// Shortest text that reads back to the same double.
-std::string round_trip(double v) {
-    std::array<char, 64> buf{};
-    auto [end, ec] = std::to_chars(buf.data(), buf.data() + buf.size(), v);
-    if (ec != std::errc()) throw std::logic_error("internal error: number does not fit its buffer");
-    return std::string(buf.data(), end);
-}
+using text::chars_for_width;
+using text::coord;
+using text::csv_field;
+using text::fixed;
+using text::text_width;
+using text::wrap;
 
 double pow10(int e) { return std::pow(10.0, static_cast<double>(e)); }
-
-// ---- CSV ----------------------------------------------------------------------------------
-
-std::string csv_field(const std::string& s) {
-    if (s.find_first_of(",\"\n\r") == std::string::npos) return s;
-    std::string q = "\"";
-    for (char c : s) q += c == '"' ? std::string("\"\"") : std::string(1, c);
-    return q + "\"";
-}
 
 void check_lengths(const LinePlot& plot) {
     for (const auto& s : plot.series)
@@ -261,7 +184,8 @@ std::string series_csv(const LinePlot& plot) {
                                         "' does not have the same x values as series '" +
                                         plot.series.front().name + "'");
     }
-    auto cell = [](double v) { return std::isfinite(v) ? round_trip(v) : std::string(); };
+    // Numbers at 15 significant digits: no binary noise such as 6.450000000000001.
+    auto cell = [](double v) { return text::csv_number(v); };
     std::string out = csv_field(plot.x_label.empty() ? std::string("x") : plot.x_label);
     for (const auto& s : plot.series) {
         out += ',';
@@ -281,9 +205,17 @@ std::string series_csv(const LinePlot& plot) {
 
 // ---- SVG ----------------------------------------------------------------------------------
 
-std::string line_plot_svg(const LinePlot& plot) {
-    if (plot.series.empty()) throw std::invalid_argument("plot '" + plot.title + "' has no series");
-    check_lengths(plot);
+namespace {
+
+// The frame of one panel: what the caller asks for (minimum height, and the least left margin
+// and legend width, so stacked panels line their plot areas up) and what was drawn.
+struct PanelFrame {
+    double min_height = kMinHeight, min_plot_left = 0.0, min_legend_w = 0.0;
+    double height = 0.0, plot_left = 0.0, legend_w = 0.0;  // out
+};
+
+// One panel: a whole SVG document, its clip path under clip_id.
+std::string panel_svg(const LinePlot& plot, const std::string& clip_id, PanelFrame& frame) {
 
     // Data ranges: x over every finite x (so the whole swept range shows even where a value
     // is missing), y over every drawable point and every reference line.
@@ -334,17 +266,22 @@ std::string line_plot_svg(const LinePlot& plot) {
         legend_h += kLegendLine * static_cast<double>(lines.size()) + kLegendGap;
         legend_names.push_back(std::move(lines));
     }
-    const double legend_w = kLegendPad + kSample + 8.0 + std::min(legend_text_w, kLegendTextMax + 12.0) + kLegendPad;
+    // As wide as its widest line: names are wrapped at words, and a word longer than a line is
+    // never cut, so the box grows to hold it (the plot area gives way).
+    const double legend_w = std::max(frame.min_legend_w, kLegendPad + kSample + 8.0 + legend_text_w + kLegendPad);
+    frame.legend_w = legend_w;
 
     double tick_w = 0.0;
     for (const auto& l : ylabels) tick_w = std::max(tick_w, text_width(l, kTickSize));
-    const double plot_left = 26.0 + 10.0 + tick_w + 8.0;
+    const double plot_left = std::max(frame.min_plot_left, 26.0 + 10.0 + tick_w + 8.0);
+    frame.plot_left = plot_left;
     const double plot_right = kWidth - 16.0 - legend_w - 18.0;
     const double plot_top = title_lines.empty() ? 22.0 : 30.0 + 20.0 * static_cast<double>(title_lines.size());
     const auto xtitle_lines = wrap(plot.x_label, chars_for_width(plot_right - plot_left, kLabelSize));
     const double below = 22.0 + 17.0 * static_cast<double>(std::max<std::size_t>(1, xtitle_lines.size())) +
                          (note_lines.empty() ? 8.0 : 14.0 + 13.0 * static_cast<double>(note_lines.size()));
-    const double height = std::max(kMinHeight, plot_top + std::max(240.0, legend_h) + below);
+    const double height = std::max(frame.min_height, plot_top + std::max(240.0, legend_h) + below);
+    frame.height = height;
     const double plot_bottom = height - below;
 
     auto px = [&](double x) { return plot_left + (x - xs.low) / (xs.high - xs.low) * (plot_right - plot_left); };
@@ -355,9 +292,9 @@ std::string line_plot_svg(const LinePlot& plot) {
     o += "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"" + coord(kWidth) + "\" height=\"" + coord(height) +
          "\" viewBox=\"0 0 " + coord(kWidth) + " " + coord(height) + "\" font-family=\"" + std::string(kFont) +
          "\" role=\"img\">\n";
-    o += "<title>" + xml_escape(plot.title) + "</title>\n";
+    if (!plot.title.empty() || clip_id == "deltag-plot-area") o += "<title>" + xml_escape(plot.title) + "</title>\n";
     if (!plot.note.empty()) o += "<desc>" + xml_escape(plot.note) + "</desc>\n";
-    o += "<defs><clipPath id=\"deltag-plot-area\"><rect x=\"" + coord(plot_left) + "\" y=\"" + coord(plot_top) +
+    o += "<defs><clipPath id=\"" + clip_id + "\"><rect x=\"" + coord(plot_left) + "\" y=\"" + coord(plot_top) +
          "\" width=\"" + coord(plot_right - plot_left) + "\" height=\"" + coord(plot_bottom - plot_top) +
          "\"/></clipPath></defs>\n";
     o += "<rect width=\"" + coord(kWidth) + "\" height=\"" + coord(height) + "\" fill=\"#FFFFFF\"/>\n";
@@ -427,7 +364,7 @@ std::string line_plot_svg(const LinePlot& plot) {
             o += "<path d=\"" + d + "\" fill=\"none\" stroke=\"" + std::string(st.colour) +
                  "\" stroke-width=\"2\" stroke-linejoin=\"round\"";
             if (!st.dash.empty()) o += " stroke-dasharray=\"" + std::string(st.dash) + "\"";
-            o += " clip-path=\"url(#deltag-plot-area)\"/>\n";  // markers are not clipped: a point on
+            o += " clip-path=\"url(#" + clip_id + ")\"/>\n";  // markers are not clipped: a point on
                                                                   // the frame stays whole
         }
         // Markers: at most about 24 per series, staggered between series so they do not sit
@@ -524,6 +461,95 @@ std::string line_plot_svg(const LinePlot& plot) {
     }
     o += "</svg>\n";
     return o;
+}
+
+bool drawable(const Series& s) {
+    for (std::size_t i = 0; i < s.x.size(); ++i)
+        if (finite_point(s, i)) return true;
+    return false;
+}
+
+}  // namespace
+
+std::string line_plot_svg(const LinePlot& plot) {
+    if (plot.series.empty()) throw std::invalid_argument("plot '" + plot.title + "' has no series");
+    check_lengths(plot);
+    std::vector<std::string> panels;
+    for (const auto& s : plot.series)
+        if (std::find(panels.begin(), panels.end(), s.panel) == panels.end()) panels.push_back(s.panel);
+    PanelFrame single;
+    if (panels.size() < 2) return panel_svg(plot, "deltag-plot-area", single);
+
+    // Panels stacked one above another, each a nested SVG document of its own.
+    const std::string& ref_panel = plot.reference_panel.empty() ? panels.front() : plot.reference_panel;
+    std::vector<LinePlot> parts;
+    std::vector<std::string> empty;
+    for (const auto& name : panels) {
+        LinePlot p;
+        p.x_label = plot.x_label;
+        p.y_label = name.empty() ? plot.y_label : name;
+        for (const auto& s : plot.series)
+            if (s.panel == name) p.series.push_back(s);
+        if (name == ref_panel) p.y_reference_lines = plot.y_reference_lines;
+        if (std::none_of(p.series.begin(), p.series.end(), drawable)) {
+            empty.push_back(p.y_label);
+            continue;
+        }
+        parts.push_back(std::move(p));
+    }
+    if (parts.empty())
+        throw std::invalid_argument("plot '" + plot.title + "' has no point with finite x and y values");
+    // The x range is shared: every panel gets the x extremes of the whole plot as an invisible
+    // (non-finite y) point, so the axes line up.
+    double xmin = std::numeric_limits<double>::infinity(), xmax = -xmin;
+    for (const auto& s : plot.series)
+        for (double x : s.x)
+            if (std::isfinite(x)) {
+                xmin = std::min(xmin, x);
+                xmax = std::max(xmax, x);
+            }
+    std::string note = plot.note;
+    if (!empty.empty()) {
+        std::string names;
+        for (const auto& e : empty) names += (names.empty() ? "" : "; ") + e;
+        note = "No value to draw for: " + names + ". " + note;
+    }
+    parts.front().title = plot.title;
+    parts.back().note = note;
+    // The shared x range rides on the first series of each panel as a gap point at each end
+    // (not drawn, not in any table).
+    for (LinePlot& p : parts) {
+        p.series.front().x.insert(p.series.front().x.begin(), xmin);
+        p.series.front().y.insert(p.series.front().y.begin(), std::numeric_limits<double>::quiet_NaN());
+        p.series.front().x.push_back(xmax);
+        p.series.front().y.push_back(std::numeric_limits<double>::quiet_NaN());
+    }
+    // Two passes: the first finds the widest tick labels and legend, the second draws every
+    // panel with them, so the plot areas line up under one another.
+    PanelFrame shared;
+    shared.min_height = 300.0;
+    for (std::size_t k = 0; k < parts.size(); ++k) {
+        PanelFrame f = shared;
+        (void)panel_svg(parts[k], "deltag-plot-area", f);
+        shared.min_plot_left = std::max(shared.min_plot_left, f.plot_left);
+        shared.min_legend_w = std::max(shared.min_legend_w, f.legend_w);
+    }
+    std::string body;
+    double y = 0.0;
+    for (std::size_t k = 0; k < parts.size(); ++k) {
+        PanelFrame f = shared;
+        std::string svg = panel_svg(parts[k], "deltag-plot-area-" + std::to_string(k + 1), f);
+        const std::string head = "<svg xmlns=\"http://www.w3.org/2000/svg\" ";
+        svg.replace(0, head.size(), "<svg x=\"0\" y=\"" + coord(y) + "\" ");
+        body += svg;
+        y += f.height;
+    }
+    std::string o = "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"" + coord(kWidth) + "\" height=\"" + coord(y) +
+                    "\" viewBox=\"0 0 " + coord(kWidth) + " " + coord(y) + "\" font-family=\"" + std::string(kFont) +
+                    "\" role=\"img\">\n";
+    o += "<title>" + xml_escape(plot.title) + "</title>\n";
+    if (!note.empty()) o += "<desc>" + xml_escape(note) + "</desc>\n";
+    return o + body + "</svg>\n";
 }
 
 // Escapes XML special characters; control characters are dropped (tab and newline become a

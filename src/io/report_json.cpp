@@ -9,6 +9,7 @@
 #include "deltag/figures.hpp"
 #include "deltag/plot.hpp"
 #include "deltag/report.hpp"
+#include "io/text_format.hpp"
 
 namespace deltag::io {
 
@@ -19,6 +20,15 @@ using nlohmann::ordered_json;
 double finite(double v, std::string_view what) {
     if (!std::isfinite(v)) throw std::logic_error("internal error: " + std::string(what) + " is not finite");
     return v;
+}
+
+// The electrons of a cell reaction: a whole number in practice (the lcm of the two
+// half-reactions), so JSON carries it as an integer (2, not 2.0); a fractional count, which
+// only odd database entries could give, stays a number.
+ordered_json electron_count(double n) {
+    const double r = std::round(finite(n, "n"));
+    if (std::abs(n - r) < 1e-9) return ordered_json(static_cast<long long>(r));
+    return ordered_json(n);
 }
 
 ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
@@ -190,7 +200,7 @@ ordered_json cells_array(const std::vector<electro::CellResult>& cells) {
                        {"cathode", c.cathode},
                        {"anode", c.anode},
                        {"temperature_c", finite(c.temperature_c, "cell temperature")},
-                       {"n_electrons", finite(c.n, "n")},
+                       {"n_electrons", electron_count(c.n)},
                        {"e0_v", finite(c.e0_v, "E°")},
                        {"e_v", finite(c.e_v, "E")},
                        {"delta_g0_kj_per_mol", finite(c.delta_g0_kj_per_mol, "ΔG°")},
@@ -256,8 +266,8 @@ std::string json_report(const thermo::Database& db, const ReportContext& ctx,
 }
 
 std::string csv_report(const thermo::Database& db, const ReportContext& /*ctx*/, const std::vector<ReportItem>& items) {
-    // Columns: the summary, the indices, then every element total and every SI that any
-    // result has.
+    // Columns: the summary, the indices, the dose (of a dose step), then every element total
+    // and every SI that any result has.
     std::vector<std::string> elements, phases;
     for (const auto& item : items) {
         for (const auto& [el, m] : item.result.element_totals)
@@ -265,42 +275,48 @@ std::string csv_report(const thermo::Database& db, const ReportContext& /*ctx*/,
         for (const auto& s : item.result.saturation)
             if (!s.is_gas && std::find(phases.begin(), phases.end(), s.phase) == phases.end()) phases.push_back(s.phase);
     }
-    auto quote = [](const std::string& s) {
-        if (s.find_first_of(",\"\n") == std::string::npos) return s;
-        std::string q = "\"";
-        for (char c : s) q += c == '"' ? std::string("\"\"") : std::string(1, c);
-        return q + "\"";
-    };
+    auto quote = [](const std::string& s) { return text::csv_field(s); };
+    // Numbers at 15 significant digits, shortest form: full precision without binary noise.
+    auto num = [](double v, std::string_view what) { return text::csv_number(finite(v, what)); };
     std::string out =
         "label,kind,temperature_c,pH,pe,ionic_strength,alkalinity_eq_per_kgw,charge_balance_error_percent,"
-        "langelier,ryznar,ccpp_mg_per_l_as_caco3";
+        "langelier,ryznar,ccpp_mg_per_l_as_caco3,dose_reagent,dose_mol_per_kgw,dose_mg_per_l,dose_target_reached";
     for (const auto& el : elements) out += ",total_" + el + "_mol_per_kgw";
     for (const auto& p : phases) out += "," + quote("si_" + p);
     out += "\n";
     for (const auto& item : items) {
         const auto& r = item.result;
         out += quote(r.label) + "," + quote(item.kind);
-        out += fmt::format(",{:.6g},{:.6g},{},{:.6g},{:.6g},{:.6g}", finite(r.temperature_c, "temperature"),
-                           finite(r.ph, "pH"), r.pe ? fmt::format("{:.6g}", *r.pe) : std::string(),
-                           finite(r.ionic_strength, "ionic strength"), finite(r.alkalinity_eq, "alkalinity"),
-                           finite(r.charge_balance_error_percent, "charge balance"));
+        // One cell after a comma; appended piece by piece ("," + std::string trips a false
+        // -Wrestrict warning of GCC 12).
+        auto cell = [&](const std::string& v) {
+            out += ',';
+            out += v;
+        };
+        cell(num(r.temperature_c, "temperature"));
+        cell(num(r.ph, "pH"));
+        cell(r.pe ? num(*r.pe, "pe") : std::string());
+        cell(num(r.ionic_strength, "ionic strength"));
+        cell(num(r.alkalinity_eq, "alkalinity"));
+        cell(num(r.charge_balance_error_percent, "charge balance"));
         // An index without an answer is an empty cell.
-        if (item.indices && item.indices->available)
-            out += fmt::format(",{:.6g},{:.6g}", finite(item.indices->langelier, "Langelier"),
-                               finite(item.indices->ryznar, "Ryznar"));
-        else
-            out += ",,";
-        if (item.indices && item.indices->ccpp_available)
-            out += fmt::format(",{:.6g}", finite(item.indices->ccpp_mg_per_l, "CCPP"));
-        else
-            out += ",";
+        const bool lsi = item.indices && item.indices->available;
+        cell(lsi ? num(item.indices->langelier, "Langelier") : std::string());
+        cell(lsi ? num(item.indices->ryznar, "Ryznar") : std::string());
+        cell(item.indices && item.indices->ccpp_available ? num(item.indices->ccpp_mg_per_l, "CCPP") : std::string());
+        // The dose of a dose step, as the JSON's "dose" has it; empty cells for other rows.
+        const auto& d = item.dose;
+        cell(d ? quote(d->reagent) : std::string());
+        cell(d ? num(d->mol_per_kgw, "dose") : std::string());
+        cell(d ? num(d->mg_per_l, "dose") : std::string());
+        cell(d && d->found_by_target ? num(d->target_reached, "dose target") : std::string());
         for (const auto& el : elements) {
             auto it = r.element_totals.find(el);
-            out += it == r.element_totals.end() ? "," : fmt::format(",{:.6g}", finite(it->second, el));
+            cell(it == r.element_totals.end() ? std::string() : num(it->second, el));
         }
         for (const auto& p : phases) {
             auto it = std::find_if(r.saturation.begin(), r.saturation.end(), [&](const auto& s) { return s.phase == p; });
-            out += it == r.saturation.end() ? "," : fmt::format(",{:.6g}", finite(it->si, p));
+            cell(it == r.saturation.end() ? std::string() : num(it->si, p));
         }
         out += "\n";
     }
@@ -326,12 +342,25 @@ LinePlot plot_of(const process::SweepOutcome& sweep, const std::string& title) {
         any_langelier = any_langelier || lsi;
         all_si = all_si && (name.rfind("SI ", 0) == 0 || lsi);
     }
-    p.y_label = !all_si ? "value (units in the legend)"
-                : any_langelier ? "saturation index, Langelier index (log units)"
-                                : "saturation index (log units)";
-    for (const auto& [name, v] : sweep.series) p.series.push_back(Series{name, sweep.x, v});
-    if (all_si) p.y_reference_lines.emplace_back(0.0, "saturation");
-    p.note = "deltag " + std::string("sweep '") + sweep.label + "'. Equilibrium calculation; decisions rest with licensed engineers.";
+    const std::string log_panel = any_langelier ? "saturation index, Langelier index (log units)"
+                                                : "saturation index (log units)";
+    // One panel per kind of quantity: the log-unit indices share one (zero at equilibrium);
+    // every other quantity (pH, CCPP in mg/L, ...) gets its own, titled by its name and unit,
+    // so a range in mg/L does not flatten the indices into a line.
+    bool any_log_units = false;
+    for (const auto& [name, v] : sweep.series) {
+        const bool log_units = name.rfind("SI ", 0) == 0 || name == "Langelier index";
+        any_log_units = any_log_units || log_units;
+        p.series.push_back(Series{name, sweep.x, v, log_units ? log_panel : name});
+    }
+    p.y_label = all_si ? log_panel : sweep.series.size() == 1 ? sweep.series.front().first : "value (units in the legend)";
+    if (any_log_units) {
+        p.y_reference_lines.emplace_back(0.0, "saturation");
+        p.reference_panel = log_panel;
+    }
+    p.note = "deltag sweep '";  // appended piece by piece: "..." + std::string trips GCC 12's -Wrestrict
+    p.note += sweep.label;
+    p.note += "'. Equilibrium calculation; decisions rest with licensed engineers.";
     return p;
 }
 }  // namespace

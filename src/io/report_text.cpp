@@ -8,6 +8,7 @@
 #include "deltag/constants.hpp"
 #include "deltag/figures.hpp"
 #include "deltag/report.hpp"
+#include "io/text_format.hpp"
 
 namespace deltag::io {
 
@@ -298,7 +299,7 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx, co
             const auto& d = *item.dose;
             out += "  " + pad("dose", 22) +
                    fmt::format("{} {:.4g} mmol/kgw = {:.4g} mg/L{}\n", d.reagent, d.mol_per_kgw * 1000.0, d.mg_per_l,
-                               d.found_by_target ? fmt::format(" (found for the target; reached {:.6g})", d.target_reached) : "");
+                               d.found_by_target ? fmt::format(" (found for the target; reached {})", text::trimmed(d.target_reached, 6)) : "");
         }
         out += "\n";
         const std::string transfers = transfers_block(db, r);
@@ -319,12 +320,18 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx, co
         out += fmt::format("Sweep '{}': {} points of {}\n", sw.sweep.label, sw.sweep.x.size(), sw.sweep.x_label);
         out += rule('=');
         out += "  " + pad(sw.sweep.x_label, 30);
-        for (const auto& [name, v] : sw.sweep.series) out += fmt::format("{:>16}", name.substr(0, 15));
+        // Each column as wide as its whole header (never cut), at least 16.
+        std::vector<std::size_t> widths;
+        for (const auto& [name, v] : sw.sweep.series) widths.push_back(std::max<std::size_t>(16, width(name) + 2));
+        std::size_t col = 0;
+        for (const auto& [name, v] : sw.sweep.series) out += std::string(widths[col++] - width(name), ' ') + name;
         out += "\n";
         for (std::size_t i = 0; i < sw.sweep.x.size(); ++i) {
             out += "  " + pad(fmt::format("{:.4g}", sw.sweep.x[i]), 30);
+            col = 0;
             for (const auto& [name, v] : sw.sweep.series)
-                out += std::isfinite(v[i]) ? fmt::format("{:>16.4f}", v[i]) : fmt::format("{:>16}", "n/a");
+                out += std::isfinite(v[i]) ? fmt::format("{:>{}.4f}", v[i], widths[col++])
+                                           : fmt::format("{:>{}}", "n/a", widths[col++]);
             out += "\n";
         }
         if (!sw.sweep.notes.empty()) {
@@ -343,7 +350,7 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx, co
     }
     out += "\n" + std::string(caution_text()) + "\n";
     if (!cells.empty() || !diagrams.empty()) out += std::string(electro_caution_text()) + "\n";
-    return out;
+    return text::drop_negative_zeros(out);
 }
 
 std::string_view electro_caution_text() {
@@ -366,7 +373,7 @@ std::string cell_text(const electro::CellResult& c) {
     out += "  " + std::string(c.spontaneous ? "runs as written: reduction at the cathode, oxidation at the anode (E > 0)"
                                             : "runs the other way: the written anode is reduced (E < 0)") + "\n";
     for (const auto& w : c.warnings) out += "  - " + w + "\n";
-    return out;
+    return text::drop_negative_zeros(out);
 }
 
 std::string text_report(const thermo::Database& db, const ReportContext& ctx,
