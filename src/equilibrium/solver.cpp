@@ -104,12 +104,17 @@ void Problem::refer_electrons_to_basis() {
     const ChemicalSystem& s = *sys;
     // Most waters have no electron balance, or no switched element in it: nothing to do, and
     // no copies (this runs before every Newton leg).
+    // The column of an electron balance row, or -1.
+    auto electron_column = [&](std::size_t e) {
+        const int ce = column_of_unknown[e];
+        if (ce < 0 || equation[e] != Equation::mass) return -1;
+        const auto role = s.columns[static_cast<std::size_t>(ce)].role;
+        return role == ComponentColumn::Role::electron_unknown || role == ComponentColumn::Role::split_electron ? ce : -1;
+    };
     bool wanted = false;
     for (std::size_t e = 0; e < n && !wanted; ++e) {
-        const int ce = column_of_unknown[e];
-        if (ce < 0 || equation[e] != Equation::mass) continue;
-        const auto role = s.columns[static_cast<std::size_t>(ce)].role;
-        if (role != ComponentColumn::Role::electron_unknown && role != ComponentColumn::Role::split_electron) continue;
+        const int ce = electron_column(e);
+        if (ce < 0) continue;
         for (std::size_t c = 0; c < s.columns.size() && !wanted; ++c)
             wanted = switched(c) && s.nu(basis_of_column[c], ce) != 0.0;
     }
@@ -121,10 +126,8 @@ void Problem::refer_electrons_to_basis() {
     coupling = coupling0;
     closed_weight = closed_weight0;
     for (std::size_t e = 0; e < n; ++e) {
-        const int ce = column_of_unknown[e];
-        if (ce < 0 || equation[e] != Equation::mass) continue;
-        const auto role = s.columns[static_cast<std::size_t>(ce)].role;
-        if (role != ComponentColumn::Role::electron_unknown && role != ComponentColumn::Role::split_electron) continue;
+        const int ce = electron_column(e);
+        if (ce < 0) continue;
         const Index r = static_cast<Index>(e);
         VectorXd w = weights0.col(r);
         double t = target0[e];
@@ -378,6 +381,11 @@ double max_abs_residual(const Problem& p, const std::vector<double>& u) {
     return r;
 }
 
+// The acceptance on our own measure (max_abs_residual), with a decade of slack on the tolerance.
+bool meets_tolerance(double residual, const SolverOptions& opt) {
+    return std::isfinite(residual) && residual <= std::max(opt.tolerance, 1e-300) * 10.0;
+}
+
 // One KINSOL run from u (updated in place).
 AttemptOutcome run_kinsol(const Problem& p, std::vector<double>& u, const SolverOptions& opt) {
     AttemptOutcome out;
@@ -413,7 +421,7 @@ AttemptOutcome run_kinsol(const Problem& p, std::vector<double>& u, const Solver
         // own terms, does not yet: tighten and go on from there.
         for (int tighten = 0; tighten < 2 && (flag == KIN_SUCCESS || flag == KIN_INITIAL_GUESS_OK); ++tighten) {
             const double* xv0 = N_VGetArrayPointer(x);
-            if (max_abs_residual(p, std::vector<double>(xv0, xv0 + p.n)) <= std::max(opt.tolerance, 1e-300) * 10.0) break;
+            if (meets_tolerance(max_abs_residual(p, std::vector<double>(xv0, xv0 + p.n)), opt)) break;
             KINSetFuncNormTol(mem, opt.tolerance * std::pow(1e-4, tighten + 1));
             flag = KINSol(mem, x, KIN_LINESEARCH, scale, scale);
         }
@@ -428,10 +436,10 @@ AttemptOutcome run_kinsol(const Problem& p, std::vector<double>& u, const Solver
     const double r = max_abs_residual(p, candidate);
     out.residual = r;
     out.reason = kinsol_flag_text(flag);
-    if ((flag == KIN_SUCCESS || flag == KIN_INITIAL_GUESS_OK) && !(std::isfinite(r) && r <= std::max(opt.tolerance, 1e-300) * 10.0))
+    if ((flag == KIN_SUCCESS || flag == KIN_INITIAL_GUESS_OK) && !meets_tolerance(r, opt))
         out.reason = "the Newton residual met its tolerance but a balance, against the size of its own terms, did not";
     // Accept on our own measure: KINSOL may stop on a tiny step with the residual already met.
-    out.converged = std::isfinite(r) && r <= std::max(opt.tolerance, 1e-300) * 10.0;
+    out.converged = meets_tolerance(r, opt);
     if (out.converged || std::isfinite(r)) u = candidate;
 
     KINFree(&mem);
