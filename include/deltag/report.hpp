@@ -7,6 +7,7 @@
 
 #include "deltag/database.hpp"
 #include "deltag/electro.hpp"
+#include "deltag/outlook.hpp"
 #include "deltag/process.hpp"
 #include "deltag/speciation.hpp"
 
@@ -30,6 +31,9 @@ struct ReportItem {
     equilibrium::SpeciationResult result;
     std::optional<process::Indices> indices;     // absent: not computed
     std::optional<process::DoseOutcome> dose;
+    // Mineral by mineral, what the water will do (process::mineral_outlook). Absent: the
+    // report shows each mineral's tendency from its saturation index, without amounts.
+    std::optional<process::Outlook> outlook;
 };
 
 struct SweepReport {

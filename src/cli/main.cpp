@@ -144,8 +144,10 @@ int cmd_run(const std::string& case_path, const std::string& format, const std::
     // The waters, then the steps, sweeps, cells and diagrams; every file is written only
     // after all of them succeeded, so a failure leaves no partial output.
     std::vector<io::ReportItem> items;
-    for (const auto& w : k.waters) items.push_back(io::ReportItem{"water", w.result, w.indices, std::nullopt});
-    for (const auto& o : k.steps) items.push_back(io::ReportItem{o.kind, o.state.result, o.state.indices, o.dose});
+    for (const auto& w : k.waters)
+        items.push_back(io::ReportItem{"water", w.result, w.indices, std::nullopt, process::mineral_outlook(db, w)});
+    for (const auto& o : k.steps)
+        items.push_back(io::ReportItem{o.kind, o.state.result, o.state.indices, o.dose, process::mineral_outlook(db, o.state)});
     std::vector<io::SweepReport> sweeps;
     std::vector<io::OutputFile> files;
     const fs::path case_dir = fs::path(case_path).parent_path();

@@ -7,6 +7,7 @@
 #include <stdexcept>
 
 #include "deltag/figures.hpp"
+#include "deltag/outlook.hpp"
 #include "deltag/plot.hpp"
 #include "deltag/report.hpp"
 #include "io/text_format.hpp"
@@ -133,7 +134,11 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
                         {"ph_s_formula", value(ix.formula_available, ix.formula_ph_s, "formula pHs")},
                         {"ph_s_calcium_mol_per_kgw", value(ix.available, ix.calcium_mol_per_kgw, "pHs calcium")},
                         {"ph_s_carbonate_alkalinity_eq_per_kgw",
-                         value(ix.available, ix.carbonate_alkalinity_eq, "pHs carbonate alkalinity")}};
+                         value(ix.available, ix.carbonate_alkalinity_eq, "pHs carbonate alkalinity")},
+                        {"langelier_reading",
+                         ix.available ? ordered_json(process::langelier_reading(ix.langelier)) : ordered_json(nullptr)},
+                        {"ryznar_reading",
+                         ix.available ? ordered_json(process::ryznar_reading(ix.ryznar)) : ordered_json(nullptr)}};
     } else {
         j["indices"] = nullptr;
     }
@@ -180,6 +185,24 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
                      {"mg_per_l", finite(item.dose->mg_per_l, "dose")},
                      {"found_by_target", item.dose->found_by_target}};
         if (item.dose->found_by_target) j["dose"]["target_reached"] = finite(item.dose->target_reached, "dose target");
+    }
+    {
+        // What the water will do, mineral by mineral (the report's first section).
+        const process::Outlook o = item.outlook ? *item.outlook : process::saturation_outlook(db, r);
+        ordered_json minerals = ordered_json::array();
+        for (const auto& m : o.minerals)
+            minerals.push_back(
+                {{"mineral", m.mineral},
+                 {"formula", m.formula},
+                 {"tendency", std::string(process::tendency_text(m.tendency))},
+                 {"si", finite(m.si, "outlook SI")},
+                 {"delta_g_kj_per_mol", finite(m.delta_g_kj_per_mol, "outlook ΔG")},
+                 {"to_equilibrium_mg_per_l", m.amount_available ? ordered_json(finite(m.mg_per_l, "outlook amount")) : ordered_json(nullptr)},
+                 {"to_equilibrium_mmol_per_kgw",
+                  m.amount_available ? ordered_json(finite(m.mmol_per_kgw, "outlook amount")) : ordered_json(nullptr)},
+                 {"to_equilibrium_unavailable_because", m.amount_available ? ordered_json(nullptr) : ordered_json(m.why_not)},
+                 {"note", m.note.empty() ? ordered_json(nullptr) : ordered_json(m.note)}});
+        j["outlook"] = {{"si_floor", o.si_floor}, {"minerals", minerals}, {"minerals_below_floor", o.far_below}};
     }
     j["warnings"] = r.warnings;
     j["solver"] = {{"converged", r.summary.converged},

@@ -1,5 +1,8 @@
-// The text report: a summary block first, then species grouped by component with the share
-// of the component each one holds, then saturation with verdicts, warnings and the caution.
+// The text report, answer first. For each water and step: what the step did, then what the
+// water will do (each mineral near saturation with its tendency, ΔG and the amount to
+// equilibrium; the indices read in words), then the water at a glance in the figures of a lab
+// sheet, then the detail (where each component is, the species, every mineral's log K and log
+// IAP, the Eh each redox couple implies, the totals), then what to check. The caution ends it.
 #include <fmt/format.h>
 
 #include <algorithm>
@@ -7,6 +10,7 @@
 
 #include "deltag/constants.hpp"
 #include "deltag/figures.hpp"
+#include "deltag/outlook.hpp"
 #include "deltag/report.hpp"
 #include "io/text_format.hpp"
 
@@ -20,15 +24,12 @@ std::string_view caution_text() {
 
 namespace {
 
-std::string rule(char c = '-', std::size_t n = 78) { return std::string(n, c) + "\n"; }
+constexpr std::size_t page_width = 80;
+
+std::string rule(char c = '-', std::size_t n = page_width) { return std::string(n, c) + "\n"; }
 
 // Display width of UTF-8 text (code points; all our symbols are one column wide).
-std::size_t width(std::string_view s) {
-    std::size_t n = 0;
-    for (unsigned char c : s)
-        if ((c & 0xC0) != 0x80) ++n;
-    return n;
-}
+std::size_t width(std::string_view s) { return text::code_points(s); }
 
 std::string pad(std::string_view s, std::size_t w) {
     std::string out(s);
@@ -36,229 +37,338 @@ std::string pad(std::string_view s, std::size_t w) {
     return out;
 }
 
+std::string rpad(std::string_view s, std::size_t w) {
+    std::string out;
+    for (std::size_t n = width(s); n < w; ++n) out += ' ';
+    return out + std::string(s);
+}
+
 std::string sci(double v) { return fmt::format("{:.3e}", v); }
 
-std::string summary_block(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
+// "label   value", the value wrapped under itself when it is long.
+std::string field(std::string_view label, const std::string& value, std::size_t indent = 4, std::size_t label_w = 20) {
+    const std::size_t room = page_width > indent + label_w + 20 ? page_width - indent - label_w : 40;
+    const auto lines = text::wrap(value, room);
     std::string out;
-    auto line = [&](std::string_view k, const std::string& v) { out += "  " + pad(k, 22) + v + "\n"; };
-    line("temperature", fmt::format("{:.1f} °C", r.temperature_c));
-    line("pH", fmt::format("{:.3f}", r.ph));
-    if (r.pe) {
-        const double slope = constants::nernst_slope_v(r.temperature_c + constants::zero_celsius_k);
-        line("pe / Eh", fmt::format("{:.2f} / {:.3f} V vs SHE", *r.pe, *r.pe * slope));
-    } else {
-        line("pe / Eh", "not given (redox species left out)");
+    for (std::size_t i = 0; i < lines.size(); ++i)
+        out += std::string(indent, ' ') + pad(i == 0 ? label : "", label_w) + lines[i] + "\n";
+    if (lines.empty()) out += std::string(indent, ' ') + std::string(label) + "\n";
+    return out;
+}
+
+// A paragraph at an indent, wrapped to the page.
+std::string para(const std::string& s, std::size_t indent = 4, std::string_view first = "") {
+    std::string out;
+    const std::size_t lead = width(first);
+    const auto lines = text::wrap(s, page_width - indent - lead);
+    for (std::size_t i = 0; i < lines.size(); ++i)
+        out += std::string(indent, ' ') + (i == 0 ? std::string(first) : std::string(lead, ' ')) + lines[i] + "\n";
+    return out;
+}
+
+std::string heading(std::string_view title) { return "\n  " + std::string(title) + "\n"; }
+
+// An amount in mg/L with the digits it deserves.
+std::string mg(double v) {
+    const double a = std::abs(v);
+    if (a >= 100.0) return fmt::format("{:.0f}", a);
+    if (a >= 10.0) return fmt::format("{:.1f}", a);
+    if (a >= 0.01) return fmt::format("{:.2f}", a);
+    return fmt::format("{:.2g}", a);
+}
+
+// The label of a component: its element (C for carbonate, S for sulfate), else its name.
+std::string component_label(const thermo::Species& comp) {
+    std::string label;
+    for (const auto& [el, n] : comp.formula.elements)
+        if (el != "H" && el != "O") label += (label.empty() ? "" : "+") + el;
+    return label.empty() ? chem::pretty(comp.name) : label;
+}
+
+// ---- 1. what the water will do -----------------------------------------------------------
+
+process::Outlook outlook_of(const thermo::Database& db, const ReportItem& item) {
+    return item.outlook ? *item.outlook : process::saturation_outlook(db, item.result);
+}
+
+std::string verdict_block(const thermo::Database& db, const ReportItem& item) {
+    const process::Outlook o = outlook_of(db, item);
+    std::string out = heading("What it will do");
+    if (o.minerals.empty() && o.far_below == 0) return out + para("no mineral of the database can form from this water");
+    if (!o.minerals.empty()) {
+        out += "    " + pad("mineral", 19) + pad("tendency", 15) + rpad("SI", 6) + rpad("ΔG kJ/mol", 11) + "   to reach equilibrium\n";
+        for (const auto& m : o.minerals) {
+            std::string amount;
+            if (!m.amount_available) amount = "n/a";
+            else if (std::abs(m.mg_per_l) < 0.005) amount = "none: at equilibrium";
+            else if (m.mg_per_l > 0) amount = mg(m.mg_per_l) + " mg/L would deposit";
+            else amount = mg(m.mg_per_l) + " mg/L would dissolve, if present";
+            out += "    " + pad(m.mineral, 19) + pad(process::tendency_text(m.tendency), 15) +
+                   rpad(fmt::format("{:+.2f}", m.si), 6) + rpad(fmt::format("{:+.2f}", m.delta_g_kj_per_mol), 11) + "   " +
+                   amount + "\n";
+            if (!m.note.empty()) out += para(m.note, 4 + 19, "note: ");
+            if (!m.amount_available && !m.why_not.empty() && item.outlook) out += para(m.why_not, 4 + 19, "n/a: ");
+        }
     }
-    line("ionic strength", fmt::format("{:.4g} mol/kgw", r.ionic_strength));
-    line("water activity", fmt::format("{:.5f}", r.water_activity));
-    line("total alkalinity", fmt::format("{:.4g} meq/kgw", r.alkalinity_eq * 1000.0));
-    line("charge balance", fmt::format("{:+.2f} % (cations {:.4g}, anions {:.4g} meq/kgw; Standard Methods 1030 E)",
-                                       r.charge_balance_error_percent, r.cations_meq, r.anions_meq));
+    std::string foot;
+    if (!o.minerals.empty())
+        foot = "Tendency from SI (balanced within ±" + text::trimmed(equilibrium::default_si_tolerance, 2) +
+               "); ΔG = RT ln(IAP/K) drives it; the amount is what leaves or enters the water when it reaches "
+               "equilibrium with that mineral alone, in a closed system (for calcite, the CCPP).";
+    if (o.far_below > 0)
+        foot += fmt::format("{}{} more mineral{} undersaturated by more than {} SI unit: see Every mineral.",
+                            foot.empty() ? "" : " ", o.far_below, o.far_below == 1 ? " is" : "s are",
+                            text::trimmed(-o.si_floor, 2));
+    return out + para(foot, 4);
+}
+
+std::string indices_block(const thermo::Database& db, const ReportItem& item, const process::WaterFigures& f) {
+    std::string out = "\n    " + pad("index", 20) + rpad("value", 7) + "   reading\n";
+    auto row = [&](std::string_view name, const std::string& value, const std::string& reading) {
+        const auto lines = text::wrap(reading, page_width - 4 - 20 - 7 - 3);
+        for (std::size_t i = 0; i < std::max<std::size_t>(1, lines.size()); ++i)
+            out += "    " + pad(i == 0 ? name : "", 20) + rpad(i == 0 ? value : "", 7) + "   " +
+                   (i < lines.size() ? lines[i] : "") + "\n";
+    };
+    auto unavailable = [&](std::string_view name, const std::string& why) { row(name, "n/a", why); };
+    (void)db;
+    if (item.indices) {
+        const auto& ix = *item.indices;
+        if (ix.available) {
+            row("Langelier (LSI)", fmt::format("{:+.2f}", ix.langelier),
+                process::langelier_reading(ix.langelier) +
+                    fmt::format(" (pHs {:.2f} from the speciation; SM 2330)", ix.ph_s));
+            row("Ryznar (RSI)", fmt::format("{:.2f}", ix.ryznar), process::ryznar_reading(ix.ryznar) + " (Ryznar 1944)");
+        } else {
+            unavailable("Langelier, Ryznar", ix.why_not);
+            if (ix.formula_available)
+                row("LSI, 2330 B formula", fmt::format("{:+.2f}", ix.formula_langelier),
+                    fmt::format("pHs {:.2f} with all the carbonate alkalinity as bicarbonate; a rough guide only "
+                                "where pHs nears pK2",
+                                ix.formula_ph_s));
+        }
+        if (ix.ccpp_available)
+            row("CCPP", fmt::format("{:+.1f}", ix.ccpp_mg_per_l),
+                std::string("mg/L as CaCO3 ") +
+                    (ix.ccpp_mg_per_l > 0   ? "would deposit"
+                     : ix.ccpp_mg_per_l < 0 ? "would dissolve"
+                                            : "at equilibrium") +
+                    " (calcium carbonate precipitation potential, closed system)");
+        else
+            unavailable("CCPP", ix.ccpp_why_not);
+    }
+    if (f.puckorius_available)
+        row("Puckorius (PSI)", fmt::format("{:.2f}", f.puckorius),
+            f.puckorius_reading + fmt::format(" (pHeq {:.2f}; Puckorius and Brooke 1991)", f.puckorius_ph_eq));
+    else if (item.indices)
+        unavailable("Puckorius (PSI)", f.puckorius_why_not);
+    if (f.larson_skold_available)
+        row("Larson-Skold", fmt::format("{:.2f}", f.larson_skold), f.larson_skold_reading + " (Larson and Skold 1958)");
+    else
+        unavailable("Larson-Skold", f.larson_skold_why_not);
+    if (f.aggressive_index_available)
+        row("Aggressive Index", fmt::format("{:.2f}", f.aggressive_index), f.aggressive_index_reading + " (AWWA C400)");
+    else
+        unavailable("Aggressive Index", f.aggressive_index_why_not);
+    return out;
+}
+
+// ---- 2. the water at a glance ------------------------------------------------------------
+
+std::string glance_block(const thermo::Database& db, const equilibrium::SpeciationResult& r,
+                         const process::WaterFigures& f) {
+    std::string out = heading("The water at a glance");
+    out += field("pH, temperature", fmt::format("{:.2f} at {:.1f} °C", r.ph, r.temperature_c));
+    out += field("dissolved solids", fmt::format("{:.0f} mg/L, calculated from the analysis (Standard Methods 1030 E)",
+                                                 f.tds_calculated_mg_per_l));
+    out += field("conductance", fmt::format("{:.4g} µS/cm at 25 °C, calculated from the ions (Standard Methods 2510){}",
+                                            f.specific_conductance_us_per_cm,
+                                            f.conductance_charge_left_out_percent >= 0.05
+                                                ? fmt::format("; ion pairs holding {:.1f} % of the charge left out",
+                                                              f.conductance_charge_left_out_percent)
+                                                : ""));
+    out += field("hardness", fmt::format("{:.1f} mg/L as CaCO3: calcium {:.1f}, magnesium {:.1f}; carbonate {:.1f}, "
+                                         "non-carbonate {:.1f} (Standard Methods 2340 B)",
+                                         f.hardness_total, f.hardness_calcium, f.hardness_magnesium,
+                                         f.hardness_carbonate, f.hardness_non_carbonate));
+    out += field("alkalinity", fmt::format("{:.1f} mg/L as CaCO3 total (M, to pH 4.5); {:.1f} phenolphthalein (P, to "
+                                           "pH 8.3){} (Standard Methods 2320)",
+                                           f.alkalinity_total_m, f.alkalinity_phenolphthalein_p,
+                                           f.acidity_to_ph_8_3 > 0
+                                               ? fmt::format("; acidity to pH 8.3 {:.1f}", f.acidity_to_ph_8_3)
+                                               : ""));
+    const bool ok = equilibrium::charge_balance_acceptable(r.cations_meq, r.anions_meq);
+    out += field("ion balance", fmt::format("{:+.2f} %: cations {:.4g}, anions {:.4g} meq/kgw; {} (Standard Methods "
+                                            "1030 E)",
+                                            r.charge_balance_error_percent, r.cations_meq, r.anions_meq,
+                                            ok ? "acceptable" : "OUTSIDE the acceptance"));
     if (r.charge_balance_adjustment) {
         const auto& a = *r.charge_balance_adjustment;
         const std::string unit = a.unit + (a.as.empty() ? "" : " as " + a.as);
-        line("balanced on " + a.analyte,
-             fmt::format("{} adjusted from {:.4g} to {:.4g} {} ({:.4g} to {:.4g} mmol/kgw) to close the balance; "
-                         "as given the balance was {:+.2f} %, {} the Standard Methods 1030 E acceptance",
-                         a.analyte, a.given, a.adjusted, unit, a.given_mmol_per_kgw, a.adjusted_mmol_per_kgw,
-                         a.error_percent_as_given, a.within_acceptance ? "within" : "OUTSIDE"));
+        out += field("balanced on " + a.analyte,
+                     fmt::format("{} adjusted from {:.4g} to {:.4g} {} ({:.4g} to {:.4g} mmol/kgw) to close the "
+                                 "balance; as given it was {:+.2f} %, {} the Standard Methods 1030 E acceptance",
+                                 a.analyte, a.given, a.adjusted, unit, a.given_mmol_per_kgw,
+                                 a.adjusted_mmol_per_kgw, a.error_percent_as_given,
+                                 a.within_acceptance ? "within" : "OUTSIDE"));
     }
-    line("activity model", std::string(activity::model_name(r.activity_model)));
-    line("solver", r.summary.brief());
-    // Verdicts in one line each.
-    std::vector<std::string> over, at, under;
+    out += field("ionic strength", fmt::format("{:.4g} mol/kgw (water activity {:.5f})", r.ionic_strength, r.water_activity));
+    if (r.pe) {
+        const double eh = electro::eh_from_pe(*r.pe, r.temperature_c);
+        const SourceLocation here{"report", 0, 0};
+        out += field("redox level",
+                     fmt::format("Eh {:+.0f} mV vs SHE (pe {:.2f}); {:+.0f} mV vs SCE, {:+.0f} mV vs Ag/AgCl (sat. "
+                                 "KCl), {:+.0f} mV vs Cu/CuSO4 (sat.)",
+                                 eh * 1000.0, *r.pe, electro::convert_v(eh, "SHE", "SCE", r.temperature_c, here) * 1000.0,
+                                 electro::convert_v(eh, "SHE", "Ag/AgCl(sat KCl)", r.temperature_c, here) * 1000.0,
+                                 electro::convert_v(eh, "SHE", "Cu/CuSO4(sat)", r.temperature_c, here) * 1000.0));
+    } else {
+        out += field("redox level", "not given: the redox species are left out");
+    }
+    std::string gases;
     for (const auto& s : r.saturation) {
-        if (s.is_gas) continue;
-        const std::string item = fmt::format("{} ({:+.2f})", s.phase, s.si);
-        switch (s.verdict) {
-            case equilibrium::Verdict::precipitation_favoured: over.push_back(item); break;
-            case equilibrium::Verdict::at_equilibrium: at.push_back(item); break;
-            case equilibrium::Verdict::dissolution_favoured: under.push_back(item); break;
-        }
+        if (!s.is_gas) continue;
+        const double p = std::pow(10.0, s.si);
+        std::string name = chem::pretty(s.phase);
+        if (name.size() > 3 && name.ends_with("(g)")) name.resize(name.size() - 3);
+        gases += (gases.empty() ? "" : "; ") + name + " " +
+                 (p < 0.01 && p >= 1e-6 ? fmt::format("{:.0f} ppmv ({} atm)", p * 1e6, sci(p)) : fmt::format("{:.3g} atm", p));
     }
-    auto join = [](const std::vector<std::string>& v) {
-        if (v.empty()) return std::string("none");
-        std::string s;
-        for (const auto& x : v) s += (s.empty() ? "" : ", ") + x;
-        return s;
-    };
-    line("supersaturated", join(over));
-    line("at equilibrium", join(at) + fmt::format("  (|SI| <= {})", equilibrium::default_si_tolerance));
-    line("undersaturated", under.empty() ? std::string("none") : fmt::format("{} phases", under.size()));
+    if (!gases.empty())
+        out += field("gas in balance", gases + ": the partial pressure of a gas in equilibrium with the water");
     (void)db;
     return out;
 }
 
-std::string totals_block(const equilibrium::SpeciationResult& r) {
-    std::string out = "Totals\n";
-    out += fmt::format("  {:<10}{:>14}{:>14}\n", "element", "mol/kgw", "mg/kgw");
-    for (const auto& [el, m] : r.element_totals) {
-        const double mg = m * chem::atomic_weight(el).value_or(0.0) * 1000.0;
-        out += fmt::format("  {:<10}{:>14}{:>14.4g}\n", el, sci(m), mg);
-    }
-    return out;
-}
+// ---- 3. the detail ----------------------------------------------------------------------
 
-std::string species_block(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
-    std::string out = "Species, grouped by component (share = moles of the component in the species / total)\n";
-    out += "  " + pad("species", 18) + fmt::format("{:>14}{:>14}{:>10}{:>10}\n", "mol/kgw", "activity", "log γ", "share %");
+std::string where_block(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
+    std::string out = heading("Where each component is (% of its total; under 0.1 % left out)");
     for (std::size_t j = 0; j < db.component_count(); ++j) {
         if (!r.component_present[j]) continue;
         const thermo::Species& comp = db.species()[j];
         if (comp.role != thermo::ComponentRole::ordinary) continue;
         const double total = r.component_totals[j];
         if (!(total > 0)) continue;
-        out += fmt::format("  {} (total {} mol/kgw)\n", chem::pretty(comp.name), sci(total));
-        std::vector<std::pair<double, const equilibrium::SpeciesResult*>> rows;
+        std::vector<std::pair<double, std::string>> parts;
         for (const auto& s : r.species) {
             double nu = 0.0;
             for (const auto& [k, v] : db.species()[s.species].formation)
                 if (k == j) nu = v;
             if (nu <= 0) continue;
-            rows.emplace_back(100.0 * nu * s.molality / total, &s);
+            const double share = 100.0 * nu * s.molality / total;
+            if (share >= 0.1) parts.emplace_back(share, chem::pretty(s.name));
         }
-        std::sort(rows.begin(), rows.end(), [](const auto& a, const auto& b) { return a.first > b.first; });
-        for (const auto& [share, s] : rows) {
-            if (share < 0.01) continue;
-            out += "    " + pad(chem::pretty(s->name), 16) +
-                   fmt::format("{:>14}{:>14}{:>10.4f}{:>10.2f}\n", sci(s->molality), sci(s->activity), s->log_gamma, share);
-        }
-    }
-    // H+ and OH- are not shares of a component: list them apart.
-    out += "  water and its ions\n";
-    for (const char* n : {"H+", "OH-"})
-        if (const auto* s = r.find(n))
-            out += "    " + pad(chem::pretty(s->name), 16) +
-                   fmt::format("{:>14}{:>14}{:>10.4f}{:>10}\n", sci(s->molality), sci(s->activity), s->log_gamma, "");
-    return out;
-}
-
-std::string saturation_block(const equilibrium::SpeciationResult& r) {
-    std::string out = fmt::format("Saturation at {:.1f} °C (ΔG of dissolution = RT ln(IAP/K); positive: precipitation favoured)\n",
-                                  r.temperature_c);
-    out += "  " + pad("phase", 20) + fmt::format("{:>9}{:>10}{:>10}{:>12}  {}\n", "SI", "log IAP", "log K", "ΔG kJ/mol", "verdict");
-    std::vector<const equilibrium::SaturationResult*> minerals, gases;
-    for (const auto& s : r.saturation) (s.is_gas ? gases : minerals).push_back(&s);
-    std::sort(minerals.begin(), minerals.end(), [](auto* a, auto* b) { return a->si > b->si; });
-    for (const auto* s : minerals)
-        out += "  " + pad(s->phase, 20) +
-               fmt::format("{:>+9.3f}{:>10.3f}{:>10.3f}{:>+12.2f}  {}\n", s->si, s->log_iap, s->log_k,
-                           s->delta_g_kj_per_mol, equilibrium::verdict_text(s->verdict));
-    if (!gases.empty()) {
-        out += "  gas partial pressures in equilibrium with the water\n";
-        for (const auto* g : gases)
-            out += "    " + pad(chem::pretty(g->phase), 18) + fmt::format("log p = {:+.3f} (p = {:.3e} atm)\n", g->si, std::pow(10.0, g->si));
+        std::sort(parts.begin(), parts.end(), [](const auto& a, const auto& b) { return a.first > b.first; });
+        std::string list;
+        for (const auto& [share, name] : parts) list += (list.empty() ? "" : ", ") + name + fmt::format(" {:.1f}", share);
+        out += field(component_label(comp), fmt::format("{:#.4g} mmol/kgw: ", total * 1000.0) + list, 4, 8);
     }
     return out;
 }
 
-// The figures of a lab sheet, one line each (methods named in src/process/figures.cpp).
-std::string figures_block(const thermo::Database& db, const equilibrium::SpeciationResult& r,
-                          const process::Indices* ix) {
-    const auto f = process::water_figures(db, r, ix);
-    std::string out;
-    out += "  " + pad("hardness as CaCO3", 22) +
-           fmt::format("{:.1f} mg/L: Ca {:.1f}, Mg {:.1f}; carbonate {:.1f}, non-carbonate {:.1f} (SM 2340 B)\n",
-                       f.hardness_total, f.hardness_calcium, f.hardness_magnesium, f.hardness_carbonate,
-                       f.hardness_non_carbonate);
-    out += "  " + pad("alkalinity as CaCO3", 22) +
-           fmt::format("M {:.1f} mg/L (to pH 4.5), P {:.1f} mg/L (to pH 8.3){} (SM 2320)\n", f.alkalinity_total_m,
-                       f.alkalinity_phenolphthalein_p,
-                       f.acidity_to_ph_8_3 > 0 ? fmt::format("; acidity to pH 8.3 {:.1f}", f.acidity_to_ph_8_3) : "");
-    out += "  " + pad("dissolved solids", 22) +
-           fmt::format("{:.0f} mg/L calculated, carbonate as CO3 (SM 1030 E)\n", f.tds_calculated_mg_per_l);
-    out += "  " + pad("conductance at 25 °C", 22) +
-           fmt::format("{:.4g} µS/cm calculated (SM 2510, Onsager){}\n", f.specific_conductance_us_per_cm,
-                       f.conductance_charge_left_out_percent >= 0.05
-                           ? fmt::format("; ion pairs with {:.1f} % of the charge left out",
-                                         f.conductance_charge_left_out_percent)
-                           : "");
-    auto index_line = [&](std::string_view name, bool ok, double v, const std::string& reading, const std::string& why,
-                          std::string_view extra) {
-        out += "  " + pad(name, 22) +
-               (ok ? fmt::format("{:.2f}: {}{}\n", v, reading, extra) : "unavailable, because " + why + "\n");
-    };
-    index_line("Larson-Skold", f.larson_skold_available, f.larson_skold, f.larson_skold_reading,
-               f.larson_skold_why_not, "");
-    index_line("Puckorius", f.puckorius_available, f.puckorius, f.puckorius_reading, f.puckorius_why_not,
-               f.puckorius_available ? fmt::format(" (pHeq {:.2f})", f.puckorius_ph_eq) : "");
-    index_line("Aggressive Index", f.aggressive_index_available, f.aggressive_index, f.aggressive_index_reading,
-               f.aggressive_index_why_not, " (AWWA C400)");
-    for (const auto& n : f.notes) out += "  " + pad("note", 22) + n + "\n";
-    return out;
-}
-
-std::string indices_block(const process::Indices& ix) {
-    std::string out;
-    if (ix.available) {
-        out += "  " + pad("Langelier index", 22) +
-               fmt::format("{:+.2f} (pHs {:.2f} at Ca {:.4g} mmol/kgw and carbonate alkalinity {:.4g} meq/kgw; "
-                           "Standard Methods 2330, pHs from the speciation)\n",
-                           ix.langelier, ix.ph_s, ix.calcium_mol_per_kgw * 1000.0, ix.carbonate_alkalinity_eq * 1000.0);
-        out += "  " + pad("Ryznar index", 22) + fmt::format("{:.2f}\n", ix.ryznar);
-    } else {
-        out += "  " + pad("Langelier, Ryznar", 22) + "unavailable, because " + ix.why_not + "\n";
-        if (ix.formula_available)
-            out += "  " + pad("LSI, 2330 B formula", 22) +
-                   fmt::format("{:+.2f} (pHs {:.2f} with all the carbonate alkalinity as bicarbonate; a rough guide "
-                               "only where pHs nears pK2)\n",
-                               ix.formula_langelier, ix.formula_ph_s);
+std::string species_block(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
+    std::string out = heading("Species, most abundant first (γ: activity coefficient, activity = γ × molality)");
+    out += "    " + pad("species", 16) + rpad("mol/kgw", 11) + rpad("mg/L", 11) + rpad("activity", 11) + rpad("γ", 8) +
+           "\n";
+    std::vector<const equilibrium::SpeciesResult*> rows;
+    for (const auto& s : r.species) rows.push_back(&s);
+    std::stable_sort(rows.begin(), rows.end(), [](auto* a, auto* b) { return a->molality > b->molality; });
+    for (const auto* s : rows) {
+        const double molar_mass = db.species()[s->species].formula.molar_mass();
+        const double mg_per_l = s->molality * molar_mass * 1000.0 * r.kg_water_per_litre;
+        out += "    " + pad(chem::pretty(s->name), 16) + rpad(sci(s->molality), 11) +
+               rpad(mg_per_l >= 0.001 ? fmt::format("{:#.4g}", mg_per_l) : sci(mg_per_l), 11) + rpad(sci(s->activity), 11) +
+               rpad(fmt::format("{:.3f}", std::pow(10.0, s->log_gamma)), 8) + "\n";
     }
-    if (ix.ccpp_available)
-        out += "  " + pad("CCPP", 22) +
-               fmt::format("{:+.2f} mg/L as CaCO3 ({}; closed system)\n", ix.ccpp_mg_per_l,
-                           ix.ccpp_mg_per_l > 0   ? "would precipitate"
-                           : ix.ccpp_mg_per_l < 0 ? "would dissolve"
-                                                  : "at equilibrium");
-    else
-        out += "  " + pad("CCPP", 22) + "unavailable, because " + ix.ccpp_why_not + "\n";
     return out;
 }
 
-// The water's Eh on the usual scales, and the Eh each redox couple present implies.
-std::string redox_block(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
+std::string minerals_block(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
+    std::vector<const equilibrium::SaturationResult*> minerals;
+    for (const auto& s : r.saturation)
+        if (!s.is_gas) minerals.push_back(&s);
+    if (minerals.empty()) return "";
+    std::stable_sort(minerals.begin(), minerals.end(), [](auto* a, auto* b) { return a->si > b->si; });
+    std::string out = heading(fmt::format("Every mineral (log K at {:.1f} °C; SI = log IAP - log K)", r.temperature_c));
+    out += "    " + pad("mineral", 19) + pad("formula", 16) + rpad("log K", 9) + rpad("log IAP", 9) + rpad("SI", 8) +
+           rpad("ΔG kJ/mol", 11) + "\n";
+    for (const auto* s : minerals) {
+        std::string formula;
+        if (auto m = db.find_mineral(s->phase)) formula = chem::pretty(db.minerals()[*m].formula.text);
+        out += "    " + pad(s->phase, 19) + pad(formula, 16) + rpad(fmt::format("{:.3f}", s->log_k), 9) +
+               rpad(fmt::format("{:.3f}", s->log_iap), 9) + rpad(fmt::format("{:+.3f}", s->si), 8) +
+               rpad(fmt::format("{:+.2f}", s->delta_g_kj_per_mol), 11) + "\n";
+    }
+    return out;
+}
+
+// The Eh each redox couple present implies, against the water's own.
+std::string couples_block(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
     const auto couples = electro::couple_potentials(db, r);
-    if (!r.pe && couples.empty()) return "";
-    std::string out = "Redox\n";
-    if (r.pe) {
-        const double eh = electro::eh_from_pe(*r.pe, r.temperature_c);
-        const SourceLocation here{"report", 0, 0};
-        out += fmt::format("  Eh {:+.3f} V vs SHE = {:+.3f} V vs SCE = {:+.3f} V vs Ag/AgCl(sat KCl) = {:+.3f} V vs "
-                           "Cu/CuSO4(sat) at {:.1f} °C (pe {:.2f})\n",
-                           eh, electro::convert_v(eh, "SHE", "SCE", r.temperature_c, here),
-                           electro::convert_v(eh, "SHE", "Ag/AgCl(sat KCl)", r.temperature_c, here),
-                           electro::convert_v(eh, "SHE", "Cu/CuSO4(sat)", r.temperature_c, here), r.temperature_c, *r.pe);
-    }
-    if (!couples.empty()) {
-        out += "  Eh each couple implies (equal values: the couples are in equilibrium with each other)\n";
-        out += "  " + pad("couple", 24) + fmt::format("{:>12}{:>10}\n", "Eh (V)", "pe");
-        for (const auto& c : couples)
-        {
-            const auto slash = c.couple.find('/');
-            const std::string shown = slash == std::string::npos
-                                          ? chem::pretty(c.couple)
-                                          : chem::pretty(c.couple.substr(0, slash)) + "/" + chem::pretty(c.couple.substr(slash + 1));
-            out += "  " + pad(shown, 24) + fmt::format("{:>+12.3f}{:>10.2f}\n", c.eh_v, c.pe);
-        }
+    if (couples.empty()) return "";
+    std::string out = heading("The Eh each redox couple implies (equal values: the couples agree)");
+    const bool has_eh = r.pe.has_value();
+    const double eh = has_eh ? electro::eh_from_pe(*r.pe, r.temperature_c) : 0.0;
+    out += "    " + pad("couple", 26) + rpad("mV vs SHE", 11) + (has_eh ? rpad("from the water's", 19) : "") + "\n";
+    for (const auto& c : couples) {
+        const auto slash = c.couple.find('/');
+        const std::string shown = slash == std::string::npos
+                                      ? chem::pretty(c.couple)
+                                      : chem::pretty(c.couple.substr(0, slash)) + " / " +
+                                            chem::pretty(c.couple.substr(slash + 1));
+        out += "    " + pad(shown, 26) + rpad(fmt::format("{:+.0f}", c.eh_v * 1000.0), 11) +
+               (has_eh ? rpad(fmt::format("{:+.0f} mV", (c.eh_v - eh) * 1000.0), 19) : "") + "\n";
     }
     return out;
 }
 
-std::string transfers_block(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
-    if (r.transfers.empty()) return "";
-    std::string out = "Transfers (positive: into the water)\n";
-    out += "  " + pad("phase", 20) + fmt::format("{:>14}{:>12}  {}\n", "mmol/kgw", "mg/L", "state");
+std::string totals_block(const equilibrium::SpeciationResult& r) {
+    std::string out = heading("Totals by element");
+    out += "    " + pad("element", 10) + rpad("mmol/kgw", 12) + rpad("mg/L", 12) + "\n";
+    for (const auto& [el, m] : r.element_totals) {
+        const double mg_per_l = m * chem::atomic_weight(el).value_or(0.0) * 1000.0 * r.kg_water_per_litre;
+        out += "    " + pad(el, 10) + rpad(fmt::format("{:#.4g}", m * 1000.0), 12) + rpad(fmt::format("{:#.4g}", mg_per_l), 12) + "\n";
+    }
+    return out;
+}
+
+// What a step did, before what the water will do.
+std::string step_block(const thermo::Database& db, const ReportItem& item) {
+    const auto& r = item.result;
+    std::string out;
+    if (item.dose) {
+        const auto& d = *item.dose;
+        out += field("dosed", fmt::format("{} {:.4g} mg/L ({:.4g} mmol/kgw){}", d.reagent, d.mg_per_l, d.mol_per_kgw * 1000.0,
+                                          d.found_by_target
+                                              ? ", found for the target (reached " + text::trimmed(d.target_reached, 4) + ")"
+                                              : ""));
+    }
     for (const auto& t : r.transfers) {
         const double mg_per_l = transfer_mg_per_l(db, r, t);
-        const std::string state = t.headspace ? fmt::format("closed headspace, {:.4g} mmol/kgw left in the gas", t.gas_moles_per_kgw * 1000.0)
-                                  : t.exhausted ? "exhausted"
-                                  : t.blocked   ? "held back by its allowed direction"
-                                  : t.at_target ? "at its target"
+        const std::string state = t.headspace ? fmt::format("; closed headspace, {:.4g} mmol/kgw left in the gas",
+                                                            t.gas_moles_per_kgw * 1000.0)
+                                  : t.exhausted ? "; all of it dissolved"
+                                  : t.blocked   ? "; stopped short of its target by the way it may move"
+                                  : t.at_target ? ""
                                                 : "";
-        out += "  " + pad(t.is_gas ? chem::pretty(t.phase) : t.phase, 20) +
-               fmt::format("{:>+14.4f}{:>+12.2f}  {}\n", t.moles * 1000.0, mg_per_l, state);
+        const std::string name = t.is_gas ? chem::pretty(t.phase) : t.phase;
+        const std::string verb = t.moles > 0 ? (t.is_gas ? "dissolved" : "dissolved")
+                                             : (t.is_gas ? "left the water" : "deposited");
+        out += field(t.moles > 0 ? "into the water" : "out of the water",
+                     fmt::format("{} {} mg/L ({:.4g} mmol/kgw) {}{}", name, mg(mg_per_l), std::abs(t.moles) * 1000.0, verb, state));
     }
-    return out;
+    return out.empty() ? out : heading("What this step did") + out;
+}
+
+std::string header(std::size_t n, const ReportItem& item) {
+    const auto& r = item.result;
+    const std::string what = item.kind == "water" ? fmt::format("{}. {}: the water as given", n, r.label)
+                                                  : fmt::format("{}. {}: after the {} step", n, r.label, item.kind);
+    const std::string right = fmt::format("{:.1f} °C  pH {:.2f}", r.temperature_c, r.ph);
+    const std::string line = rule('=');
+    const std::size_t used = width(what) + width(right) + 2;
+    return "\n" + line + " " + what + std::string(used < page_width ? page_width - used : 1, ' ') + right + "\n" + line;
 }
 
 }  // namespace
@@ -276,7 +386,7 @@ double transfer_mg_per_l(const thermo::Database& db, const equilibrium::Speciati
 
 std::vector<ReportItem> items_of(const std::vector<equilibrium::SpeciationResult>& results) {
     std::vector<ReportItem> items;
-    for (const auto& r : results) items.push_back(ReportItem{"water", r, std::nullopt, std::nullopt});
+    for (const auto& r : results) items.push_back(ReportItem{"water", r, std::nullopt, std::nullopt, std::nullopt});
     return items;
 }
 
@@ -286,33 +396,30 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx, co
     std::string out;
     out += fmt::format("deltag {}: {}\n", ctx.version, ctx.title.empty() ? ctx.case_path : ctx.title);
     out += fmt::format("case {}; database {}\n", ctx.case_path, ctx.database);
+    std::size_t number = 0;
     for (const auto& item : items) {
         const auto& r = item.result;
-        out += "\n" + rule('=');
-        if (item.kind == "water") out += fmt::format("Water '{}'\n", r.label);
-        else out += fmt::format("Step '{}' ({})\n", r.label, item.kind);
-        out += rule('=');
-        out += summary_block(db, r);
-        if (item.indices) out += indices_block(*item.indices);
-        out += figures_block(db, r, item.indices ? &*item.indices : nullptr);
-        if (item.dose) {
-            const auto& d = *item.dose;
-            out += "  " + pad("dose", 22) +
-                   fmt::format("{} {:.4g} mmol/kgw = {:.4g} mg/L{}\n", d.reagent, d.mol_per_kgw * 1000.0, d.mg_per_l,
-                               d.found_by_target ? fmt::format(" (found for the target; reached {})", text::trimmed(d.target_reached, 6)) : "");
-        }
-        out += "\n";
-        const std::string transfers = transfers_block(db, r);
-        if (!transfers.empty()) out += transfers + "\n";
-        const std::string redox = redox_block(db, r);
-        if (!redox.empty()) out += redox + "\n";
-        out += totals_block(r) + "\n";
-        out += species_block(db, r) + "\n";
-        out += saturation_block(r);
-        if (ctx.verbose) out += "\nSolver\n" + r.summary.full();
-        if (!r.warnings.empty()) {
-            out += "\nWarnings\n";
-            for (const auto& w : r.warnings) out += "  - " + w + "\n";
+        const auto f = process::water_figures(db, r, item.indices ? &*item.indices : nullptr);
+        out += header(++number, item);
+        out += step_block(db, item);
+        out += verdict_block(db, item);
+        out += indices_block(db, item, f);
+        out += glance_block(db, r, f);
+        out += "\n  ---- the detail ----\n";
+        out += where_block(db, r);
+        out += species_block(db, r);
+        out += minerals_block(db, r);
+        out += couples_block(db, r);
+        out += totals_block(r);
+        out += heading("How it was solved");
+        out += field("activity model", std::string(activity::model_name(r.activity_model)));
+        out += field("solver", r.summary.brief());
+        if (ctx.verbose) out += para(r.summary.full(), 6);
+        std::vector<std::string> notes = r.warnings;
+        for (const auto& note : f.notes) notes.push_back(note);
+        if (!notes.empty()) {
+            out += heading("Check before use");
+            for (const auto& w : notes) out += para(w, 4, "- ");
         }
     }
     for (const auto& sw : sweeps) {
