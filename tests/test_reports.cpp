@@ -59,7 +59,7 @@ TEST_CASE("text report: the answer first, then the water at a glance, the detail
     CHECK(p_lsi == std::string::npos);
     CHECK(t.find("1. well-7: the water as given") != std::string::npos);
     CHECK(t.find("Calcite") != std::string::npos);
-    CHECK(t.find("Standard Methods 1030 E") != std::string::npos);
+    CHECK(t.find("(SM 1030 E)") != std::string::npos);  // the ion balance and its method
     // The layout an engineer reads is deltag's own: none of the old grouped tables.
     CHECK(t.find("grouped by component") == std::string::npos);
     CHECK(t.find("share %") == std::string::npos);

@@ -68,6 +68,9 @@ std::string para(const std::string& s, std::size_t indent = 4, std::string_view 
 
 std::string heading(std::string_view title) { return "\n  " + std::string(title) + "\n"; }
 
+// Standard Methods for the Examination of Water and Wastewater (APHA, AWWA, WEF) is "SM" in
+// the report, as on a lab sheet; its header line says so once.
+
 // An amount in mg/L with the digits it deserves.
 std::string mg(double v) {
     const double a = std::abs(v);
@@ -99,10 +102,13 @@ std::string verdict_block(const thermo::Database& db, const ReportItem& item) {
         out += "    " + pad("mineral", 19) + pad("tendency", 15) + rpad("SI", 6) + rpad("ΔG kJ/mol", 11) + "   to reach equilibrium\n";
         for (const auto& m : o.minerals) {
             std::string amount;
+            // The amount can be tiny while the SI is large: little of the element is left.
+            const bool none = m.mg_per_l == 0.0 || (m.tendency == process::Tendency::balanced && std::abs(m.mg_per_l) < 0.005);
+            const std::string how_much = std::abs(m.mg_per_l) < 1e-4 ? "under 0.0001" : mg(m.mg_per_l);
             if (!m.amount_available) amount = "n/a";
-            else if (std::abs(m.mg_per_l) < 0.005) amount = "none: at equilibrium";
-            else if (m.mg_per_l > 0) amount = mg(m.mg_per_l) + " mg/L would deposit";
-            else amount = mg(m.mg_per_l) + " mg/L would dissolve, if present";
+            else if (none) amount = "none: at equilibrium";
+            else if (m.mg_per_l > 0) amount = how_much + " mg/L would deposit";
+            else amount = how_much + " mg/L would dissolve, if present";
             out += "    " + pad(m.mineral, 19) + pad(process::tendency_text(m.tendency), 15) +
                    rpad(fmt::format("{:+.2f}", m.si), 6) + rpad(fmt::format("{:+.2f}", m.delta_g_kj_per_mol), 11) + "   " +
                    amount + "\n";
@@ -179,27 +185,25 @@ std::string glance_block(const thermo::Database& db, const equilibrium::Speciati
                          const process::WaterFigures& f) {
     std::string out = heading("The water at a glance");
     out += field("pH, temperature", fmt::format("{:.2f} at {:.1f} °C", r.ph, r.temperature_c));
-    out += field("dissolved solids", fmt::format("{:.0f} mg/L, calculated from the analysis (Standard Methods 1030 E)",
+    out += field("dissolved solids", fmt::format("{:.0f} mg/L, calculated from the analysis (SM 1030 E)",
                                                  f.tds_calculated_mg_per_l));
-    out += field("conductance", fmt::format("{:.4g} µS/cm at 25 °C, calculated from the ions (Standard Methods 2510){}",
+    out += field("conductance", fmt::format("{:.4g} µS/cm at 25 °C, calculated from the ions (SM 2510){}",
                                             f.specific_conductance_us_per_cm,
                                             f.conductance_charge_left_out_percent >= 0.05
                                                 ? fmt::format("; ion pairs holding {:.1f} % of the charge left out",
                                                               f.conductance_charge_left_out_percent)
                                                 : ""));
     out += field("hardness", fmt::format("{:.1f} mg/L as CaCO3: calcium {:.1f}, magnesium {:.1f}; carbonate {:.1f}, "
-                                         "non-carbonate {:.1f} (Standard Methods 2340 B)",
+                                         "non-carbonate {:.1f} (SM 2340 B)",
                                          f.hardness_total, f.hardness_calcium, f.hardness_magnesium,
                                          f.hardness_carbonate, f.hardness_non_carbonate));
-    out += field("alkalinity", fmt::format("{:.1f} mg/L as CaCO3 total (M, to pH 4.5); {:.1f} phenolphthalein (P, to "
-                                           "pH 8.3){} (Standard Methods 2320)",
+    out += field("alkalinity", fmt::format("{:.1f} mg/L as CaCO3 (M, to pH 4.5); P {:.1f} (to pH 8.3){} (SM 2320)",
                                            f.alkalinity_total_m, f.alkalinity_phenolphthalein_p,
                                            f.acidity_to_ph_8_3 > 0
                                                ? fmt::format("; acidity to pH 8.3 {:.1f}", f.acidity_to_ph_8_3)
                                                : ""));
     const bool ok = equilibrium::charge_balance_acceptable(r.cations_meq, r.anions_meq);
-    out += field("ion balance", fmt::format("{:+.2f} %: cations {:.4g}, anions {:.4g} meq/kgw; {} (Standard Methods "
-                                            "1030 E)",
+    out += field("ion balance", fmt::format("{:+.2f} %: cations {:#.4g}, anions {:#.4g} meq/kgw; {} (SM 1030 E)",
                                             r.charge_balance_error_percent, r.cations_meq, r.anions_meq,
                                             ok ? "acceptable" : "OUTSIDE the acceptance"));
     if (r.charge_balance_adjustment) {
@@ -229,6 +233,7 @@ std::string glance_block(const thermo::Database& db, const equilibrium::Speciati
     for (const auto& s : r.saturation) {
         if (!s.is_gas) continue;
         const double p = std::pow(10.0, s.si);
+        if (p < 1e-10) continue;  // a trace no gas phase would show (H2 in an oxic water)
         std::string name = chem::pretty(s.phase);
         if (name.size() > 3 && name.ends_with("(g)")) name.resize(name.size() - 3);
         gases += (gases.empty() ? "" : "; ") + name + " " +
@@ -271,8 +276,15 @@ std::string species_block(const thermo::Database& db, const equilibrium::Speciat
     std::string out = heading("Species, most abundant first (γ: activity coefficient, activity = γ × molality)");
     out += "    " + pad("species", 16) + rpad("mol/kgw", 11) + rpad("mg/L", 11) + rpad("activity", 11) + rpad("γ", 8) +
            "\n";
+    // Species below 1e-15 mol/kgw (a few ions per litre's worth of noise) are counted, not listed;
+    // the JSON keeps them all.
+    constexpr double shown_from = 1e-15;
     std::vector<const equilibrium::SpeciesResult*> rows;
-    for (const auto& s : r.species) rows.push_back(&s);
+    std::size_t hidden = 0;
+    for (const auto& s : r.species) {
+        if (s.molality >= shown_from) rows.push_back(&s);
+        else ++hidden;
+    }
     std::stable_sort(rows.begin(), rows.end(), [](auto* a, auto* b) { return a->molality > b->molality; });
     for (const auto* s : rows) {
         const double molar_mass = db.species()[s->species].formula.molar_mass();
@@ -281,6 +293,8 @@ std::string species_block(const thermo::Database& db, const equilibrium::Speciat
                rpad(mg_per_l >= 0.001 ? fmt::format("{:#.4g}", mg_per_l) : sci(mg_per_l), 11) + rpad(sci(s->activity), 11) +
                rpad(fmt::format("{:.3f}", std::pow(10.0, s->log_gamma)), 8) + "\n";
     }
+    if (hidden > 0)
+        out += para(fmt::format("{} more species below {:.0e} mol/kgw (in the JSON report)", hidden, shown_from), 4);
     return out;
 }
 
@@ -396,6 +410,7 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx, co
     std::string out;
     out += fmt::format("deltag {}: {}\n", ctx.version, ctx.title.empty() ? ctx.case_path : ctx.title);
     out += fmt::format("case {}; database {}\n", ctx.case_path, ctx.database);
+    if (!items.empty()) out += "SM: Standard Methods for the Examination of Water and Wastewater\n";
     std::size_t number = 0;
     for (const auto& item : items) {
         const auto& r = item.result;

@@ -37,6 +37,8 @@ constexpr SlowMineral slow_minerals[] = {
     {"Quartz", "forms far too slowly to scale below about 150 °C; the silica that deposits is amorphous silica "
                "(common practice)"},
     {"Dolomite", "does not grow from water at these temperatures; calcite deposits instead (common practice)"},
+    {"Magnetite", "grows as a film on steel in hot, oxygen-poor water (boilers); not a scale from the bulk water "
+                  "(common practice)"},
     {"Hematite", "an aged iron oxide: fresh iron deposits are ferrihydrite (common practice)"},
     {"Goethite", "an aged iron oxide: fresh iron deposits are ferrihydrite (common practice)"},
 };
