@@ -9,6 +9,7 @@
 #include "deltag/electro.hpp"
 #include "deltag/process.hpp"
 #include "deltag/speciation.hpp"
+#include "deltag/water.hpp"
 
 namespace deltag::io {
 
@@ -30,6 +31,7 @@ struct ReportItem {
     equilibrium::SpeciationResult result;
     std::optional<process::Indices> indices;     // absent: not computed
     std::optional<process::DoseOutcome> dose;
+    LabMeasurements measured;                    // the lab's measured TDS and conductance (waters only)
 };
 
 struct SweepReport {
