@@ -367,6 +367,8 @@ TEST_CASE("a note where the Langelier family stops being meaningful (Standard Me
     REQUIRE(f.notes.size() == 1);
     CHECK(f.notes[0].find("stop being meaningful") != std::string::npos);
     CHECK(f.notes[0].find("Stiff-Davis") != std::string::npos);
+    // The note names where its limit comes from.
+    CHECK(f.notes[0].find("(Standard Methods 2330)") != std::string::npos);
     // A fresh water carries no such note.
     CHECK(water_figures(core(), water(ws, "hard").result).notes.empty());
     // The note stands in the text block and the JSON.
@@ -667,6 +669,16 @@ TEST_CASE("JSON never writes -0.0") {
     CHECK(j["results"][0]["charge_balance_error_percent"].get<double>() == 0.0);
     CHECK_FALSE(std::signbit(j["results"][0]["charge_balance_error_percent"].get<double>()));
     CHECK_FALSE(std::signbit(j["results"][0]["alkalinity_eq_per_kgw"].get<double>()));
+    // A cell at equal activities on both sides (a concentration cell with nothing to drive
+    // it): E = 0 and dG = -n F E, which is -0.0 in floating point.
+    electro::CellResult cell;
+    cell.n = 2.0;
+    cell.delta_g_kj_per_mol = -cell.n * 96.485 * cell.e_v;
+    REQUIRE(std::signbit(cell.delta_g_kj_per_mol));
+    const std::string cells = io::cells_json({cell});
+    CHECK_FALSE(std::regex_search(cells, negative_zero));
+    CHECK_FALSE(std::regex_search(io::json_report(core(), io::ReportContext{}, std::vector<io::ReportItem>{}, {}, {cell}),
+                                  negative_zero));
     // nlohmann would write -0.0 for it without the cleaning (the reason for it).
     CHECK(nlohmann::json(-0.0).dump() == "-0.0");
 }
