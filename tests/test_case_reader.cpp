@@ -2139,3 +2139,46 @@ TEST_CASE("errors: diagrams") {
         check_error(diagram_with(iron_element + "csv = 1\n"), "diagram[1].csv", dl + 1, "expected a string, found an integer");
     }
 }
+
+TEST_CASE("measured dissolved solids and conductance in the water block") {
+    // An invented analysis with both measured values.
+    const auto c = parse_case(R"toml(
+[water.well]
+pH = 7.4
+measured_tds_mg_per_l = 512
+measured_conductance_25c_us_per_cm = 830.5
+[water.well.analytes]
+Na = 20
+
+[water.plain]
+pH = 7.0
+)toml",
+                              "test.toml");
+    REQUIRE(c.waters.size() == 2);
+    REQUIRE(c.waters[0].measured.tds_mg_per_l.has_value());
+    CHECK(*c.waters[0].measured.tds_mg_per_l == 512.0);
+    REQUIRE(c.waters[0].measured.conductance_25c_us_per_cm.has_value());
+    CHECK(*c.waters[0].measured.conductance_25c_us_per_cm == 830.5);
+    // Not given: nothing measured.
+    CHECK_FALSE(c.waters[1].measured.tds_mg_per_l.has_value());
+    CHECK_FALSE(c.waters[1].measured.conductance_25c_us_per_cm.has_value());
+}
+
+TEST_CASE("errors: measured dissolved solids and conductance") {
+    // Negative, zero, a string, and a slip of unit past the upper bound.
+    check_error("[water.w]\npH = 7\nmeasured_tds_mg_per_l = -5\n", "water.w.measured_tds_mg_per_l", 3,
+                "expected a measured dissolved solids above zero in mg/L, found -5");
+    check_error("[water.w]\npH = 7\nmeasured_tds_mg_per_l = 0\n", "water.w.measured_tds_mg_per_l", 3,
+                "leave the key out if it was not measured");
+    check_error("[water.w]\npH = 7\nmeasured_tds_mg_per_l = \"512\"\n", "water.w.measured_tds_mg_per_l", 3,
+                "expected a number, found a string");
+    check_error("[water.w]\npH = 7\nmeasured_tds_mg_per_l = 2e6\n", "water.w.measured_tds_mg_per_l", 3,
+                "of at most 1e+06, found 2e+06; is the unit right?");
+    check_error("[water.w]\npH = 7\nmeasured_conductance_25c_us_per_cm = -830\n",
+                "water.w.measured_conductance_25c_us_per_cm", 3,
+                "expected a measured specific conductance at 25 °C above zero in µS/cm, found -830");
+    check_error("[water.w]\npH = 7\nmeasured_conductance_25c_us_per_cm = true\n",
+                "water.w.measured_conductance_25c_us_per_cm", 3, "expected a number, found a boolean");
+    check_error("[water.w]\npH = 7\nmeasured_conductance_25c_us_per_cm = 5e6\n",
+                "water.w.measured_conductance_25c_us_per_cm", 3, "is the unit right?");
+}

@@ -839,6 +839,21 @@ TEST_CASE("pretty(): repeated signs and fractional hydrate counts") {
 // Edit distance and suggestions
 // ---------------------------------------------------------------------------------------
 
+TEST_CASE("message_number: 6 significant digits, no trailing zeros, no -0") {
+    using deltag::message_number;
+    // Six significant digits, the default %g form (C standard, printf "%g" with precision 6).
+    CHECK(message_number(7.85) == "7.85");
+    CHECK(message_number(120.0) == "120");
+    CHECK(message_number(0.0001) == "0.0001");
+    CHECK(message_number(3.14159265) == "3.14159");
+    CHECK(message_number(-3.35243187e-08) == "-3.35243e-08");
+    CHECK(message_number(1234567.0) == "1.23457e+06");
+    CHECK(message_number(999999.4) == "999999");
+    // A negative zero (from -x of a zero) prints as 0, never "-0".
+    CHECK(message_number(-0.0) == "0");
+    CHECK(message_number(0.0) == "0");
+}
+
 TEST_CASE("edit_distance: Levenshtein, case-insensitive") {
     // The standard illustration of the Levenshtein distance: kitten -> sitting is 3
     // (two substitutions and one insertion).

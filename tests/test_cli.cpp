@@ -735,3 +735,34 @@ SO4 = 1
     CHECK(has(r.err, "scaled residual"));
     CHECK(has(r.err, "check the analysis"));
 }
+
+TEST_CASE("run: a water's measured TDS and conductance reach its figures in the JSON, not a step's") {
+    // An invented water with measured values, and one step from it.
+    const fs::path p = write("measured.toml", R"toml(title = "measured values (invented)"
+[water.tap]
+pH = 7.6
+measured_tds_mg_per_l = 300
+measured_conductance_25c_us_per_cm = 480
+[water.tap.analytes]
+Ca = 40
+Na = 20
+Cl = 35
+Alkalinity = { value = 100, as = "CaCO3" }
+
+[[step]]
+label = "warm"
+kind = "temperature"
+temperature_c = 40
+)toml");
+    const Run r = deltag("run '" + p.string() + "' --format json");
+    REQUIRE(r.code == 0);
+    const auto j = nlohmann::json::parse(r.out);
+    const auto& water = j["results"][0]["figures"];
+    CHECK(water["tds_measured_mg_per_l"]["measured"].get<double>() == 300.0);
+    CHECK(water["specific_conductance_25c_measured_us_per_cm"]["measured"].get<double>() == 480.0);
+    CHECK(water["standard_methods_1030e_checks"].size() == 6);
+    // The step's water is no longer the sample the lab measured.
+    const auto& step = j["results"][1]["figures"];
+    CHECK(step["tds_measured_mg_per_l"].is_null());
+    CHECK(step["standard_methods_1030e_checks"].empty());
+}

@@ -5,6 +5,7 @@
 
 #include <cmath>
 #include <nlohmann/json.hpp>
+#include <regex>
 #include <string>
 
 #include "deltag/case.hpp"
@@ -107,6 +108,18 @@ Na = 21000
 Cl = 32400
 Ca = 800
 Alkalinity = { value = 250, as = "CaCO3" }
+
+[water.lab]
+pH = 7.5
+units = "mg/L"
+[water.lab.analytes]
+Ca = 40
+Mg = 12.15
+Na = 46
+K = 3.9
+Cl = 71
+SO4 = 48
+Alkalinity = { value = 105, as = "CaCO3" }
 
 [water.brine_no_carbon]
 pH = 7.0
@@ -355,6 +368,8 @@ TEST_CASE("a note where the Langelier family stops being meaningful (Standard Me
     REQUIRE(f.notes.size() == 1);
     CHECK(f.notes[0].find("stop being meaningful") != std::string::npos);
     CHECK(f.notes[0].find("Stiff-Davis") != std::string::npos);
+    // The note names where its limit comes from.
+    CHECK(f.notes[0].find("(Standard Methods 2330)") != std::string::npos);
     // A fresh water carries no such note.
     CHECK(water_figures(core(), water(ws, "hard").result).notes.empty());
     // The note stands in the text block and the JSON.
@@ -362,4 +377,309 @@ TEST_CASE("a note where the Langelier family stops being meaningful (Standard Me
     CHECK(io::text_report(core(), io::ReportContext{}, items).find("stop being meaningful") != std::string::npos);
     const auto j = nlohmann::json::parse(io::json_report(core(), io::ReportContext{}, items));
     CHECK(j["results"][0]["figures"]["notes"].size() == 1);
+}
+
+namespace {
+
+const AnalysisCheck* check_named(const WaterFigures& f, const std::string& name) {
+    for (const auto& c : f.checks)
+        if (c.ratio_name == name) return &c;
+    return nullptr;
+}
+
+bool has_note(const WaterFigures& f, const std::string& part) {
+    for (const auto& n : f.notes)
+        if (n.find(part) != std::string::npos) return true;
+    return false;
+}
+
+WaterFigures figures_with(const WaterState& w, std::optional<double> tds, std::optional<double> ec) {
+    LabMeasurements m;
+    m.tds_mg_per_l = tds;
+    m.conductance_25c_us_per_cm = ec;
+    return water_figures(core(), w.result, &w.indices, &m);
+}
+
+}  // namespace
+
+TEST_CASE("the ions table and the ion balance, Standard Methods 1030 E, worked by hand") {
+    const auto ws = waters_of(analyses);
+    const auto f = water_figures(core(), water(ws, "lab").result);
+    // The "lab" analysis by hand (IUPAC atomic weights; meq = mg / (molar mass / |z|)):
+    //   Ca  40    x 2 / 40.078  = 1.99611 meq/L
+    //   Mg  12.15 x 2 / 24.305  = 0.99979
+    //   Na  46        / 22.990  = 2.00087
+    //   K   3.9       / 39.098  = 0.09975
+    //   cations                 = 5.09652
+    //   Cl  71        / 35.453  = 2.00265
+    //   SO4 48    x 2 / 96.06   = 0.99938
+    //   alkalinity 105 / 50.04  = 2.09832 meq/L, all of it HCO3- and CO3^2- at pH 7.5 (OH- is
+    //                             3e-4 meq/L, below the 0.001 a lab sheet shows)
+    //   anions                  = 5.10035
+    //   balance = 100 (5.09652 - 5.10035) / (5.09652 + 5.10035) = -0.038 %: the anion sum is
+    //   between 3 and 10 meq/L, where 1030 E accepts up to 2 %.
+    REQUIRE(f.cations.size() == 4);
+    auto row = [&](const std::vector<IonFigure>& rows, const std::string& ion) {
+        for (const auto& r : rows)
+            if (r.ion == ion) return r;
+        FAIL("no ion " << ion);
+        return IonFigure{};
+    };
+    // mg/L come back through the density conversion to within 0.1 %.
+    CHECK(row(f.cations, "Ca^2+").mg_per_l == doctest::Approx(40.0).epsilon(1e-3));
+    CHECK(row(f.cations, "Ca^2+").meq_per_l == doctest::Approx(1.99611).epsilon(1e-3));
+    CHECK(row(f.cations, "Mg^2+").meq_per_l == doctest::Approx(0.99979).epsilon(1e-3));
+    CHECK(row(f.cations, "Na+").mg_per_l == doctest::Approx(46.0).epsilon(1e-3));
+    CHECK(row(f.cations, "Na+").meq_per_l == doctest::Approx(2.00087).epsilon(1e-3));
+    CHECK(row(f.cations, "K+").meq_per_l == doctest::Approx(0.09975).epsilon(1e-3));
+    CHECK(row(f.anions, "Cl-").mg_per_l == doctest::Approx(71.0).epsilon(1e-3));
+    CHECK(row(f.anions, "Cl-").meq_per_l == doctest::Approx(2.00265).epsilon(1e-3));
+    CHECK(row(f.anions, "SO4^2-").mg_per_l == doctest::Approx(48.0).epsilon(1e-3));
+    CHECK(row(f.anions, "SO4^2-").meq_per_l == doctest::Approx(0.99938).epsilon(1e-3));
+    CHECK(row(f.anions, "SO4^2-").charge == -2);
+    // HCO3- and CO3^2- together hold the carbonate alkalinity, 2.098 meq/L; at pH 7.5 nearly all
+    // of it is bicarbonate (CO3/HCO3 about 10^(7.5 - 10.33), Stumm and Morgan 1996).
+    const auto hco3 = row(f.anions, "HCO3-"), co3 = row(f.anions, "CO3^2-");
+    CHECK(hco3.meq_per_l + co3.meq_per_l == doctest::Approx(2.09832).epsilon(2e-3));
+    CHECK(hco3.meq_per_l + co3.meq_per_l == doctest::Approx(f.carbonate_alkalinity_meq_per_l).epsilon(1e-9));
+    CHECK(co3.meq_per_l < 0.01 * hco3.meq_per_l);
+    // mg/L of each form: meq x 61.017 (HCO3-) and meq x 60.009 / 2 (CO3^2-).
+    CHECK(hco3.mg_per_l == doctest::Approx(hco3.meq_per_l * 61.017).epsilon(1e-4));
+    CHECK(co3.mg_per_l == doctest::Approx(co3.meq_per_l * 60.009 / 2.0).epsilon(1e-4));
+    CHECK(f.anions.size() == 4);  // Cl-, SO4^2-, HCO3-, CO3^2-: no OH- row at pH 7.5
+    // The sums and the balance.
+    CHECK(f.cations_meq_per_l == doctest::Approx(5.09652).epsilon(1e-3));
+    CHECK(f.anions_meq_per_l == doctest::Approx(5.10035).epsilon(2e-3));
+    CHECK(std::abs(f.ion_balance_error_percent) < 0.3);
+    CHECK(f.ion_balance_acceptable);
+
+    // The "hard" water does not balance: cations 1.99611 + 0.99979 + 23/22.990 (1.00043) +
+    // 0.09975 = 4.0961 meq/L; anions 2.00265 + 96 x 2 / 96.06 (1.99875) + 100 / 50.04 (1.99840)
+    // = 5.9998 meq/L; 100 (4.0961 - 5.9998) / 10.0959 = -18.86 %, past the 2 % 1030 E accepts.
+    const auto h = water_figures(core(), water(ws, "hard").result);
+    CHECK(h.cations_meq_per_l == doctest::Approx(4.0961).epsilon(2e-3));
+    CHECK(h.anions_meq_per_l == doctest::Approx(5.9998).epsilon(2e-3));
+    CHECK(h.ion_balance_error_percent == doctest::Approx(-18.86).epsilon(1e-2));
+    CHECK_FALSE(h.ion_balance_acceptable);
+    // The one acceptance rule is the solver's (equilibrium::charge_balance_acceptable).
+    CHECK(h.ion_balance_acceptable == equilibrium::charge_balance_acceptable(h.cations_meq_per_l, h.anions_meq_per_l));
+
+    // Sodium carbonate, 1 mmol/L (pH about 10.5): OH- is listed, and with HCO3- and CO3^2- it
+    // holds the alkalinity, 2 meq/L, which balances the 2 meq/L of sodium (a charge-balanced
+    // water: the balance closes but for the H+ left out, 3e-8 meq/L).
+    const auto s = water_figures(core(), water(ws, "soda").result);
+    const auto oh = row(s.anions, "OH-");
+    CHECK(oh.meq_per_l > 1e-3);
+    CHECK(s.cations_meq_per_l == doctest::Approx(2.0).epsilon(2e-3));
+    CHECK(s.anions_meq_per_l == doctest::Approx(s.cations_meq_per_l).epsilon(1e-6));
+    CHECK(s.ion_balance_acceptable);
+    // Pure water has no ions: empty lists, zero sums, a balance of 0.
+    const auto p = water_figures(core(), water(ws, "pure").result);
+    CHECK(p.cations.empty());
+    CHECK(p.anions.empty());
+    CHECK(p.ion_balance_error_percent == 0.0);
+}
+
+TEST_CASE("measured TDS against calculated TDS, Standard Methods 1030 E: 1.0 to 1.2") {
+    const auto ws = waters_of(analyses);
+    const auto& w = water(ws, "lab");
+    // Calculated TDS of the "lab" water, 1030 E (from memory): 0.6 x 105 + 40 + 12.15 + 46 +
+    // 3.9 + 71 + 48 = 284.05 mg/L.
+    {
+        // 312 / 284.05 = 1.098: within.
+        const auto f = figures_with(w, 312.0, std::nullopt);
+        REQUIRE(f.tds_measured.given);
+        CHECK(f.tds_measured.measured == 312.0);
+        CHECK(f.tds_measured.calculated == doctest::Approx(284.05).epsilon(3e-3));
+        CHECK(f.tds_measured.ratio == doctest::Approx(312.0 / 284.05).epsilon(3e-3));
+        const auto* c = check_named(f, "measured TDS / calculated TDS");
+        REQUIRE(c != nullptr);
+        CHECK(c->within);
+        CHECK(c->low == 1.0);
+        CHECK(c->high == 1.2);
+        CHECK(f.checks.size() == 1);  // no conductance given: only this check
+        CHECK(f.notes.empty());
+    }
+    {
+        // 270 / 284.05 = 0.951: below 1.0, the measured value under the calculated one.
+        const auto f = figures_with(w, 270.0, std::nullopt);
+        const auto* c = check_named(f, "measured TDS / calculated TDS");
+        REQUIRE(c != nullptr);
+        CHECK_FALSE(c->within);
+        CHECK(c->ratio == doctest::Approx(0.9505).epsilon(3e-3));
+        CHECK(has_note(f, "measured TDS / calculated TDS is 0.95"));
+        CHECK(has_note(f, "the higher ion sum and the measured TDS are suspect"));
+    }
+    {
+        // 355 / 284.05 = 1.250: more than 20 % above, a constituent may be missing.
+        const auto f = figures_with(w, 355.0, std::nullopt);
+        const auto* c = check_named(f, "measured TDS / calculated TDS");
+        REQUIRE(c != nullptr);
+        CHECK_FALSE(c->within);
+        CHECK(has_note(f, "outside 1 to 1.2 (Standard Methods 1030 E): the lower ion sum is suspect"));
+    }
+    // A step's result, or a water without measured values: nothing measured, no checks.
+    const auto none = water_figures(core(), w.result, &w.indices);
+    CHECK_FALSE(none.tds_measured.given);
+    CHECK_FALSE(none.conductance_measured.given);
+    CHECK(none.checks.empty());
+}
+
+TEST_CASE("calculated against measured conductance, Standard Methods 1030 E: 0.9 to 1.1") {
+    const auto ws = waters_of(analyses);
+    // 0.01 M KCl: its conductance is the Standard Methods 2510 standard, 1413 uS/cm (from
+    // memory), which the calculation gives within 0.5 %.
+    const auto& k = water(ws, "kcl_0_01");
+    {
+        const auto f = figures_with(k, std::nullopt, 1413.0);
+        REQUIRE(f.conductance_measured.given);
+        CHECK(f.conductance_measured.ratio == doctest::Approx(1.0).epsilon(5e-3));
+        const auto* c = check_named(f, "calculated EC / measured EC");
+        REQUIRE(c != nullptr);
+        CHECK(c->within);
+        CHECK(c->ratio == doctest::Approx(1.0).epsilon(5e-3));
+    }
+    {
+        // A meter reading 1200: 1413 / 1200 = 1.18, above 1.1; the higher ion sum is suspect.
+        const auto f = figures_with(k, std::nullopt, 1200.0);
+        const auto* c = check_named(f, "calculated EC / measured EC");
+        REQUIRE(c != nullptr);
+        CHECK_FALSE(c->within);
+        CHECK(c->ratio == doctest::Approx(1413.0 / 1200.0).epsilon(5e-3));
+        CHECK(has_note(f, "calculated EC / measured EC is 1.1"));
+        CHECK(has_note(f, "the higher ion sum is suspect"));
+    }
+    {
+        // 1700: 1413 / 1700 = 0.83, below 0.9; the lower ion sum is suspect.
+        const auto f = figures_with(k, std::nullopt, 1700.0);
+        const auto* c = check_named(f, "calculated EC / measured EC");
+        REQUIRE(c != nullptr);
+        CHECK_FALSE(c->within);
+        CHECK(has_note(f, "calculated EC / measured EC is 0.8"));
+    }
+}
+
+TEST_CASE("dissolved solids and ion sums against conductance, Standard Methods 1030 E") {
+    const auto ws = waters_of(analyses);
+    const auto& w = water(ws, "lab");
+    {
+        // Measured TDS 312 mg/L and EC 510 uS/cm, every check within (1030 E, from memory):
+        //   measured TDS / calculated TDS = 312 / 284.05     = 1.098  (1.0 to 1.2)
+        //   measured TDS / EC             = 312 / 510        = 0.612  (0.55 to 0.7)
+        //   calculated TDS / EC           = 284.05 / 510     = 0.557  (0.55 to 0.7)
+        //   100 x cation sum / EC         = 509.65 / 510     = 0.999  (0.9 to 1.1)
+        //   100 x anion sum / EC          = 510.04 / 510     = 1.000  (0.9 to 1.1)
+        //   calculated EC / measured EC: the limiting conductances (CRC, from memory) give
+        //   sum |z| c lambda0 = 605 uS/cm at infinite dilution, some 10 % less at I = 0.0075
+        //   and with the ion pairs left out, about 540 / 510 = 1.06 (0.9 to 1.1).
+        const auto f = figures_with(w, 312.0, 510.0);
+        REQUIRE(f.checks.size() == 6);
+        for (const auto& c : f.checks) {
+            INFO(c.ratio_name << " = " << c.ratio);
+            CHECK(c.within);
+        }
+        CHECK(f.notes.empty());
+        CHECK(check_named(f, "measured TDS / EC")->ratio == doctest::Approx(312.0 / 510.0));
+        CHECK(check_named(f, "calculated TDS / EC")->ratio == doctest::Approx(284.05 / 510.0).epsilon(3e-3));
+        CHECK(check_named(f, "100 x cation sum / EC")->ratio == doctest::Approx(509.652 / 510.0).epsilon(2e-3));
+        CHECK(check_named(f, "100 x anion sum / EC")->ratio == doctest::Approx(510.035 / 510.0).epsilon(2e-3));
+        CHECK(check_named(f, "calculated EC / measured EC")->ratio ==
+              doctest::Approx(f.specific_conductance_us_per_cm / 510.0));
+    }
+    {
+        // EC 400: measured TDS / EC = 0.78 and calculated TDS / EC = 0.710, above 0.7; the ion
+        // sums x 100 / EC = 1.27, above 1.1.
+        const auto f = figures_with(w, 312.0, 400.0);
+        CHECK_FALSE(check_named(f, "measured TDS / EC")->within);
+        CHECK(has_note(f, "measured TDS / EC is 0.78, outside 0.55 to 0.7 (Standard Methods 1030 E): the measured "
+                          "TDS or EC is suspect"));
+        CHECK_FALSE(check_named(f, "calculated TDS / EC")->within);
+        CHECK(has_note(f, "calculated TDS / EC is 0.7"));
+        CHECK(has_note(f, "poorly dissociated calcium and sulfate"));
+        CHECK_FALSE(check_named(f, "100 x cation sum / EC")->within);
+        CHECK_FALSE(check_named(f, "100 x anion sum / EC")->within);
+        CHECK(has_note(f, "100 x cation sum / EC is 1.27"));
+        CHECK(has_note(f, "the anion sum is suspect"));
+    }
+    {
+        // EC 600: calculated TDS / EC = 0.473, below 0.55 (the lower ion sum is suspect); the
+        // ion sums x 100 / EC = 0.85, below 0.9; measured TDS 250 / 600 = 0.417, below 0.55.
+        const auto f = figures_with(w, 250.0, 600.0);
+        CHECK_FALSE(check_named(f, "calculated TDS / EC")->within);
+        CHECK(check_named(f, "calculated TDS / EC")->ratio == doctest::Approx(284.05 / 600.0).epsilon(3e-3));
+        CHECK(has_note(f, "calculated TDS / EC is 0.47"));
+        CHECK(has_note(f, "outside 0.55 to 0.7 (Standard Methods 1030 E): the lower ion sum is suspect"));
+        CHECK_FALSE(check_named(f, "measured TDS / EC")->within);
+        CHECK_FALSE(check_named(f, "100 x cation sum / EC")->within);
+        CHECK(has_note(f, "100 x anion sum / EC is 0.8"));
+    }
+}
+
+TEST_CASE("the measured values, the ions and the 1030 E checks stand in the JSON") {
+    const auto ws = waters_of(analyses);
+    const auto& w = water(ws, "lab");
+    io::ReportItem item{"water", w.result, w.indices, std::nullopt, {}};
+    item.measured.tds_mg_per_l = 270.0;
+    item.measured.conductance_25c_us_per_cm = 510.0;
+    const auto j = nlohmann::json::parse(io::json_report(core(), io::ReportContext{}, {item}));
+    const auto& fig = j["results"][0]["figures"];
+    // Measured 270 beside the calculated 284.05 (1030 E, by hand above): 0.951.
+    CHECK(fig["tds_measured_mg_per_l"]["measured"].get<double>() == 270.0);
+    CHECK(fig["tds_measured_mg_per_l"]["calculated"].get<double>() == doctest::Approx(284.05).epsilon(3e-3));
+    CHECK(fig["tds_measured_mg_per_l"]["measured_to_calculated"].get<double>() ==
+          doctest::Approx(270.0 / 284.05).epsilon(3e-3));
+    CHECK(fig["specific_conductance_25c_measured_us_per_cm"]["measured"].get<double>() == 510.0);
+    // The ions: the hand-worked sums of the table test.
+    CHECK(fig["ions"]["cations"].size() == 4);
+    CHECK(fig["ions"]["cations"][0]["ion"].is_string());
+    CHECK(fig["ions"]["cations_meq_per_l"].get<double>() == doctest::Approx(5.09652).epsilon(1e-3));
+    CHECK(fig["ions"]["anions_meq_per_l"].get<double>() == doctest::Approx(5.10035).epsilon(2e-3));
+    CHECK(fig["ions"]["balance_within_standard_methods_1030e"].get<bool>());
+    // Six checks; the TDS ratio 0.951 fails, with its note.
+    const auto& checks = fig["standard_methods_1030e_checks"];
+    REQUIRE(checks.size() == 6);
+    CHECK(checks[0]["ratio"] == "measured TDS / calculated TDS");
+    CHECK(checks[0]["acceptable_from"].get<double>() == 1.0);
+    CHECK(checks[0]["acceptable_to"].get<double>() == 1.2);
+    CHECK_FALSE(checks[0]["within"].get<bool>());
+    bool noted = false;
+    for (const auto& n : fig["notes"]) noted = noted || n.get<std::string>().find("measured TDS / calculated TDS") != std::string::npos;
+    CHECK(noted);
+    // Without measured values: null, and no checks.
+    const auto j2 = nlohmann::json::parse(
+        io::json_report(core(), io::ReportContext{}, {io::ReportItem{"water", w.result, w.indices, std::nullopt, {}}}));
+    CHECK(j2["results"][0]["figures"]["tds_measured_mg_per_l"].is_null());
+    CHECK(j2["results"][0]["figures"]["specific_conductance_25c_measured_us_per_cm"].is_null());
+    CHECK(j2["results"][0]["figures"]["standard_methods_1030e_checks"].empty());
+}
+
+TEST_CASE("JSON never writes -0.0") {
+    // A zero with its sign bit set (as -x of a zero gives) is written as 0.
+    const auto ws = waters_of(analyses);
+    auto r = water(ws, "lab").result;
+    r.charge_balance_error_percent = -0.0;
+    r.temperature_c = 25.0;
+    r.alkalinity_eq = -0.0;
+    const std::string text = io::json_report(core(), io::ReportContext{}, std::vector<equilibrium::SpeciationResult>{r});
+    // No number of the form -0, -0.0, -0.00, ... (a negative like -0.0012 is a real value).
+    const std::regex negative_zero(R"(-0(\.0+)?([,\s\]}]|$))");
+    CHECK(std::regex_search(std::string("\"x\": -0.0,\n"), negative_zero));  // the pattern finds one
+    CHECK_FALSE(std::regex_search(std::string("\"x\": -0.0012,\n"), negative_zero));
+    CHECK_FALSE(std::regex_search(text, negative_zero));
+    const auto j = nlohmann::json::parse(text);
+    CHECK(j["results"][0]["charge_balance_error_percent"].get<double>() == 0.0);
+    CHECK_FALSE(std::signbit(j["results"][0]["charge_balance_error_percent"].get<double>()));
+    CHECK_FALSE(std::signbit(j["results"][0]["alkalinity_eq_per_kgw"].get<double>()));
+    // A cell at equal activities on both sides (a concentration cell with nothing to drive
+    // it): E = 0 and dG = -n F E, which is -0.0 in floating point.
+    electro::CellResult cell;
+    cell.n = 2.0;
+    cell.delta_g_kj_per_mol = -cell.n * 96.485 * cell.e_v;
+    REQUIRE(std::signbit(cell.delta_g_kj_per_mol));
+    const std::string cells = io::cells_json({cell});
+    CHECK_FALSE(std::regex_search(cells, negative_zero));
+    CHECK_FALSE(std::regex_search(io::json_report(core(), io::ReportContext{}, std::vector<io::ReportItem>{}, {}, {cell}),
+                                  negative_zero));
+    // nlohmann would write -0.0 for it without the cleaning (the reason for it).
+    CHECK(nlohmann::json(-0.0).dump() == "-0.0");
 }

@@ -320,19 +320,27 @@ TEST_CASE("a sweep's points without a value are null in JSON, n/a in text, and n
 TEST_CASE("text report: a value that rounds to zero prints unsigned; a dose target met prints as met") {
     // Before: fmt "{:+.2f}" printed -0.00 for a balance of -1e-4 %, and the dose line said
     // "reached -3.35243e-08" for an SI target of 0 met to 1e-6.
+    // Now: a mineral a hair below saturation (SI -1e-4, ΔG -6e-4 kJ/mol) in the outlook.
     SpeciationResult r = sample();
-    r.charge_balance_error_percent = -1e-4;
+    process::Outlook outlook;
+    process::MineralOutlook m;
+    m.mineral = "Calcite";
+    m.si = -1e-4;
+    m.delta_g_kj_per_mol = -6e-4;
+    m.tendency = process::Tendency::balanced;
+    m.amount_available = true;
+    outlook.minerals.push_back(m);
     process::DoseOutcome dose;
     dose.reagent = "NaOH";
     dose.mol_per_kgw = 1.2e-4;
     dose.mg_per_l = 4.8;
     dose.found_by_target = true;
     dose.target_reached = -3.35243e-08;
-    const io::ReportItem item{"dose", r, std::nullopt, dose, std::nullopt};
+    const io::ReportItem item{"dose", r, std::nullopt, dose, outlook, {}};
     const std::string t = flat(io::text_report(core(), context(), {item}));
     CHECK(t.find("-0.00") == std::string::npos);
     CHECK(t.find("\u22120.00") == std::string::npos);
-    CHECK(t.find("0.00 %: cations") != std::string::npos);
+    CHECK(t.find("Calcite balanced 0.00 0.00 none: at equilibrium") != std::string::npos);
     CHECK(t.find("found for the target (reached 0)") != std::string::npos);
     CHECK(t.find("3.35243") == std::string::npos);
 }

@@ -69,7 +69,8 @@ private:
     std::string hint_;
 };
 
-// A number for a message: 6 significant digits, no trailing zeros (7.85, 120, 0.0001).
+// A number for a message: 6 significant digits, no trailing zeros (7.85, 120, 0.0001,
+// 1.23457e+06); -0 prints as 0.
 std::string message_number(double v);
 
 // Names joined for a message: "a, b, c".

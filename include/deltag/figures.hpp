@@ -1,6 +1,8 @@
 // The figures of a lab sheet, from a speciated water: hardness, alkalinity (P and M), the
-// calculated dissolved solids, and the indices beside Langelier's (Larson-Skold, Puckorius,
-// the Aggressive Index). Each figure follows a published method, named beside it here and in
+// calculated dissolved solids and conductance (with the measured ones where the lab gave
+// them, and the Standard Methods 1030 E checks of the analysis), the ions in mg/L and meq/L
+// with the ion balance, and the indices beside Langelier's (Larson-Skold, Puckorius, the
+// Aggressive Index). Each figure follows a published method, named beside it here and in
 // src/process/figures.cpp. Plain arithmetic on a result: nothing here solves or throws for a
 // water; a figure without an answer carries the reason.
 #pragma once
@@ -12,6 +14,7 @@
 #include "deltag/database.hpp"
 #include "deltag/process.hpp"
 #include "deltag/speciation.hpp"
+#include "deltag/water.hpp"
 
 namespace deltag::process {
 
@@ -61,6 +64,43 @@ std::string aggressive_index_reading(double index);
 // (brackish water and brines, where the Stiff-Davis index of 1952 is used instead).
 inline constexpr double langelier_ionic_strength_limit = 0.5;
 
+// Standard Methods 1030 E (checking the correctness of an analysis), the acceptable ratios,
+// each inclusive at both ends. Written from memory of the method's text; the wording of
+// each criterion is in src/process/figures.cpp beside the check.
+inline constexpr double tds_measured_to_calculated_low = 1.0;   // measured TDS / calculated TDS
+inline constexpr double tds_measured_to_calculated_high = 1.2;
+inline constexpr double conductance_calculated_to_measured_low = 0.9;   // calculated EC / measured EC
+inline constexpr double conductance_calculated_to_measured_high = 1.1;
+inline constexpr double tds_to_conductance_low = 0.55;   // TDS (mg/L) / EC (uS/cm)
+inline constexpr double tds_to_conductance_high = 0.7;
+inline constexpr double ion_sum_to_conductance_low = 0.9;   // 100 x ion sum (meq/L) / EC (uS/cm)
+inline constexpr double ion_sum_to_conductance_high = 1.1;
+
+// One ion of the analysis (the ions table of a lab sheet).
+struct IonFigure {
+    std::string ion;         // the species name: "Ca^2+", "HCO3-"
+    int charge = 0;
+    double mg_per_l = 0.0;   // as the ion itself (NO3- as NO3, not as N)
+    double meq_per_l = 0.0;  // mmol/L x |charge|
+};
+
+// One Standard Methods 1030 E check of an analysis: a ratio and its acceptable range.
+struct AnalysisCheck {
+    std::string ratio_name;   // "measured TDS / calculated TDS", as the method writes the ratio
+    double ratio = 0.0;
+    double low = 0.0, high = 0.0;  // acceptable, inclusive
+    bool within = true;
+};
+
+// A measured value beside the calculated one.
+struct MeasuredBeside {
+    bool given = false;             // the case file gave the measured value
+    double measured = 0.0;
+    double calculated = 0.0;
+    bool ratio_available = false;   // false when the calculated value is zero
+    double ratio = 0.0;             // measured / calculated
+};
+
 // --- the figures of one water ------------------------------------------------------------
 
 struct WaterFigures {
@@ -93,6 +133,37 @@ struct WaterFigures {
     double conductance_charge_left_out_percent = 0.0;
     int conductance_ions_counted = 0;
 
+    // The measured values the lab gave (case keys measured_tds_mg_per_l and
+    // measured_conductance_25c_us_per_cm; only for a water as analysed, never for a step's
+    // result), each beside the calculated value above, with measured / calculated.
+    MeasuredBeside tds_measured;
+    MeasuredBeside conductance_measured;
+
+    // The ions table (Standard Methods 1030 E, anion-cation balance): every ion of the
+    // analysis, its total in mg/L and meq/L, cations then anions, each list in the database's
+    // order. An ion is its component's total counted at the component's charge (ion pairs
+    // not split: CaSO4(aq) counts in Ca^2+ and in SO4^2-); the carbonate species are split by
+    // the speciation into HCO3- (HCO3- and its pairs) and CO3^2- (CO3^2- and its pairs), whose
+    // equivalents sum to the carbonate alkalinity; free OH- is listed once it reaches 0.001
+    // meq/L (above about pH 9). H+, the uncharged components (SiO2, B(OH)3, ...) and
+    // dissolved gases are not listed. Per litre of solution, as 1030 E sums them.
+    std::vector<IonFigure> cations;
+    std::vector<IonFigure> anions;
+    double cations_meq_per_l = 0.0;   // the sum of the cations' meq/L
+    double anions_meq_per_l = 0.0;    // the sum of the anions' meq/L
+    // 100 (cations - anions) / (cations + anions) over the table's sums, and whether the
+    // balance meets the 1030 E acceptance (equilibrium::charge_balance_acceptable). The
+    // solver's own warning about the balance (SpeciationResult::warnings) stands for the water
+    // as analysed; this flag adds no note of its own.
+    double ion_balance_error_percent = 0.0;
+    bool ion_balance_acceptable = true;
+
+    // The Standard Methods 1030 E checks the measured values allow, in this order: measured
+    // TDS / calculated TDS; calculated EC / measured EC; measured TDS / EC; calculated TDS /
+    // EC; 100 x cation sum / EC; 100 x anion sum / EC (EC the measured conductance). A check is
+    // left out when a value it needs is missing or zero. Each outside its range adds a note.
+    std::vector<AnalysisCheck> checks;
+
     // Larson-Skold index; unavailable without carbonate alkalinity.
     bool larson_skold_available = false;
     double larson_skold = 0.0;
@@ -112,12 +183,14 @@ struct WaterFigures {
     std::string aggressive_index_reading;
     std::string aggressive_index_why_not;
 
-    // What a reader must know beside the figures (an index past its range, ...).
+    // The warnings beside the figures: an ionic strength past the Langelier family's range,
+    // a 1030 E check outside its range, ... Each a sentence naming its source.
     std::vector<std::string> notes;
 };
 
-// The figures of a speciated water. `indices` (optional) gives the pHs for Puckorius.
+// The figures of a speciated water. `indices` (optional) gives the pHs for Puckorius;
+// `measured` (optional) the lab's measured values, for a water as analysed.
 WaterFigures water_figures(const thermo::Database& db, const equilibrium::SpeciationResult& r,
-                           const Indices* indices = nullptr);
+                           const Indices* indices = nullptr, const LabMeasurements* measured = nullptr);
 
 }  // namespace deltag::process

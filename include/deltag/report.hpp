@@ -10,6 +10,7 @@
 #include "deltag/outlook.hpp"
 #include "deltag/process.hpp"
 #include "deltag/speciation.hpp"
+#include "deltag/water.hpp"
 
 namespace deltag::io {
 
@@ -34,6 +35,7 @@ struct ReportItem {
     // Mineral by mineral, what the water will do (process::mineral_outlook). Absent: the
     // report shows each mineral's tendency from its saturation index, without amounts.
     std::optional<process::Outlook> outlook;
+    LabMeasurements measured;                    // the lab's measured TDS and conductance (waters only)
 };
 
 struct SweepReport {

@@ -24,6 +24,14 @@ struct AnalyteValue {
     std::string key;    // dotted key for messages: water.NAME.analytes.X
 };
 
+// Values a lab measures on the whole sample, beside its analysis, for the Standard Methods
+// 1030 E checks of the analysis (process::water_figures compares them with the calculated
+// ones). Case keys in the water block: measured_tds_mg_per_l, measured_conductance_25c_us_per_cm.
+struct LabMeasurements {
+    std::optional<double> tds_mg_per_l;               // dissolved solids, mg/L (dried residue)
+    std::optional<double> conductance_25c_us_per_cm;  // specific conductance at 25 degC, uS/cm
+};
+
 struct WaterAnalysis {
     std::string name;
     double temperature_c = 25.0;
@@ -45,6 +53,7 @@ struct WaterAnalysis {
     // "zero" or the "limit" itself. See below_detection_rules().
     std::string below_detection = "half";
     SourceLocation below_detection_where;
+    LabMeasurements measured;                    // empty: none given
     SourceLocation where;                        // the [water.NAME] table
     SourceLocation charge_balance_where;
 };

@@ -57,6 +57,7 @@ ConvergenceError::ConvergenceError(std::string what_was_solved, double residual_
       hint_(std::move(hint)) {}
 
 std::string message_number(double v) {
+    if (v == 0.0) v = 0.0;  // -0 prints as 0
     std::ostringstream out;
     out.precision(6);
     out << v;

@@ -144,10 +144,13 @@ int cmd_run(const std::string& case_path, const std::string& format, const std::
     // The waters, then the steps, sweeps, cells and diagrams; every file is written only
     // after all of them succeeded, so a failure leaves no partial output.
     std::vector<io::ReportItem> items;
-    for (const auto& w : k.waters)
-        items.push_back(io::ReportItem{"water", w.result, w.indices, std::nullopt, process::mineral_outlook(db, w)});
+    // The lab's measured values go with the waters as analysed (k.waters follows c.waters).
+    for (std::size_t i = 0; i < k.waters.size(); ++i)
+        items.push_back(io::ReportItem{"water", k.waters[i].result, k.waters[i].indices, std::nullopt,
+                                       process::mineral_outlook(db, k.waters[i]), c.waters[i].measured});
     for (const auto& o : k.steps)
-        items.push_back(io::ReportItem{o.kind, o.state.result, o.state.indices, o.dose, process::mineral_outlook(db, o.state)});
+        items.push_back(
+            io::ReportItem{o.kind, o.state.result, o.state.indices, o.dose, process::mineral_outlook(db, o.state), {}});
     std::vector<io::SweepReport> sweeps;
     std::vector<io::OutputFile> files;
     const fs::path case_dir = fs::path(case_path).parent_path();

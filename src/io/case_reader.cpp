@@ -57,7 +57,8 @@ const std::vector<std::string> top_level_keys = {"title", "database", "activity_
 const std::vector<std::string> water_keys = {"temperature_c",  "pH",    "pe",
                                              "eh_mv",          "reference", "dissolved_oxygen_mg_per_l",
                                              "charge_balance", "units", "density_kg_per_l",
-                                             "below_detection", "analytes"};
+                                             "below_detection", "analytes", "measured_tds_mg_per_l",
+                                             "measured_conductance_25c_us_per_cm"};
 // Ways of giving a water's redox level; at most one of them.
 const std::vector<std::string> redox_keys = {"pe", "eh_mv", "dissolved_oxygen_mg_per_l"};
 const std::vector<std::string> analyte_keys = {"value", "unit", "as"};
@@ -213,6 +214,25 @@ void read_redox(tomlu::TableReader& r, WaterAnalysis& w) {
         w.dissolved_oxygen_mg_per_l ? key_where(r.table(), "dissolved_oxygen_mg_per_l", r.file()) : w.where;
 }
 
+// What the lab measured on the whole sample (for the Standard Methods 1030 E checks): each
+// above zero. The upper bounds only catch slips of unit: 1 000 000 mg/L would be a kilogram of
+// solids in a litre, and 1 000 000 uS/cm (1 S/cm) is beyond the strongest brines.
+void read_lab_measurements(tomlu::TableReader& r, WaterAnalysis& w) {
+    auto positive = [&](std::string_view key, double hi, const std::string& what, const std::string& unit) {
+        auto v = r.number(key);
+        if (v && !(*v > 0.0))
+            r.fail(key, "expected " + what + " above zero in " + unit + ", found " + message_number(*v) +
+                            "; leave the key out if it was not measured");
+        if (v && *v > hi)
+            r.fail(key, "expected " + what + " in " + unit + " of at most " + message_number(hi) + ", found " +
+                            message_number(*v) + "; is the unit right?");
+        return v;
+    };
+    w.measured.tds_mg_per_l = positive("measured_tds_mg_per_l", 1e6, "a measured dissolved solids", "mg/L");
+    w.measured.conductance_25c_us_per_cm =
+        positive("measured_conductance_25c_us_per_cm", 1e6, "a measured specific conductance at 25 °C", "µS/cm");
+}
+
 WaterAnalysis read_water(const std::string& name, const toml::node& node, const std::string& file) {
     WaterAnalysis w;
     w.name = name;
@@ -257,6 +277,8 @@ WaterAnalysis read_water(const std::string& name, const toml::node& node, const 
         w.below_detection = *rule;
         w.below_detection_where = r.location("below_detection");
     }
+
+    read_lab_measurements(r, w);
 
     if (const toml::table* analytes = r.table("analytes")) {
         for (const auto& e : in_file_order(*analytes, file))

@@ -32,6 +32,21 @@ ordered_json electron_count(double n) {
     return ordered_json(n);
 }
 
+// -0.0 (from negating or rounding a zero) is written as 0: JSON numbers are printed in full
+// (shortest round trip), so -0.0 is the only way a zero could show a sign.
+void unsigned_zeros(ordered_json& j) {
+    if (j.is_number_float()) {
+        if (j.get<double>() == 0.0) j = 0.0;
+    } else if (j.is_structured()) {
+        for (auto& el : j) unsigned_zeros(el);
+    }
+}
+
+std::string dumped(ordered_json& j) {
+    unsigned_zeros(j);
+    return j.dump(2) + "\n";
+}
+
 ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
     const equilibrium::SpeciationResult& r = item.result;
     ordered_json j;
@@ -144,7 +159,7 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
     }
     {
         // The figures of a lab sheet (src/process/figures.cpp names each method).
-        const auto f = process::water_figures(db, r, item.indices ? &*item.indices : nullptr);
+        const auto f = process::water_figures(db, r, item.indices ? &*item.indices : nullptr, &item.measured);
         auto index = [](bool ok, double v, const std::string& reading, const std::string& why, std::string_view what) {
             ordered_json o;
             o["value"] = ok ? ordered_json(finite(v, what)) : ordered_json(nullptr);
@@ -168,6 +183,40 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
         fig["specific_conductance_25c_us_per_cm"] = finite(f.specific_conductance_us_per_cm, "specific conductance");
         fig["conductance_charge_left_out_percent"] =
             finite(f.conductance_charge_left_out_percent, "conductance charge left out");
+        // A measured value beside the calculated one; null when the case gave none.
+        auto beside = [](const process::MeasuredBeside& b, std::string_view what) {
+            if (!b.given) return ordered_json(nullptr);
+            ordered_json o;
+            o["measured"] = finite(b.measured, what);
+            o["calculated"] = finite(b.calculated, what);
+            o["measured_to_calculated"] = b.ratio_available ? ordered_json(finite(b.ratio, what)) : ordered_json(nullptr);
+            return o;
+        };
+        fig["tds_measured_mg_per_l"] = beside(f.tds_measured, "measured dissolved solids");
+        fig["specific_conductance_25c_measured_us_per_cm"] = beside(f.conductance_measured, "measured conductance");
+        auto ions = [](const std::vector<process::IonFigure>& list) {
+            ordered_json arr = ordered_json::array();
+            for (const auto& i : list)
+                arr.push_back({{"ion", i.ion},
+                               {"charge", i.charge},
+                               {"mg_per_l", finite(i.mg_per_l, i.ion)},
+                               {"meq_per_l", finite(i.meq_per_l, i.ion)}});
+            return arr;
+        };
+        fig["ions"] = {{"cations", ions(f.cations)},
+                       {"anions", ions(f.anions)},
+                       {"cations_meq_per_l", finite(f.cations_meq_per_l, "cation sum")},
+                       {"anions_meq_per_l", finite(f.anions_meq_per_l, "anion sum")},
+                       {"balance_error_percent", finite(f.ion_balance_error_percent, "ion balance")},
+                       {"balance_within_standard_methods_1030e", f.ion_balance_acceptable}};
+        ordered_json checks = ordered_json::array();
+        for (const auto& c : f.checks)
+            checks.push_back({{"ratio", c.ratio_name},
+                              {"value", finite(c.ratio, c.ratio_name)},
+                              {"acceptable_from", c.low},
+                              {"acceptable_to", c.high},
+                              {"within", c.within}});
+        fig["standard_methods_1030e_checks"] = checks;
         fig["larson_skold"] = index(f.larson_skold_available, f.larson_skold, f.larson_skold_reading,
                                     f.larson_skold_why_not, "Larson-Skold index");
         fig["puckorius"] = index(f.puckorius_available, f.puckorius, f.puckorius_reading, f.puckorius_why_not,
@@ -240,7 +289,7 @@ std::string cells_json(const std::vector<electro::CellResult>& cells) {
     ordered_json root;
     root["cells"] = cells_array(cells);
     root["caution"] = std::string(electro_caution_text());
-    return root.dump(2) + "\n";
+    return dumped(root);
 }
 
 std::string json_report(const thermo::Database& db, const ReportContext& ctx, const std::vector<ReportItem>& items,
@@ -280,7 +329,7 @@ std::string json_report(const thermo::Database& db, const ReportContext& ctx, co
     }
     root["sweeps"] = sw;
     root["caution"] = std::string(caution_text());
-    return root.dump(2) + "\n";
+    return dumped(root);
 }
 
 std::string json_report(const thermo::Database& db, const ReportContext& ctx,

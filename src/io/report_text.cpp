@@ -181,18 +181,42 @@ std::string indices_block(const thermo::Database& db, const ReportItem& item, co
 
 // ---- 2. the water at a glance ------------------------------------------------------------
 
+// Cations and anions side by side, mg/L and meq/L, as a lab sheet lists them.
+std::string ions_table(const process::WaterFigures& f) {
+    if (f.cations.empty() && f.anions.empty()) return "";
+    std::string out = "    " + pad("ions", 20) + pad("cation", 10) + rpad("mg/L", 9) + rpad("meq/L", 9) + "   " +
+                      pad("anion", 10) + rpad("mg/L", 9) + rpad("meq/L", 9) + "\n";
+    auto cell = [](const std::vector<process::IonFigure>& v, std::size_t i) {
+        if (i >= v.size()) return std::string(28, ' ');
+        return pad(chem::pretty(v[i].ion), 10) + rpad(fmt::format("{:#.4g}", v[i].mg_per_l), 9) +
+               rpad(fmt::format("{:.3f}", v[i].meq_per_l), 9);
+    };
+    for (std::size_t i = 0; i < std::max(f.cations.size(), f.anions.size()); ++i) {
+        std::string line = "    " + std::string(20, ' ') + cell(f.cations, i) + "   " + cell(f.anions, i);
+        while (!line.empty() && line.back() == ' ') line.pop_back();
+        out += line + "\n";
+    }
+    return out;
+}
+
 std::string glance_block(const thermo::Database& db, const equilibrium::SpeciationResult& r,
                          const process::WaterFigures& f) {
     std::string out = heading("The water at a glance");
     out += field("pH, temperature", fmt::format("{:.2f} at {:.1f} °C", r.ph, r.temperature_c));
-    out += field("dissolved solids", fmt::format("{:.0f} mg/L, calculated from the analysis (SM 1030 E)",
-                                                 f.tds_calculated_mg_per_l));
-    out += field("conductance", fmt::format("{:.4g} µS/cm at 25 °C, calculated from the ions (SM 2510){}",
+    auto beside = [](const process::MeasuredBeside& m, std::string_view unit) -> std::string {
+        if (!m.given) return "";
+        return fmt::format("; measured {:.4g} {}", m.measured, unit) +
+               (m.ratio_available ? fmt::format(" (measured / calculated {:.2f})", m.ratio) : "");
+    };
+    out += field("dissolved solids", fmt::format("{:.0f} mg/L, calculated from the analysis (SM 1030 E){}",
+                                                 f.tds_calculated_mg_per_l, beside(f.tds_measured, "mg/L")));
+    out += field("conductance", fmt::format("{:.4g} µS/cm at 25 °C, calculated from the ions (SM 2510){}{}",
                                             f.specific_conductance_us_per_cm,
                                             f.conductance_charge_left_out_percent >= 0.05
                                                 ? fmt::format("; ion pairs holding {:.1f} % of the charge left out",
                                                               f.conductance_charge_left_out_percent)
-                                                : ""));
+                                                : "",
+                                            beside(f.conductance_measured, "µS/cm")));
     out += field("hardness", fmt::format("{:.1f} mg/L as CaCO3: calcium {:.1f}, magnesium {:.1f}; carbonate {:.1f}, "
                                          "non-carbonate {:.1f} (SM 2340 B)",
                                          f.hardness_total, f.hardness_calcium, f.hardness_magnesium,
@@ -202,10 +226,17 @@ std::string glance_block(const thermo::Database& db, const equilibrium::Speciati
                                            f.acidity_to_ph_8_3 > 0
                                                ? fmt::format("; acidity to pH 8.3 {:.1f}", f.acidity_to_ph_8_3)
                                                : ""));
-    const bool ok = equilibrium::charge_balance_acceptable(r.cations_meq, r.anions_meq);
-    out += field("ion balance", fmt::format("{:+.2f} %: cations {:#.4g}, anions {:#.4g} meq/kgw; {} (SM 1030 E)",
-                                            r.charge_balance_error_percent, r.cations_meq, r.anions_meq,
-                                            ok ? "acceptable" : "OUTSIDE the acceptance"));
+    out += ions_table(f);
+    out += field("ion balance", fmt::format("{:+.2f} %: cations {:#.4g}, anions {:#.4g} meq/L; {} (SM 1030 E)",
+                                            f.ion_balance_error_percent, f.cations_meq_per_l, f.anions_meq_per_l,
+                                            f.ion_balance_acceptable ? "acceptable" : "OUTSIDE the acceptance"));
+    if (!f.checks.empty()) {
+        out += "    " + pad("analysis checks", 20) + "SM 1030 E: the ratio, and its acceptable range\n";
+        for (const auto& c : f.checks)
+            out += "    " + std::string(20, ' ') + pad(c.ratio_name, 31) + rpad(fmt::format("{:.2f}", c.ratio), 6) +
+                   fmt::format("   {} {}-{}\n", c.within ? "within" : "OUTSIDE", text::fixed(c.low, 2),
+                               text::fixed(c.high, 2));
+    }
     if (r.charge_balance_adjustment) {
         const auto& a = *r.charge_balance_adjustment;
         const std::string unit = a.unit + (a.as.empty() ? "" : " as " + a.as);
@@ -400,7 +431,7 @@ double transfer_mg_per_l(const thermo::Database& db, const equilibrium::Speciati
 
 std::vector<ReportItem> items_of(const std::vector<equilibrium::SpeciationResult>& results) {
     std::vector<ReportItem> items;
-    for (const auto& r : results) items.push_back(ReportItem{"water", r, std::nullopt, std::nullopt, std::nullopt});
+    for (const auto& r : results) items.push_back(ReportItem{"water", r, std::nullopt, std::nullopt, std::nullopt, {}});
     return items;
 }
 
@@ -414,7 +445,7 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx, co
     std::size_t number = 0;
     for (const auto& item : items) {
         const auto& r = item.result;
-        const auto f = process::water_figures(db, r, item.indices ? &*item.indices : nullptr);
+        const auto f = process::water_figures(db, r, item.indices ? &*item.indices : nullptr, &item.measured);
         out += header(++number, item);
         out += step_block(db, item);
         out += verdict_block(db, item);

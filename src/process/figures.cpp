@@ -42,6 +42,25 @@
 //   the table and are left out; the share of the ionic charge they hold is reported.
 // Aggressive Index: AWWA C400 (asbestos-cement pipe): AI = pH + log10(A H), A total
 //   alkalinity and H calcium hardness, mg/L as CaCO3.
+// The ions table and the checks of an analysis: Standard Methods 1030 E, "Checking analyses'
+//   correctness" (written from memory of its text; the criteria below are quoted as
+//   remembered, not copied from the page):
+//   1. Anion-cation balance, the sums in meq/L: |cations - anions| <= 0.2 meq/L for an anion
+//      sum up to 3 meq/L, a difference of at most 2 % for 3 to 10, 5 % above.
+//      equilibrium::charge_balance_acceptable holds that rule; it is used, not repeated.
+//   2. Measured TDS = calculated TDS: 1.0 < measured TDS / calculated TDS < 1.2. A measured
+//      value below the calculated one makes the higher ion sum and the measured value
+//      suspect; one more than 20 % above it makes the lower ion sum suspect.
+//   3. Measured EC and ion sums: 100 x anion (or cation) sum, meq/L = (0.9 to 1.1) EC; a sum
+//      outside it is suspect.
+//   4. Calculated TDS to EC ratio: 0.55 to 0.7. Below 0.55 the lower ion sum is suspect, above
+//      0.7 the higher one; poorly dissociated calcium and sulfate can raise it to about 0.8.
+//   5. Measured TDS to EC ratio: 0.55 to 0.7; outside it the measured TDS or EC is suspect.
+//   6. Calculated EC to measured EC: 0.9 to 1.1 (the calculated EC by the ionic-conductivity
+//      method of 1030 E and 2510; here the calculation above). Above, the higher ion sum is
+//      suspect; below, the lower one.
+//   EC is the specific conductance at 25 degC in uS/cm, TDS in mg/L. The method states its
+//   ranges with "<" and "to"; here the ends count as within.
 #include "deltag/figures.hpp"
 
 #include <algorithm>
@@ -175,9 +194,110 @@ bool only_h_and_o(const chem::Formula& f) {
     return true;
 }
 
+constexpr double min_hydroxide_meq_per_l = 1e-3;
+
+double coefficient(const thermo::Species& sp, std::size_t component) {
+    for (const auto& [k, v] : sp.formation)
+        if (k == component) return v;
+    return 0.0;
+}
+
+// The ions table (see WaterFigures): cations and anions in mg/L and meq/L, and their sums.
+void ions_table(const thermo::Database& db, const equilibrium::SpeciationResult& r, std::optional<std::size_t> carbonate,
+                double per_l, WaterFigures& f) {
+    auto add = [&](const std::string& ion, int z, double mmol_per_l, double g_per_mol) {
+        if (!(mmol_per_l > 0.0)) return;
+        IonFigure row{ion, z, mmol_per_l * g_per_mol, mmol_per_l * std::abs(z)};
+        (z > 0 ? f.cations : f.anions).push_back(row);
+    };
+    for (std::size_t j = 0; j < db.species().size() && j < r.component_present.size(); ++j) {
+        const auto& sp = db.species()[j];
+        if (!sp.is_component || sp.role != thermo::ComponentRole::ordinary || !r.component_present[j]) continue;
+        if (sp.formula.charge == 0) continue;
+        if (carbonate && j == *carbonate) {
+            // Split by the speciation: per mole of carbonate, a species bringing 1 equivalent of
+            // alkalinity holds it as HCO3-, one bringing 2 as CO3^2-; CO2(aq) (0) is not an ion.
+            double hco3 = 0.0, co3 = 0.0;
+            for (const auto& s : r.species) {
+                const auto& ss = db.species()[s.species];
+                const double c = coefficient(ss, j);
+                if (!(c > 0.0)) continue;
+                const double per_carbonate = ss.alkalinity / c;
+                if (per_carbonate >= 1.5) co3 += c * s.molality;
+                else if (per_carbonate >= 0.5) hco3 += c * s.molality;
+            }
+            add("HCO3-", -1, hco3 * per_l, chem::parse_formula("HCO3").molar_mass());
+            add("CO3^2-", -2, co3 * per_l, chem::parse_formula("CO3").molar_mass());
+            continue;
+        }
+        add(sp.name, sp.formula.charge, r.component_totals[j] * per_l, sp.formula.molar_mass());
+    }
+    // Hydroxide, the third form of alkalinity (Standard Methods 2320), once it reaches the
+    // 0.001 meq/L a lab sheet shows (above about pH 9); free OH- only.
+    for (const auto& s : r.species)
+        if (s.name == "OH-" && s.molality * per_l >= min_hydroxide_meq_per_l)
+            add("OH-", -1, s.molality * per_l, chem::parse_formula("OH").molar_mass());
+    for (const auto& c : f.cations) f.cations_meq_per_l += c.meq_per_l;
+    for (const auto& a : f.anions) f.anions_meq_per_l += a.meq_per_l;
+    f.ion_balance_error_percent = equilibrium::charge_balance_error_percent(f.cations_meq_per_l, f.anions_meq_per_l);
+    f.ion_balance_acceptable = equilibrium::charge_balance_acceptable(f.cations_meq_per_l, f.anions_meq_per_l);
+}
+
+// A ratio of 1030 E against its range; outside it, a note saying what the method suspects.
+void check(WaterFigures& f, const std::string& name, double ratio, double low, double high, const std::string& if_low,
+           const std::string& if_high) {
+    AnalysisCheck c{name, ratio, low, high, ratio >= low && ratio <= high};
+    f.checks.push_back(c);
+    if (c.within) return;
+    f.notes.push_back(name + " is " + fmt_number(ratio) + ", outside " + fmt_number(low) + " to " + fmt_number(high) +
+                      " (Standard Methods 1030 E): " + (ratio < low ? if_low : if_high));
+}
+
+// The 1030 E checks the measured values allow (criteria and their wording: the head of this file).
+void analysis_checks(const LabMeasurements& m, WaterFigures& f) {
+    const bool tds = m.tds_mg_per_l && *m.tds_mg_per_l > 0.0;
+    const bool ec = m.conductance_25c_us_per_cm && *m.conductance_25c_us_per_cm > 0.0;
+    auto beside = [](double measured, double calculated) {
+        MeasuredBeside b;
+        b.given = true;
+        b.measured = measured;
+        b.calculated = calculated;
+        b.ratio_available = calculated > 0.0;
+        b.ratio = b.ratio_available ? measured / calculated : 0.0;
+        return b;
+    };
+    if (tds) f.tds_measured = beside(*m.tds_mg_per_l, f.tds_calculated_mg_per_l);
+    if (ec) f.conductance_measured = beside(*m.conductance_25c_us_per_cm, f.specific_conductance_us_per_cm);
+
+    if (tds && f.tds_measured.ratio_available)
+        check(f, "measured TDS / calculated TDS", f.tds_measured.ratio, tds_measured_to_calculated_low,
+              tds_measured_to_calculated_high, "the higher ion sum and the measured TDS are suspect",
+              "the lower ion sum is suspect: a constituent may be missing from the analysis");
+    if (!ec) return;
+    const double e = *m.conductance_25c_us_per_cm;
+    if (f.specific_conductance_us_per_cm > 0.0)
+        check(f, "calculated EC / measured EC", f.specific_conductance_us_per_cm / e,
+              conductance_calculated_to_measured_low, conductance_calculated_to_measured_high,
+              "the lower ion sum is suspect", "the higher ion sum is suspect");
+    if (tds)
+        check(f, "measured TDS / EC", *m.tds_mg_per_l / e, tds_to_conductance_low, tds_to_conductance_high,
+              "the measured TDS or EC is suspect", "the measured TDS or EC is suspect");
+    if (f.tds_calculated_mg_per_l > 0.0)
+        check(f, "calculated TDS / EC", f.tds_calculated_mg_per_l / e, tds_to_conductance_low, tds_to_conductance_high,
+              "the lower ion sum is suspect",
+              "the higher ion sum is suspect (poorly dissociated calcium and sulfate can raise it to about 0.8)");
+    if (f.cations_meq_per_l > 0.0)
+        check(f, "100 x cation sum / EC", 100.0 * f.cations_meq_per_l / e, ion_sum_to_conductance_low,
+              ion_sum_to_conductance_high, "the cation sum is suspect", "the cation sum is suspect");
+    if (f.anions_meq_per_l > 0.0)
+        check(f, "100 x anion sum / EC", 100.0 * f.anions_meq_per_l / e, ion_sum_to_conductance_low,
+              ion_sum_to_conductance_high, "the anion sum is suspect", "the anion sum is suspect");
+}
+
 }  // namespace
 
-WaterFigures water_figures(const thermo::Database& db, const equilibrium::SpeciationResult& r, const Indices* indices) {
+WaterFigures water_figures(const thermo::Database& db, const equilibrium::SpeciationResult& r, const Indices* indices,
+                           const LabMeasurements* measured) {
     WaterFigures f;
     const double per_l = 1000.0 * r.kg_water_per_litre;  // mol/kgw -> mmol/L
 
@@ -237,6 +357,10 @@ WaterFigures water_figures(const thermo::Database& db, const equilibrium::Specia
         f.specific_conductance_us_per_cm = std::max(kappa, 0.0) * 1000.0;  // S cm2/eq x eq/L -> uS/cm
         f.conductance_charge_left_out_percent = charge_all > 0 ? 100.0 * charge_left_out / charge_all : 0.0;
     }
+
+    // The ions and their balance, then the checks of the analysis (Standard Methods 1030 E).
+    ions_table(db, r, carbonate, per_l, f);
+    if (measured) analysis_checks(*measured, f);
 
     // Larson-Skold (1958).
     if (f.carbonate_alkalinity_meq_per_l > 0) {
