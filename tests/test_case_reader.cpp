@@ -960,6 +960,12 @@ TEST_CASE("errors: partial pressures") {
                     "pressure",
                     "CO2");
     }
+    SUBCASE("no formula before (g)") {
+        check_error(step_of("equilibrate", "partial_pressures = { \"(g)\" = { atm = 1 } }\n"),
+                    "step[1].partial_pressures.\"(g)\"", first, "expected the formula of a gas, such as CO2 or O2");
+        check_error(step_of("equilibrate", "partial_pressures = { \"\" = { atm = 1 } }\n"),
+                    "step[1].partial_pressures.\"\"", first, "expected the formula of a gas, such as CO2 or O2");
+    }
     SUBCASE("zero") {
         check_error(step_of("equilibrate", "partial_pressures = { O2 = { percent = 0 } }\n"),
                     "step[1].partial_pressures.O2.percent", first,

@@ -112,6 +112,30 @@ TEST_CASE("a finite amount of gypsum dissolves completely and the water stays un
     CHECK(said);
 }
 
+TEST_CASE("an undersaturated water and a solid that cannot dissolve: held back, and the warning says why") {
+    // 2 mmol/kgw of CaSO4 is well below gypsum's solubility (about 15 mmol/kg, see above).
+    SpeciationInput in;
+    in.label = "gypsum held back";
+    in.components = {total("Ca^2+", 2e-3), total("SO4^2-", 2e-3)};
+    auto warned = [](const SpeciationResult& r, const std::string& fragment) {
+        return std::any_of(r.warnings.begin(), r.warnings.end(),
+                           [&](const std::string& w) { return w.find(fragment) != std::string::npos; });
+    };
+    // May not dissolve at all.
+    in.minerals = {MineralTarget{mineral("Gypsum"), 0.0, std::nullopt, /*may_form=*/true, /*may_dissolve=*/false}};
+    const SpeciationResult kept = speciate(core(), in);
+    CHECK(transfer(kept, "Gypsum").blocked);
+    CHECK(transfer(kept, "Gypsum").moles == 0.0);
+    CHECK(si(kept, "Gypsum") < -0.5);
+    CHECK(warned(kept, "Gypsum: held back, it may not dissolve (may_dissolve = false)"));
+    // May dissolve, but none is on hand (and it may not form).
+    in.minerals = {MineralTarget{mineral("Gypsum"), 0.0, 0.0, /*may_form=*/false, /*may_dissolve=*/true}};
+    const SpeciationResult none = speciate(core(), in);
+    CHECK(transfer(none, "Gypsum").moles == 0.0);
+    CHECK(none.element_totals.at("Ca") == doctest::Approx(2e-3).epsilon(1e-12));
+    CHECK(warned(none, "Gypsum: held back, none of it on hand to dissolve"));
+}
+
 TEST_CASE("precipitation only: a supersaturated water loses calcite, an undersaturated one is left alone") {
     SpeciationInput in;
     in.ph = 8.3;
