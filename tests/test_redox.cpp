@@ -328,7 +328,7 @@ TEST_CASE("aeration brings iron given as Fe +2 and Fe +3 to the water's redox le
     // Siderite needs ferrous iron: undersaturated in fully aerated water.
     CHECK(si_of(r, "Siderite") < 0.0);
     // The step says what it did, and the iron is carried merged afterwards.
-    CHECK(warns(r, "brought to the step's redox level"));
+    CHECK(warns(r, "Fe given by redox state (Fe +2, Fe +3) brought to the step's redox level"));
     CHECK(steps.at(0).state.basis.redox_splits.empty());
     // The same water given as total iron ends the same way (that already worked).
     const auto total = run_case(aerated_well("Fe = 2.8\n"));
@@ -340,7 +340,7 @@ TEST_CASE("keep_redox_states_apart = true keeps the iron couple apart, and the r
     const std::string split_iron = "Fe = { \"+2\" = 2.5, \"+3\" = 0.3 }\n";
     const auto steps = run_case(aerated_well(split_iron, "keep_redox_states_apart = true\n"));
     const auto& r = steps.at(0).state.result;
-    CHECK(warns(r, "kept apart"));
+    CHECK(warns(r, "Fe given by redox state (Fe +2, Fe +3) kept apart by choice (keep_redox_states_apart = true)"));
     CHECK(!steps.at(0).state.basis.redox_splits.empty());
     // Apart, the couples disagree (the iron keeps its low potential).
     CHECK(couple_eh(r, "O2(aq)/H2O") - couple_eh(r, "Fe^3+/Fe^2+") > 0.2);
@@ -464,7 +464,7 @@ by = "mass"
         const auto& b = steps.at(1).state;
         const double wa = weight(w[0]), wc = weight(w[2]);
         CHECK(b.basis.redox_splits.empty());
-        CHECK(warns(b.result, "Fe given by redox state in one water and at the redox level of another"));
+        CHECK(warns(b.result, "Fe given by redox state (Fe +2, Fe +3) in one water and at the redox level of another"));
         const double expected = (wa * (*w[0].basis.electron_total + w[0].basis.redox_splits[0].electron_total) +
                                  wc * *w[2].basis.electron_total) / (wa + wc);
         CHECK(*b.basis.electron_total == doctest::Approx(expected).epsilon(1e-9).scale(0));

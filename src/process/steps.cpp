@@ -110,10 +110,22 @@ double split_electrons(const thermo::Database& db, const equilibrium::Speciation
     return e;
 }
 
+// "Fe given by redox state (Fe +2, Fe +3)": the elements of these components and the redox
+// states the database names for them, for the messages of the steps.
+std::string given_by_state(const thermo::Database& db, const std::vector<std::size_t>& components) {
+    std::vector<std::string> elements, states;
+    for (std::size_t comp : components) {
+        elements.push_back(element_of(db, comp));
+        for (const auto& an : db.analytes())
+            if (an.kind == thermo::Analyte::Kind::redox_state && an.component == comp) states.push_back(an.name);
+    }
+    return name_list(elements) + " given by redox state" + (states.empty() ? "" : " (" + name_list(states) + ")");
+}
+
 std::string split_elements(const thermo::Database& db, const equilibrium::SpeciationInput& in) {
-    std::vector<std::string> names;
-    for (const auto& sp : in.redox_splits) names.push_back(element_of(db, sp.component));
-    return name_list(names);
+    std::vector<std::size_t> components;
+    for (const auto& sp : in.redox_splits) components.push_back(sp.component);
+    return given_by_state(db, components);
 }
 
 // A step that brings the water to one redox level (equilibrate, an oxidant or reductant
@@ -125,7 +137,7 @@ std::string bring_to_one_redox_level(const thermo::Database& db, const Step& s, 
     if (in.redox_splits.empty()) return "";
     const std::string elements = split_elements(db, in);
     if (s.keep_redox_states_apart)
-        return elements + " given by redox state kept apart by choice (keep_redox_states_apart = true): its couple keeps "
+        return elements + " kept apart by choice (keep_redox_states_apart = true): its couple keeps "
                "an Eh of its own and does not follow the step's redox level";
     if (!in.pe) {
         double electrons = in.electron_total.value_or(0.0);  // no redox level: the components' states, 0
@@ -133,7 +145,7 @@ std::string bring_to_one_redox_level(const thermo::Database& db, const Step& s, 
         in.electron_total = electrons;
     }
     in.redox_splits.clear();
-    return elements + " given by redox state brought to the step's redox level: one electron balance for the whole "
+    return elements + " brought to the step's redox level: one electron balance for the whole "
            "water (keep_redox_states_apart = true keeps the states apart)";
 }
 
@@ -436,7 +448,7 @@ WaterState do_blend(const thermo::Database& db, const Step& s, const BlendStep& 
     // them apart; when one part holds it at the water's redox level, the states cannot stay
     // apart in the blend: they join the water's electrons, and the result says so.
     in.redox_splits.clear();
-    std::string merged;
+    std::vector<std::size_t> merged;
     std::vector<std::size_t> split_components;
     for (const auto* part : parts)
         for (const auto& sp : part->basis.redox_splits)
@@ -459,7 +471,7 @@ WaterState do_blend(const thermo::Database& db, const Step& s, const BlendStep& 
         } else {
             any_redox = true;
             electrons += split_e;
-            merged += (merged.empty() ? "" : ", ") + element_of(db, comp);
+            merged.push_back(comp);
         }
     }
     in.pe.reset();
@@ -468,7 +480,7 @@ WaterState do_blend(const thermo::Database& db, const Step& s, const BlendStep& 
     equilibrium::SpeciationResult r = solve(db, in, &parts.front()->result);
     WaterState out = finish(db, s.label, in, std::move(r));
     if (!merged.empty())
-        out.result.warnings.push_back(merged + " given by redox state in one water and at the redox level of another: "
+        out.result.warnings.push_back(given_by_state(db, merged) + " in one water and at the redox level of another: "
                                       "in the blend its states follow one electron balance");
     return out;
 }
