@@ -382,8 +382,21 @@ solids = ["CaCO3"]
 [[step]]
 water = "raw"
 kind = "equilibrate"
-partial_pressures = { CO2 = { ppmv = 420 }, CaCO3 = { atm = 1e-4 } }
-)toml"), doctest::Contains("no gas CaCO3 in the database 'core'"), InputError);
+partial_pressures = { CO2 = { ppmv = 420 }, NO2 = { atm = 1e-4 } }
+)toml"), doctest::Contains("no gas NO2 in the database 'core'"), InputError);
+    // A solid among the gases, and a gas among the solids, are sent where they belong.
+    CHECK_THROWS_WITH_AS(run(water + R"toml(
+[[step]]
+water = "raw"
+kind = "equilibrate"
+partial_pressures = { CaCO3 = { atm = 1e-4 } }
+)toml"), doctest::Contains("'partial_pressures.CaCO3': CaCO3 is a solid, not a gas: list Calcite in solids = [\"Calcite\"]"), InputError);
+    CHECK_THROWS_WITH_AS(run(water + R"toml(
+[[step]]
+water = "raw"
+kind = "equilibrate"
+solids = ["CO2"]
+)toml"), doctest::Contains("'CO2' is not a mineral of the database 'core'; CO2(g) is a gas: give its level in partial_pressures = { CO2 = { ppmv = ... } }"), InputError);
 }
 
 TEST_CASE("Langelier index agrees with the Standard Methods 2330 B hand calculation") {

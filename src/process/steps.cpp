@@ -58,7 +58,12 @@ std::size_t mineral_index(const thermo::Database& db, const std::string& name, c
     // A formula where a mineral is expected ("CaCO3") leads to the mineral of that formula.
     std::vector<std::pair<std::string, std::string>> phases;
     for (const auto& m : db.minerals()) phases.emplace_back(m.name, m.formula.text);
-    throw InputError(where, key, "'" + name + "' is not a mineral of the database '" + db.name() + "'",
+    // A gas among the solids ("CO2"): it goes in partial_pressures.
+    const std::string gas = name.ends_with("(g)") ? name : name + "(g)";
+    const std::string as_gas = db.find_gas(gas) ? "; " + gas + " is a gas: give its level in partial_pressures = { " +
+                                                      gas.substr(0, gas.size() - 3) + " = { ppmv = ... } }"
+                                                : std::string();
+    throw InputError(where, key, "'" + name + "' is not a mineral of the database '" + db.name() + "'" + as_gas,
                      nearest_phase(name, phases));
 }
 
@@ -78,6 +83,13 @@ std::size_t gas_index(const thermo::Database& db, const std::string& name, const
         formulas.push_back(written(g.name));
     }
     const std::string formula = written(name);
+    // A solid among the gases ("Calcite", "CaCO3"): it goes in solids.
+    std::string solid;
+    for (const auto& m : db.minerals())
+        if (solid.empty() && (m.name == formula || m.formula.text == formula)) solid = m.name;
+    if (!solid.empty())
+        throw InputError(where, key + "." + formula,
+                         formula + " is a solid, not a gas: list " + solid + " in solids = [\"" + solid + "\"]");
     const bool bare = std::all_of(formula.begin(), formula.end(), [](char c) {
         return std::isalnum(static_cast<unsigned char>(c)) || c == '_' || c == '-';
     });
