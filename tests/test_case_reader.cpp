@@ -80,8 +80,8 @@ constexpr std::string_view contract_step = R"toml(
 water = "makeup"
 kind = "equilibrate"
 label = "open to air, calcite present"
-minerals = { Calcite = 0.0 }
-gases = { "CO2(g)" = -3.4 }
+solids = ["Calcite"]
+partial_pressures = { CO2 = { ppmv = 420 } }
 )toml";
 
 }  // namespace
@@ -174,16 +174,92 @@ charge_balance = "pH"
 TEST_CASE("analytes keep the order of the file; dotted keys are quoted where needed") {
     const auto c = parse_case(R"toml([water.a.analytes]
 Zn = 0.1
-"Fe(II)" = 0.2
+"Mn 2" = 0.2
 Al = { value = 3 }
 )toml", "test.toml");
     const auto& an = c.waters[0].analytes;
     REQUIRE(an.size() == 3);
     CHECK(an[0].name == "Zn");
-    CHECK(an[1].name == "Fe(II)");
-    CHECK(an[1].key == "water.a.analytes.\"Fe(II)\"");
+    CHECK(an[1].name == "Mn 2");
+    CHECK(an[1].key == "water.a.analytes.\"Mn 2\"");
     CHECK(an[2].name == "Al");
     CHECK(an[2].value == 3.0);
+}
+
+TEST_CASE("redox states of an element given apart: one analyte per state, named \"Fe +2\"") {
+    const auto c = parse_case(R"toml([water.a]
+units = "mg/L"
+[water.a.analytes]
+Ca = 40
+Fe = { "+2" = 2.4, "+3" = "<0.05" }
+Mn = { "+2" = { value = 80, unit = "ug/L" }, "+4" = 0.01, unit = "mmol/L" }
+)toml", "test.toml");
+    const auto& an = c.waters[0].analytes;
+    REQUIRE(an.size() == 5);
+    CHECK(an[0].name == "Ca");
+    CHECK(an[0].element.empty());
+    CHECK(an[0].oxidation_state.empty());
+    CHECK(an[1].name == "Fe +2");
+    CHECK(an[1].element == "Fe");
+    CHECK(an[1].oxidation_state == "+2");
+    CHECK(an[1].value == 2.4);
+    CHECK(an[1].unit.empty());  // the water's unit
+    CHECK(an[1].key == "water.a.analytes.Fe.\"+2\"");
+    CHECK(an[1].where.line == 5);
+    CHECK(an[2].name == "Fe +3");
+    CHECK(an[2].below_detection);
+    CHECK(an[2].value == 0.05);
+    // The table's unit goes to the states that give none of their own.
+    CHECK(an[3].name == "Mn +2");
+    CHECK(an[3].unit == "ug/L");
+    CHECK(an[3].value == 80.0);
+    CHECK(an[4].name == "Mn +4");
+    CHECK(an[4].unit == "mmol/L");
+}
+
+TEST_CASE("errors: redox states given apart") {
+    // Lines 1-4 are the water; the analyte under test is on line 5.
+    const std::string water = "[water.a]\npH = 7\n[water.a.analytes]\nCa = 40\n";
+    SUBCASE("the valence in parentheses: the element's table is asked for") {
+        check_error(water + "\"Fe(2)\" = 2.4\n", "water.a.analytes.\"Fe(2)\"", 5,
+                    "redox states of an element are given in its own table, by signed oxidation state: Fe = { \"+2\" = "
+                    "..., \"+3\" = ... }",
+                    "Fe");
+        check_error(water + "\"Fe(III)\" = 0.3\n", "water.a.analytes.\"Fe(III)\"", 5,
+                    "redox states of an element are given in its own table", "Fe");
+    }
+    SUBCASE("a state written as the database names it") {
+        check_error(water + "\"Fe +2\" = 2.4\n", "water.a.analytes.\"Fe +2\"", 5,
+                    "redox states of an element are given in its own table", "Fe");
+    }
+    SUBCASE("a state without its sign, alongside a signed one") {
+        check_error(water + "Fe = { \"+2\" = 2.4, \"3\" = 0.3 }\n", "water.a.analytes.Fe.3", 5,
+                    "unknown key in the redox states of Fe; expected signed oxidation states, such as \"+2\" and \"+3\", "
+                    "and unit",
+                    "+3");
+    }
+    SUBCASE("states without their sign, in roman numerals") {
+        check_error(water + "Fe = { II = 2.4, III = 0.3 }\n", "water.a.analytes.Fe.II", 5,
+                    "a redox state is written as a signed oxidation state, as in Fe = { \"+2\" = ..., \"+3\" = ... }",
+                    "+2");
+    }
+    SUBCASE("a key of the analyte table among the states") {
+        check_error(water + "Fe = { \"+2\" = 2.4, value = 3 }\n", "water.a.analytes.Fe.value", 5,
+                    "unknown key in the redox states of Fe");
+    }
+    SUBCASE("a negative state") {
+        check_error(water + "Fe = { \"+2\" = -1, \"+3\" = 0.3 }\n", "water.a.analytes.Fe.\"+2\"", 5,
+                    "expected a concentration of zero or more, found -1");
+    }
+    SUBCASE("an unknown unit for the states, nearest suggested") {
+        check_error(water + "Fe = { \"+2\" = 2.4, \"+3\" = 0.3, unit = \"mg/l\" }\n", "water.a.analytes.Fe.unit", 5,
+                    "unknown concentration unit 'mg/l'", "mg/L");
+    }
+    SUBCASE("charge balance on an element given by state") {
+        check_error("[water.a]\npH = 7\ncharge_balance = \"Fe\"\n[water.a.analytes]\nCa = 40\nFe = { \"+2\" = 2.4, \"+3\" = 0.3 }\n",
+                    "water.a.charge_balance", 3,
+                    "charge balance on Fe, which is not among the analytes of this water (Ca)");
+    }
 }
 
 TEST_CASE("every activity model name is accepted") {
@@ -484,7 +560,6 @@ using deltag::process::DoseTarget;
 using deltag::process::EquilibrateStep;
 using deltag::process::Sweep;
 using deltag::process::TemperatureStep;
-using Direction = deltag::equilibrium::MineralTarget::Direction;
 
 // One invented water on lines 1-2; step_of() puts a [[step]] on line 3 and its kind on line 4,
 // so the first of `lines` is line 5.
@@ -543,15 +618,17 @@ TEST_CASE("the contract's [[step]] reads into an equilibrate step") {
     REQUIRE(e.minerals.size() == 1);
     CHECK(e.minerals[0].name == "Calcite");
     CHECK(e.minerals[0].target_si == 0.0);
-    CHECK_FALSE(e.minerals[0].amount_mol_per_kgw.has_value());
-    CHECK(e.minerals[0].direction == Direction::both);
+    CHECK_FALSE(e.minerals[0].on_hand_mol_per_kgw.has_value());
+    CHECK(e.minerals[0].may_form);
+    CHECK(e.minerals[0].may_dissolve);
     CHECK(e.minerals[0].where.line == 27);
-    CHECK(e.minerals[0].where.column == 14);  // the key Calcite
+    CHECK(e.minerals[0].where.column == 11);  // the name "Calcite" in the list
     REQUIRE(e.gases.size() == 1);
-    CHECK(e.gases[0].name == "CO2(g)");
-    CHECK(e.gases[0].log_partial_pressure_atm == -3.4);
+    CHECK(e.gases[0].name == "CO2(g)");  // the formula CO2 is the database's gas CO2(g)
+    // 420 ppmv at 1 atm total is 420e-6 atm (Dalton's law).
+    CHECK(e.gases[0].log_partial_pressure_atm == doctest::Approx(std::log10(420e-6)));
     CHECK(e.gases[0].where.line == 28);
-    CHECK(e.gases[0].where.column == 11);
+    CHECK(e.gases[0].where.column == 23);
     CHECK(c.sweeps.empty());
 }
 
@@ -569,8 +646,8 @@ pH = 8.1
 water = "makeup"
 label = "open to air"
 kind = "equilibrate"
-minerals = { Calcite = 0.0, Gypsum = { si = 0.5, amount_mmol_per_kgw = 2.0, only = "dissolve" } }
-gases = { "CO2(g)" = -3.4 }
+solids = { Calcite = {}, Gypsum = { hold_si = 0.5, on_hand_mmol_per_kgw = 2.0, may_form = false } }
+partial_pressures = { CO2 = { ppmv = 420 } }
 
 [[step]]
 kind = "dose"
@@ -624,11 +701,12 @@ svg = "cycles.svg"
     CHECK(e.minerals[0].name == "Calcite");  // file order, not key order
     CHECK(e.minerals[1].name == "Gypsum");
     CHECK(e.minerals[1].target_si == 0.5);
-    REQUIRE(e.minerals[1].amount_mol_per_kgw.has_value());
-    CHECK(*e.minerals[1].amount_mol_per_kgw == doctest::Approx(2.0e-3));  // mmol -> mol
-    CHECK(e.minerals[1].direction == Direction::dissolution);
+    REQUIRE(e.minerals[1].on_hand_mol_per_kgw.has_value());
+    CHECK(*e.minerals[1].on_hand_mol_per_kgw == doctest::Approx(2.0e-3));  // mmol -> mol
+    CHECK_FALSE(e.minerals[1].may_form);
+    CHECK(e.minerals[1].may_dissolve);
     CHECK(e.minerals[1].where.line == 14);
-    CHECK(e.minerals[1].where.column == 29);
+    CHECK(e.minerals[1].where.column == 26);
     CHECK(e.gases.at(0).where.line == 15);
 
     const auto& s2 = c.steps[1];
@@ -710,13 +788,13 @@ svg = "cycles.svg"
     CHECK(w.where.line == 45);
 }
 
-TEST_CASE("step defaults: both directions, unlimited solid, volume basis, no re-equilibration") {
+TEST_CASE("step defaults: free to form and dissolve, unlimited solid, volume basis, no re-equilibration") {
     const auto c = parse_case(one_water + R"toml([[step]]
 kind = "equilibrate"
-minerals = { Calcite = { } }
+solids = { Calcite = { } }
 [[step]]
 kind = "equilibrate"
-gases = { "O2(g)" = -0.68 }
+partial_pressures = { O2 = { log10_atm = -0.68 } }
 [[step]]
 kind = "temperature"
 temperature_c = 0
@@ -728,8 +806,9 @@ waters = { well = 1, "step 3 (temperature)" = 1 }
     CHECK(c.steps[0].water.empty());  // one water: the first step starts from it
     const auto& m = std::get<EquilibrateStep>(c.steps[0].action).minerals.at(0);
     CHECK(m.target_si == 0.0);
-    CHECK_FALSE(m.amount_mol_per_kgw.has_value());
-    CHECK(m.direction == Direction::both);
+    CHECK_FALSE(m.on_hand_mol_per_kgw.has_value());
+    CHECK(m.may_form);
+    CHECK(m.may_dissolve);
     CHECK(std::get<EquilibrateStep>(c.steps[0].action).gases.empty());
     CHECK(std::get<EquilibrateStep>(c.steps[1].action).minerals.empty());
     CHECK(std::get<EquilibrateStep>(c.steps[1].action).gases.at(0).log_partial_pressure_atm == -0.68);
@@ -746,7 +825,7 @@ waters = { well = 1, "step 3 (temperature)" = 1 }
 TEST_CASE("keep_redox_states_apart is read by equilibrate, dose and temperature with equilibrate") {
     const auto c = parse_case(one_water + R"toml([[step]]
 kind = "equilibrate"
-gases = { "O2(g)" = -0.68 }
+partial_pressures = { O2 = { percent = 21 } }
 keep_redox_states_apart = true
 [[step]]
 kind = "dose"
@@ -774,80 +853,180 @@ keep_redox_states_apart = true
                 first + 1, "'keep_redox_states_apart' does not belong to a step of kind 'concentrate'");
 }
 
-TEST_CASE("mineral tables: amount in mol, precipitate only, limits of the ranges") {
-    const auto c = parse_case(step_of("equilibrate", R"toml(minerals = { Barite = { amount_mol_per_kgw = 0.001 }, Gypsum = { si = -20, only = "precipitate" }, Halite = 20, Calcite = { amount_mmol_per_kgw = 0 } }
-gases = { "CO2(g)" = 2, "O2(g)" = -20 }
+TEST_CASE("solids: the list form, the table form, amounts in mol, one-way solids, limits of the ranges") {
+    const auto c = parse_case(step_of("equilibrate", R"toml(solids = { Barite = { on_hand_mol_per_kgw = 0.001 }, Gypsum = { hold_si = -20, may_dissolve = false }, Halite = { hold_si = 20 }, Calcite = { on_hand_mmol_per_kgw = 0, may_form = false } }
+partial_pressures = { CO2 = { log10_atm = 2 }, O2 = { log10_atm = -20 } }
+[[step]]
+kind = "equilibrate"
+solids = ["Calcite",
+          "Gypsum"]
 )toml"), "test.toml");
     const auto& e = std::get<EquilibrateStep>(c.steps.at(0).action);
     REQUIRE(e.minerals.size() == 4);
     CHECK(e.minerals[0].name == "Barite");
-    CHECK(*e.minerals[0].amount_mol_per_kgw == 0.001);
-    CHECK(e.minerals[0].direction == Direction::both);
+    CHECK(*e.minerals[0].on_hand_mol_per_kgw == 0.001);
+    CHECK(e.minerals[0].may_form);
+    CHECK(e.minerals[0].may_dissolve);
     CHECK(e.minerals[1].target_si == -20.0);
-    CHECK(e.minerals[1].direction == Direction::precipitation);
-    CHECK_FALSE(e.minerals[1].amount_mol_per_kgw.has_value());
+    CHECK(e.minerals[1].may_form);
+    CHECK_FALSE(e.minerals[1].may_dissolve);
+    CHECK_FALSE(e.minerals[1].on_hand_mol_per_kgw.has_value());
     CHECK(e.minerals[2].target_si == 20.0);
-    CHECK(*e.minerals[3].amount_mol_per_kgw == 0.0);
+    CHECK(*e.minerals[3].on_hand_mol_per_kgw == 0.0);
+    CHECK_FALSE(e.minerals[3].may_form);
     REQUIRE(e.gases.size() == 2);
+    CHECK(e.gases[0].name == "CO2(g)");
     CHECK(e.gases[0].log_partial_pressure_atm == 2.0);
+    CHECK(e.gases[1].name == "O2(g)");
     CHECK(e.gases[1].log_partial_pressure_atm == -20.0);
+    // The list form: each solid at saturation, free both ways, at its own line.
+    const auto& l = std::get<EquilibrateStep>(c.steps.at(1).action);
+    REQUIRE(l.minerals.size() == 2);
+    CHECK(l.minerals[0].name == "Calcite");
+    CHECK(l.minerals[1].name == "Gypsum");
+    CHECK(l.minerals[1].where.line == first + 5);
+    for (const auto& m : l.minerals) {
+        CHECK(m.target_si == 0.0);
+        CHECK_FALSE(m.on_hand_mol_per_kgw.has_value());
+        CHECK(m.may_form);
+        CHECK(m.may_dissolve);
+    }
 }
 
-TEST_CASE("gas levels in atm, bar, kPa, ppmv and %, at a total pressure of 1 atm") {
+TEST_CASE("partial pressures in atm, bar, kPa, ppmv, percent and log10 atm, at a total pressure of 1 atm") {
     // 1 atm = 101.325 kPa = 1.01325 bar exactly (the standard atmosphere, 10th CGPM 1954).
-    // By Dalton's law at 1 atm total, x ppmv is x*1e-6 atm and x % is x/100 atm. 420 ppmv of
-    // CO2 is about today's air (common practice); 20.95 % O2 is dry air (CRC Handbook,
-    // composition of dry air; from memory).
-    const auto c = parse_case(step_of("equilibrate", R"toml(gases = { "CO2(g)" = { value = 420, unit = "ppmv" }, "O2(g)" = { value = 20.95, unit = "%" }, "N2(g)" = { value = 1.01325, unit = "bar" }, "H2S(g)" = { value = 0.101325, unit = "kPa" }, "CH4(g)" = { value = 2, unit = "atm" } }
-headspace = { volume_l_per_kgw = 1, gases = { "CO2(g)" = { value = 5, unit = "%" } } }
+    // By Dalton's law at 1 atm total, x ppmv is x*1e-6 atm and x percent is x/100 atm. 420
+    // ppmv of CO2 is about today's air (common practice); 20.95 % O2 is dry air (CRC
+    // Handbook, composition of dry air; from memory).
+    const auto c = parse_case(step_of("equilibrate", R"toml(partial_pressures = { CO2 = { ppmv = 420 }, O2 = { percent = 20.95 }, N2 = { bar = 1.01325 }, H2S = { kPa = 0.101325 }, CH4 = { atm = 2 }, NH3 = { log10_atm = -7.5 } }
+headspace = { litres_per_kgw = 1, temperature_c = 20, partial_pressures = { CO2 = { percent = 5 } } }
 )toml"), "test.toml");
     const auto& e = std::get<EquilibrateStep>(c.steps.at(0).action);
-    REQUIRE(e.gases.size() == 5);
+    REQUIRE(e.gases.size() == 6);
     CHECK(e.gases[0].log_partial_pressure_atm == doctest::Approx(std::log10(420e-6)));  // -3.3768
     CHECK(e.gases[0].log_partial_pressure_atm == doctest::Approx(-3.37675).epsilon(1e-5));
     CHECK(e.gases[1].log_partial_pressure_atm == doctest::Approx(std::log10(0.2095)));
     CHECK(e.gases[2].log_partial_pressure_atm == doctest::Approx(0.0));   // 1.01325 bar = 1 atm
     CHECK(e.gases[3].log_partial_pressure_atm == doctest::Approx(-3.0));  // 0.101325 kPa = 1e-3 atm
     CHECK(e.gases[4].log_partial_pressure_atm == doctest::Approx(std::log10(2.0)));
+    CHECK(e.gases[5].log_partial_pressure_atm == -7.5);
+    const char* names[] = {"CO2(g)", "O2(g)", "N2(g)", "H2S(g)", "CH4(g)", "NH3(g)"};
+    for (std::size_t i = 0; i < 6; ++i) CHECK(e.gases[i].name == names[i]);
     REQUIRE(e.headspace.has_value());
+    CHECK(e.headspace->volume_l_per_kgw == 1.0);
+    REQUIRE(e.headspace->temperature_c.has_value());
+    CHECK(*e.headspace->temperature_c == 20.0);
+    CHECK(e.headspace->gases.at(0).name == "CO2(g)");
     CHECK(e.headspace->gases.at(0).log_partial_pressure_atm == doctest::Approx(std::log10(0.05)));
 }
 
-TEST_CASE("errors: gas levels with a unit") {
-    const std::string co2 = "step[1].gases.\"CO2(g)\"";
+TEST_CASE("errors: partial pressures") {
+    const std::string co2 = "step[1].partial_pressures.CO2";
     SUBCASE("an unknown unit, nearest suggested") {
-        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = { value = 420, unit = \"ppm\" } }\n"), co2 + ".unit",
-                    first,
-                    "unknown unit of a gas level 'ppm'; expected one of: atm, bar, kPa, ppmv, % (or a bare number: the "
-                    "log10 partial pressure in atm)",
-                    "ppmv");
+        check_error(step_of("equilibrate", "partial_pressures = { CO2 = { ppm = 420 } }\n"), co2 + ".ppm", first,
+                    "unknown key; expected one of: atm, bar, kPa, ppmv, percent, log10_atm", "ppmv");
     }
-    SUBCASE("an unknown key") {
-        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = { value = 420, units = \"ppmv\" } }\n"), co2 + ".units",
-                    first, "unknown key; expected one of: value, unit", "unit");
+    SUBCASE("a per cent sign is not a unit") {
+        check_error(step_of("equilibrate", "partial_pressures = { O2 = { \"%\" = 21 } }\n"),
+                    "step[1].partial_pressures.O2.\"%\"", first,
+                    "unknown key; expected one of: atm, bar, kPa, ppmv, percent, log10_atm");
+    }
+    SUBCASE("a bare number") {
+        check_error(step_of("equilibrate", "partial_pressures = { CO2 = -3 }\n"), co2, first,
+                    "expected a one-key table naming the unit, such as { ppmv = 420 } or { atm = 0.21 }; units: atm, "
+                    "bar, kPa, ppmv, percent, log10_atm; found an integer");
+    }
+    SUBCASE("a string") {
+        check_error(step_of("equilibrate", "partial_pressures = { CO2 = \"air\" }\n"), co2, first,
+                    "expected a one-key table naming the unit, such as { ppmv = 420 }");
     }
     SUBCASE("no unit") {
-        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = { value = 420 } }\n"), co2 + ".unit", first,
-                    "the unit of the gas level, one of: atm, bar, kPa, ppmv, %");
+        check_error(step_of("equilibrate", "partial_pressures = { CO2 = {} }\n"), co2, first,
+                    "expected a one-key table naming the unit, such as { ppmv = 420 } or { atm = 0.21 }; units: atm, "
+                    "bar, kPa, ppmv, percent, log10_atm; found an empty table");
+    }
+    SUBCASE("two units") {
+        check_error(step_of("equilibrate", "[step.partial_pressures.CO2]\nppmv = 420\natm = 4.2e-4\n"),
+                    co2 + ".atm", first + 2, "a gas level takes one unit, found both ppmv (line 6) and atm");
+    }
+    SUBCASE("a value that is not a number") {
+        check_error(step_of("equilibrate", "partial_pressures = { CO2 = { ppmv = \"420\" } }\n"), co2 + ".ppmv", first,
+                    "expected a number, found a string");
+    }
+    SUBCASE("a gas named with (g): the formula suggested") {
+        check_error(step_of("equilibrate", "partial_pressures = { \"CO2(g)\" = { ppmv = 420 } }\n"),
+                    "step[1].partial_pressures.\"CO2(g)\"", first,
+                    "a gas is named here by its formula, without \"(g)\": write CO2 for the gas held at this partial "
+                    "pressure",
+                    "CO2");
+    }
+    SUBCASE("no formula before (g)") {
+        check_error(step_of("equilibrate", "partial_pressures = { \"(g)\" = { atm = 1 } }\n"),
+                    "step[1].partial_pressures.\"(g)\"", first, "expected the formula of a gas, such as CO2 or O2");
+        check_error(step_of("equilibrate", "partial_pressures = { \"\" = { atm = 1 } }\n"),
+                    "step[1].partial_pressures.\"\"", first, "expected the formula of a gas, such as CO2 or O2");
     }
     SUBCASE("zero") {
-        check_error(step_of("equilibrate", "gases = { \"O2(g)\" = { value = 0, unit = \"%\" } }\n"),
-                    "step[1].gases.\"O2(g)\".value", first,
+        check_error(step_of("equilibrate", "partial_pressures = { O2 = { percent = 0 } }\n"),
+                    "step[1].partial_pressures.O2.percent", first,
                     "expected a gas level above zero, found 0 (a partial pressure of zero has no log10); leave a gas "
                     "that is absent out");
     }
     SUBCASE("more than the whole gas phase") {
-        check_error(step_of("equilibrate", "gases = { \"O2(g)\" = { value = 120, unit = \"%\" } }\n"),
-                    "step[1].gases.\"O2(g)\".value", first,
-                    "expected a share of the gas phase of at most 100 % (1e6 ppmv), found 120 %");
+        check_error(step_of("equilibrate", "partial_pressures = { O2 = { percent = 120 } }\n"),
+                    "step[1].partial_pressures.O2.percent", first,
+                    "expected a share of the gas phase of at most 100 percent (1e6 ppmv), found 120 percent");
     }
     SUBCASE("beyond the range of a log10 partial pressure") {
-        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = { value = 200, unit = \"bar\" } }\n"), co2 + ".value",
-                    first, "expected a partial pressure from 1e-20 to 100 atm (log10 from -20 to 2), found 200 bar = 197.385 atm");
+        check_error(step_of("equilibrate", "partial_pressures = { CO2 = { bar = 200 } }\n"), co2 + ".bar", first,
+                    "expected a partial pressure from 1e-20 to 100 atm (log10 from -20 to 2), found 200 bar = 197.385 atm");
     }
-    SUBCASE("in a headspace") {
-        check_error(step_of("equilibrate", "headspace = { volume_l_per_kgw = 1, gases = { \"CO2(g)\" = { value = 5, unit = \"vol%\" } } }\n"),
-                    "step[1].headspace.gases.\"CO2(g)\".unit", first, "unknown unit of a gas level 'vol%'");
+    SUBCASE("log10 atm out of range") {
+        check_error(step_of("equilibrate", "partial_pressures = { CO2 = { log10_atm = 3 } }\n"), co2 + ".log10_atm",
+                    first, "expected a log10 partial pressure from -20 to 2 (log10 atm), found 3");
+    }
+    SUBCASE("partial_pressures not a table") {
+        check_error(step_of("equilibrate", "partial_pressures = [\"CO2\"]\n"), "step[1].partial_pressures", first,
+                    "expected a table, found an array");
+    }
+    SUBCASE("in a headspace: the formula suggested") {
+        check_error(step_of("equilibrate",
+                            "headspace = { litres_per_kgw = 1, partial_pressures = { \"CO2(g)\" = { ppmv = 420 } } }\n"),
+                    "step[1].headspace.partial_pressures.\"CO2(g)\"", first,
+                    "write CO2 for the gas that starts at this partial pressure", "CO2");
+    }
+    SUBCASE("in a headspace: an unknown unit") {
+        check_error(step_of("equilibrate",
+                            "headspace = { litres_per_kgw = 1, partial_pressures = { CO2 = { vol = 5 } } }\n"),
+                    "step[1].headspace.partial_pressures.CO2.vol", first,
+                    "unknown key; expected one of: atm, bar, kPa, ppmv, percent, log10_atm");
+    }
+}
+
+TEST_CASE("errors: headspace") {
+    SUBCASE("no volume") {
+        check_error(step_of("equilibrate", "headspace = { partial_pressures = { CO2 = { ppmv = 420 } } }\n"),
+                    "step[1].headspace.litres_per_kgw", first, "missing: expected the gas volume in litres per kg of water");
+    }
+    SUBCASE("a volume of zero") {
+        check_error(step_of("equilibrate", "headspace = { litres_per_kgw = 0, partial_pressures = { CO2 = { ppmv = 420 } } }\n"),
+                    "step[1].headspace.litres_per_kgw", first, "expected litres of gas per kg of water from 1e-09 to 1e+06");
+    }
+    SUBCASE("no partial pressures") {
+        check_error(step_of("equilibrate", "headspace = { litres_per_kgw = 0.5 }\n"),
+                    "step[1].headspace.partial_pressures", first,
+                    "missing: expected the starting partial pressures of the gas space, such as partial_pressures = "
+                    "{ CO2 = { ppmv = 420 } }");
+    }
+    SUBCASE("the old names of its keys are unknown keys") {
+        check_error(step_of("equilibrate", "headspace = { volume_l_per_kgw = 0.5, gases = { CO2 = { ppmv = 420 } } }\n"),
+                    "step[1].headspace.volume_l_per_kgw", first,
+                    "unknown key; expected one of: litres_per_kgw, temperature_c, partial_pressures");
+    }
+    SUBCASE("a temperature out of range") {
+        check_error(step_of("equilibrate",
+                            "headspace = { litres_per_kgw = 0.5, temperature_c = 120, partial_pressures = { CO2 = { ppmv = 420 } } }\n"),
+                    "step[1].headspace.temperature_c", first, "expected a temperature in degC from 0 to 100");
     }
 }
 
@@ -1014,15 +1193,22 @@ TEST_CASE("errors: kind, keys, label and water of a step") {
                     "waters");
     }
     SUBCASE("the first stray key in the file is named, in the second step") {
-        check_error(step_of("temperature", "temperature_c = 30\n") + "[[step]]\nkind = \"equilibrate\"\nminerls = { Calcite = 0 }\nfactor = 2\n",
-                    "step[2].minerls", first + 3,
+        check_error(step_of("temperature", "temperature_c = 30\n") + "[[step]]\nkind = \"equilibrate\"\nsolid = [\"Calcite\"]\nfactor = 2\n",
+                    "step[2].solid", first + 3,
                     "unknown key for a step of kind 'equilibrate'; a step of kind 'equilibrate' takes: kind, label, "
-                    "water, minerals, gases",
-                    "minerals");
+                    "water, solids, partial_pressures, headspace, keep_redox_states_apart",
+                    "solids");
     }
     SUBCASE("a key in a sub-table of the step") {
-        check_error(step_of("temperature", "temperature_c = 30\n[step.gases]\n\"CO2(g)\" = -3.4\n"), "step[1].gases",
-                    first + 1, "'gases' does not belong to a step of kind 'temperature' (it is a key of 'equilibrate' steps)");
+        check_error(step_of("temperature", "temperature_c = 30\n[step.partial_pressures]\nCO2 = { ppmv = 420 }\n"),
+                    "step[1].partial_pressures", first + 1,
+                    "'partial_pressures' does not belong to a step of kind 'temperature' (it is a key of 'equilibrate' steps)");
+    }
+    SUBCASE("the old names of the equilibrate keys are unknown keys") {
+        check_error(step_of("equilibrate", "minerals = { Calcite = 0.0 }\n"), "step[1].minerals", first,
+                    "unknown key for a step of kind 'equilibrate'");
+        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = -3 }\n"), "step[1].gases", first,
+                    "unknown key for a step of kind 'equilibrate'");
     }
     SUBCASE("an empty label") {
         check_error(step_of("temperature", "temperature_c = 30\nlabel = \"\"\n"), "step[1].label", first + 1,
@@ -1076,74 +1262,85 @@ TEST_CASE("errors: kind, keys, label and water of a step") {
 }
 
 TEST_CASE("errors: equilibrate") {
-    SUBCASE("neither minerals nor gases") {
+    SUBCASE("neither solids nor partial pressures") {
         check_error(step_of("equilibrate", "label = \"x\"\n"), "step[1]", 3,
-                    "a step of kind 'equilibrate' needs minerals = { NAME = target SI, ... } or gases = { \"NAME(g)\" "
-                    "= log10 partial pressure in atm, ... }, with at least one entry");
+                    "a step of kind 'equilibrate' needs solids = [\"NAME\", ...] or partial_pressures = { GAS = { UNIT "
+                    "= ... }, ... }, with at least one entry");
     }
-    SUBCASE("empty minerals and gases") {
-        check_error(step_of("equilibrate", "minerals = {}\ngases = {}\n"), "step[1]", 3,
-                    "needs minerals = { NAME = target SI, ... } or gases");
+    SUBCASE("empty solids and partial pressures") {
+        check_error(step_of("equilibrate", "solids = []\npartial_pressures = {}\n"), "step[1]", 3,
+                    "needs solids = [\"NAME\", ...] or partial_pressures");
+        check_error(step_of("equilibrate", "solids = {}\n"), "step[1]", 3, "needs solids = [\"NAME\", ...]");
     }
-    SUBCASE("minerals not a table") {
-        check_error(step_of("equilibrate", "minerals = [\"Calcite\"]\n"), "step[1].minerals", first,
-                    "expected a table, found an array");
+    SUBCASE("solids neither a list nor a table") {
+        check_error(step_of("equilibrate", "solids = \"Calcite\"\n"), "step[1].solids", first,
+                    "expected a list of names, solids = [\"Calcite\", ...], or a table solids = { Calcite = { hold_si = "
+                    "..., ... } }; found a string");
     }
-    SUBCASE("target SI out of range") {
-        check_error(step_of("equilibrate", "minerals = { Calcite = 0, Gypsum = 25 }\n"), "step[1].minerals.Gypsum",
-                    first, "expected a target saturation index from -20 to 20, found 25");
+    SUBCASE("a list entry that is not a string, at its own line") {
+        check_error(step_of("equilibrate", "solids = [\"Calcite\",\n  { Gypsum = 0 }]\n"), "step[1].solids", first + 1,
+                    "expected names of solids (strings), found a table in the list");
     }
-    SUBCASE("target SI not finite") {
-        check_error(step_of("equilibrate", "minerals = { Calcite = nan }\n"), "step[1].minerals.Calcite", first,
-                    "expected a finite number");
+    SUBCASE("an empty name in the list") {
+        check_error(step_of("equilibrate", "solids = [\"\"]\n"), "step[1].solids", first,
+                    "expected the name of a solid, found an empty string");
     }
-    SUBCASE("a mineral given as a string") {
-        check_error(step_of("equilibrate", "\nminerals = { Calcite = \"yes\" }\n"), "step[1].minerals.Calcite",
-                    first + 1,
-                    "expected a target saturation index (a number) or a table { si = ..., amount_mmol_per_kgw = ..., "
-                    "only = \"dissolve\" or \"precipitate\" }, found a string");
+    SUBCASE("a solid listed twice") {
+        check_error(step_of("equilibrate", "solids = [\"Calcite\",\n\"Calcite\"]\n"), "step[1].solids", first + 1,
+                    "the solid 'Calcite' is listed twice (line 5)");
     }
-    SUBCASE("si out of range in a mineral table") {
-        check_error(step_of("equilibrate", "minerals = { Calcite = { si = -30 } }\n"), "step[1].minerals.Calcite.si",
-                    first, "expected a target saturation index from -20 to 20, found -30");
+    SUBCASE("a bare number in the table form") {
+        check_error(step_of("equilibrate", "solids = { Calcite = 0.3 }\n"), "step[1].solids.Calcite", first,
+                    "expected a table { hold_si = ..., on_hand_mmol_per_kgw = ..., may_form = ..., may_dissolve = ... "
+                    "}, found a number; a solid held at saturation with no other condition is listed "
+                    "by name: solids = [\"Calcite\"]");
     }
-    SUBCASE("both amounts") {
+    SUBCASE("hold_si out of range") {
+        check_error(step_of("equilibrate", "solids = { Calcite = { hold_si = -30 } }\n"), "step[1].solids.Calcite.hold_si",
+                    first, "expected a saturation index to hold from -20 to 20, found -30");
+    }
+    SUBCASE("hold_si not finite") {
+        check_error(step_of("equilibrate", "solids = { Calcite = { hold_si = nan } }\n"),
+                    "step[1].solids.Calcite.hold_si", first, "expected a finite number");
+    }
+    SUBCASE("both amounts on hand") {
         check_error(step_of("equilibrate",
-                            "[step.minerals.Gypsum]\namount_mol_per_kgw = 0.001\namount_mmol_per_kgw = 1\n"),
-                    "step[1].minerals.Gypsum.amount_mmol_per_kgw", first + 2,
-                    "give the amount of solid once, as amount_mol_per_kgw or amount_mmol_per_kgw, not both");
+                            "[step.solids.Gypsum]\non_hand_mol_per_kgw = 0.001\non_hand_mmol_per_kgw = 1\n"),
+                    "step[1].solids.Gypsum.on_hand_mmol_per_kgw", first + 2,
+                    "give the solid on hand once, as on_hand_mol_per_kgw or on_hand_mmol_per_kgw; found both "
+                    "on_hand_mol_per_kgw (line 6) and on_hand_mmol_per_kgw");
     }
-    SUBCASE("a negative amount") {
-        check_error(step_of("equilibrate", "minerals = { Gypsum = { amount_mmol_per_kgw = -1 } }\n"),
-                    "step[1].minerals.Gypsum.amount_mmol_per_kgw", first,
-                    "expected an amount of solid of zero or more, found -1");
+    SUBCASE("a negative amount on hand") {
+        check_error(step_of("equilibrate", "solids = { Gypsum = { on_hand_mmol_per_kgw = -1 } }\n"),
+                    "step[1].solids.Gypsum.on_hand_mmol_per_kgw", first,
+                    "expected an amount of solid on hand of zero or more, found -1");
     }
-    SUBCASE("unknown direction, nearest name suggested") {
-        check_error(step_of("equilibrate", "minerals = { Gypsum = { only = \"disolve\" } }\n"),
-                    "step[1].minerals.Gypsum.only", first,
-                    "expected \"dissolve\" or \"precipitate\" (leave 'only' out to allow both), found \"disolve\"",
-                    "dissolve");
+    SUBCASE("may_form not a boolean") {
+        check_error(step_of("equilibrate", "solids = { Gypsum = { may_form = \"no\" } }\n"),
+                    "step[1].solids.Gypsum.may_form", first, "expected true or false, found a string");
     }
-    SUBCASE("an amount with precipitate only") {
-        check_error(step_of("equilibrate", "minerals = { Gypsum = { only = \"precipitate\", amount_mol_per_kgw = 1 } }\n"),
-                    "step[1].minerals.Gypsum.only", first,
-                    "an amount of solid limits how much can dissolve; a mineral that may only precipitate takes none: "
-                    "remove amount_mol_per_kgw or 'only'");
+    SUBCASE("a solid that may neither form nor dissolve") {
+        check_error(step_of("equilibrate", "solids = { Gypsum = { may_form = false, may_dissolve = false } }\n"),
+                    "step[1].solids.Gypsum.may_dissolve", first,
+                    "a solid that may neither form nor dissolve takes no part in the step: set may_form or may_dissolve "
+                    "to true, or leave Gypsum out");
     }
-    SUBCASE("unknown key in a mineral table, nearest name suggested") {
-        check_error(step_of("equilibrate", "minerals = { Gypsum = { amount_mmol_per_kg = 1 } }\n"),
-                    "step[1].minerals.Gypsum.amount_mmol_per_kg", first,
-                    "unknown key; expected one of: si, amount_mol_per_kgw, amount_mmol_per_kgw, only",
-                    "amount_mmol_per_kgw");
+    SUBCASE("an amount on hand of a solid that may not dissolve") {
+        check_error(step_of("equilibrate", "solids = { Gypsum = { may_dissolve = false, on_hand_mol_per_kgw = 1 } }\n"),
+                    "step[1].solids.Gypsum.on_hand_mol_per_kgw", first,
+                    "the solid on hand limits how much can dissolve, and Gypsum may not dissolve (may_dissolve = "
+                    "false): remove on_hand_mol_per_kgw or may_dissolve");
     }
-    SUBCASE("a gas given as a string") {
-        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = \"air\" }\n"), "step[1].gases.\"CO2(g)\"", first,
-                    "expected the log10 partial pressure of the gas in atm (a number), or { value = ..., unit = ... } "
-                    "with unit one of: atm, bar, kPa, ppmv, %; found a string");
+    SUBCASE("unknown key in a solid's table, nearest name suggested") {
+        check_error(step_of("equilibrate", "solids = { Gypsum = { on_hand_mmol_per_kg = 1 } }\n"),
+                    "step[1].solids.Gypsum.on_hand_mmol_per_kg", first,
+                    "unknown key; expected one of: hold_si, on_hand_mmol_per_kgw, on_hand_mol_per_kgw, may_form, "
+                    "may_dissolve",
+                    "on_hand_mmol_per_kgw");
     }
-    SUBCASE("a gas above 100 atm") {
-        check_error(step_of("equilibrate", "gases = { \"CO2(g)\" = 3 }\n"), "step[1].gases.\"CO2(g)\"", first,
-                    "expected a log10 partial pressure in atm from -20 to 2, found 3");
+    SUBCASE("the old keys of a solid are unknown keys") {
+        check_error(step_of("equilibrate", "solids = { Gypsum = { si = 0.0 } }\n"), "step[1].solids.Gypsum.si", first,
+                    "unknown key; expected one of: hold_si");
     }
 }
 
@@ -1356,7 +1553,7 @@ TEST_CASE("errors: temperature") {
                     "keeps redox states given apart as they are");
     }
     SUBCASE("keep_redox_states_apart not a boolean") {
-        check_error(step_of("equilibrate", "gases = { \"O2(g)\" = -0.68 }\nkeep_redox_states_apart = \"yes\"\n"),
+        check_error(step_of("equilibrate", "partial_pressures = { O2 = { percent = 21 } }\nkeep_redox_states_apart = \"yes\"\n"),
                     "step[1].keep_redox_states_apart", first + 1, "expected true or false, found a string");
     }
 }

@@ -264,7 +264,7 @@ TEST_CASE("steps: an over-constrained equilibrate exits 2 and names the conflict
     const fs::path p = write("overc.toml", good_case + R"toml(
 [[step]]
 kind = "equilibrate"
-minerals = { Calcite = 0.0, Aragonite = 0.0 }
+solids = ["Calcite", "Aragonite"]
 )toml");
     const Run r = deltag("run '" + p.string() + "'");
     CHECK(r.code == 2);
@@ -558,12 +558,11 @@ Ca = 60
 Na = 20
 Cl = 30
 Alkalinity = { value = 180, as = "CaCO3" }
-"Fe(2)" = 2.0
-"Fe(3)" = 0.2
+Fe = { "+2" = 2.0, "+3" = 0.2 }
 [[step]]
 label = "aerated, iron kept apart"
 kind = "equilibrate"
-gases = { "O2(g)" = -0.68 }
+partial_pressures = { O2 = { percent = 21 } }
 keep_redox_states_apart = true
 )toml").string() + "' --format json");
     REQUIRE(r.code == 0);

@@ -1684,8 +1684,14 @@ ion_size_angstrom = 3.5
 
 TEST_CASE("loader: redox-state analytes need their electrons, others may not have them") {
     const std::string base = fixture_sources + fixture_h2o + fixture_proton + fixture_ions + fixture_species;
-    const std::string missing = base + "\n[analytes.\"Ca(2)\"]\ncomponent = \"Ca^2+\"\nkind = \"redox_state\"\n";
-    check_error(load_error(missing), missing, "[analytes.\"Ca(2)\"]", "analytes.\"Ca(2)\".electrons", "missing");
+    const std::string missing = base + "\n[analytes.\"Ca +2\"]\ncomponent = \"Ca^2+\"\nkind = \"redox_state\"\nmass_formula = \"Ca\"\n";
+    check_error(load_error(missing), missing, "[analytes.\"Ca +2\"]", "analytes.\"Ca +2\".electrons", "missing");
+    // A redox state is named by its element and signed oxidation state, not a valence in
+    // parentheses (a case file gives it as Ca = { "+2" = ... }).
+    const std::string named = base + "\n[analytes.\"Ca(2)\"]\ncomponent = \"Ca^2+\"\nkind = \"redox_state\"\nelectrons = 0\n";
+    check_error(load_error(named), named, "[analytes.\"Ca(2)\"]", "analytes.\"Ca(2)\"",
+                "an analyte of kind \"redox_state\" is named by its element and its signed oxidation state, such as "
+                "\"Fe +3\"; found \"Ca(2)\"");
     const std::string stray = base + "\n[analytes.Ca]\ncomponent = \"Ca^2+\"\nelectrons = 0\n";
     check_error(load_error(stray), stray, "electrons = 0", "analytes.Ca.electrons", "belongs to an analyte of kind");
     // The species alkalinity given for a redox species overrides the derived one.

@@ -2,6 +2,7 @@
 // minerals, the phase rule. Checked against published worked examples and handbook data.
 #include <doctest/doctest.h>
 
+#include <algorithm>
 #include <cmath>
 #include <string>
 
@@ -48,7 +49,7 @@ SpeciationResult calcite_open(double t_c) {
     SpeciationInput in;
     in.label = "calcite-co2";
     in.temperature_c = t_c;
-    in.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt, MineralTarget::Direction::both}};
+    in.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt}};
     in.gases = {GasTarget{gas("CO2(g)"), -3.5}};
     return speciate(core(), in);
 }
@@ -87,7 +88,7 @@ TEST_CASE("gypsum dissolved to saturation in pure water at 25 degC") {
     // from memory). Truesdell-Jones activities; 10 % tolerance covers the activity model.
     SpeciationInput in;
     in.activity_model = activity::ModelKind::truesdell_jones;
-    in.minerals = {MineralTarget{mineral("Gypsum"), 0.0, std::nullopt, MineralTarget::Direction::both}};
+    in.minerals = {MineralTarget{mineral("Gypsum"), 0.0, std::nullopt}};
     const SpeciationResult r = speciate(core(), in);
     const double ca = r.element_totals.at("Ca");
     CAPTURE(ca);
@@ -98,7 +99,7 @@ TEST_CASE("gypsum dissolved to saturation in pure water at 25 degC") {
 TEST_CASE("a finite amount of gypsum dissolves completely and the water stays undersaturated") {
     SpeciationInput in;
     in.label = "small-gypsum";
-    in.minerals = {MineralTarget{mineral("Gypsum"), 0.0, 2e-3, MineralTarget::Direction::both}};
+    in.minerals = {MineralTarget{mineral("Gypsum"), 0.0, 2e-3}};
     const SpeciationResult r = speciate(core(), in);
     const PhaseTransfer& t = transfer(r, "Gypsum");
     CHECK(t.exhausted);
@@ -109,6 +110,30 @@ TEST_CASE("a finite amount of gypsum dissolves completely and the water stays un
     bool said = false;
     for (const auto& w : r.warnings) said = said || (w.find("Gypsum") != std::string::npos && w.find("undersaturated") != std::string::npos);
     CHECK(said);
+}
+
+TEST_CASE("an undersaturated water and a solid that cannot dissolve: held back, and the warning says why") {
+    // 2 mmol/kgw of CaSO4 is well below gypsum's solubility (about 15 mmol/kg, see above).
+    SpeciationInput in;
+    in.label = "gypsum held back";
+    in.components = {total("Ca^2+", 2e-3), total("SO4^2-", 2e-3)};
+    auto warned = [](const SpeciationResult& r, const std::string& fragment) {
+        return std::any_of(r.warnings.begin(), r.warnings.end(),
+                           [&](const std::string& w) { return w.find(fragment) != std::string::npos; });
+    };
+    // May not dissolve at all.
+    in.minerals = {MineralTarget{mineral("Gypsum"), 0.0, std::nullopt, /*may_form=*/true, /*may_dissolve=*/false}};
+    const SpeciationResult kept = speciate(core(), in);
+    CHECK(transfer(kept, "Gypsum").blocked);
+    CHECK(transfer(kept, "Gypsum").moles == 0.0);
+    CHECK(si(kept, "Gypsum") < -0.5);
+    CHECK(warned(kept, "Gypsum: held back, it may not dissolve (may_dissolve = false)"));
+    // May dissolve, but none is on hand (and it may not form).
+    in.minerals = {MineralTarget{mineral("Gypsum"), 0.0, 0.0, /*may_form=*/false, /*may_dissolve=*/true}};
+    const SpeciationResult none = speciate(core(), in);
+    CHECK(transfer(none, "Gypsum").moles == 0.0);
+    CHECK(none.element_totals.at("Ca") == doctest::Approx(2e-3).epsilon(1e-12));
+    CHECK(warned(none, "Gypsum: held back, none of it on hand to dissolve"));
 }
 
 TEST_CASE("precipitation only: a supersaturated water loses calcite, an undersaturated one is left alone") {
@@ -125,7 +150,7 @@ TEST_CASE("precipitation only: a supersaturated water loses calcite, an undersat
     for (std::size_t j = 0; j < core().component_count(); ++j)
         if (analysed.component_present[j] && core().species()[j].role == thermo::ComponentRole::ordinary)
             step.components.push_back(ComponentInput{j, ComponentInput::Kind::total, analysed.component_totals[j]});
-    step.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt, MineralTarget::Direction::precipitation}};
+    step.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt, /*may_form=*/true, /*may_dissolve=*/false}};
     const SpeciationResult after = speciate(core(), step);
     CHECK(transfer(after, "Calcite").moles < 0);
     CHECK(std::abs(si(after, "Calcite")) < 1e-9);
@@ -136,18 +161,24 @@ TEST_CASE("precipitation only: a supersaturated water loses calcite, an undersat
     CHECK(after.element_totals.at("Cl") == doctest::Approx(analysed.element_totals.at("Cl")).epsilon(1e-12));
 
     // The same mineral may only dissolve: nothing happens to a supersaturated water.
-    step.minerals[0].direction = MineralTarget::Direction::dissolution;
+    step.minerals[0].may_form = false;
+    step.minerals[0].may_dissolve = true;
     const SpeciationResult held = speciate(core(), step);
     CHECK(transfer(held, "Calcite").blocked);
     CHECK(transfer(held, "Calcite").moles == 0.0);
     CHECK(si(held, "Calcite") > 0.3);
+    // The warning says which flag held it back.
+    const bool said = std::any_of(held.warnings.begin(), held.warnings.end(), [](const std::string& w) {
+        return w.find("Calcite: held back, it may not form (may_form = false)") != std::string::npos;
+    });
+    CHECK(said);
 }
 
 TEST_CASE("over-constrained equilibria end with an error that names the conflict") {
     SpeciationInput in;
     in.label = "two-carbonates";
-    in.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt, MineralTarget::Direction::both},
-                   MineralTarget{mineral("Aragonite"), 0.0, std::nullopt, MineralTarget::Direction::both}};
+    in.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt},
+                   MineralTarget{mineral("Aragonite"), 0.0, std::nullopt}};
     try {
         (void)speciate(core(), in);
         FAIL("expected an InputError");
@@ -168,14 +199,16 @@ TEST_CASE("phase inputs are validated") {
         CHECK_THROWS_WITH_AS((void)speciate(core(), in), doctest::Contains(fragment), InputError);
     };
     SpeciationInput in;
-    in.minerals = {MineralTarget{9999, 0.0, std::nullopt, MineralTarget::Direction::both}};
+    in.minerals = {MineralTarget{9999, 0.0, std::nullopt}};
     expect(in, "mineral index out of range");
-    in.minerals = {MineralTarget{mineral("Calcite"), std::nan(""), std::nullopt, MineralTarget::Direction::both}};
+    in.minerals = {MineralTarget{mineral("Calcite"), std::nan(""), std::nullopt}};
     expect(in, "finite target saturation index");
-    in.minerals = {MineralTarget{mineral("Calcite"), 0.0, -1.0, MineralTarget::Direction::both}};
-    expect(in, "amount of solid >= 0");
-    in.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt, MineralTarget::Direction::both},
-                   MineralTarget{mineral("Calcite"), 0.1, std::nullopt, MineralTarget::Direction::both}};
+    in.minerals = {MineralTarget{mineral("Calcite"), 0.0, -1.0}};
+    expect(in, "amount of solid on hand >= 0");
+    in.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt, /*may_form=*/false, /*may_dissolve=*/false}};
+    expect(in, "may neither form nor dissolve");
+    in.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt},
+                   MineralTarget{mineral("Calcite"), 0.1, std::nullopt}};
     expect(in, "mineral listed twice");
     in = {};
     in.gases = {GasTarget{9999, 0.0}};
@@ -186,15 +219,15 @@ TEST_CASE("phase inputs are validated") {
     in.charge_imbalance_eq = std::nan("");
     expect(in, "finite charge imbalance");
     in = {};
-    in.minerals = {MineralTarget{mineral("Ferrihydrite"), 0.0, std::nullopt, MineralTarget::Direction::both}};
+    in.minerals = {MineralTarget{mineral("Ferrihydrite"), 0.0, std::nullopt}};
     expect(in, "give the water a pe");
 }
 
 TEST_CASE("a water open to air reaches pH 5.6") {
-    // Water in equilibrium with today's air (pCO2 ~ 10^-3.4 atm) and nothing else has
+    // Water in equilibrium with air of 420 ppmv CO2 (air today; common practice) and nothing else has
     // pH ~ 5.6 (common practice, check-values.md).
     SpeciationInput in;
-    in.gases = {GasTarget{gas("CO2(g)"), -3.4}};
+    in.gases = {GasTarget{gas("CO2(g)"), std::log10(420e-6)}};
     const SpeciationResult r = speciate(core(), in);
     CHECK(std::abs(r.ph - 5.6) < 0.05);
 }
@@ -205,7 +238,7 @@ TEST_CASE("closed headspace: calcite in a sealed vessel with a little CO2") {
     // open system and less calcite dissolves. Carbon is conserved between gas and water.
     SpeciationInput in;
     in.label = "sealed";
-    in.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt, MineralTarget::Direction::both}};
+    in.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt}};
     Headspace h;
     h.volume_l_per_kgw = 1.0;
     h.gases = {GasTarget{gas("CO2(g)"), -3.5}};
@@ -262,7 +295,7 @@ TEST_CASE("a phase held at a fixed alkalinity brings its own alkalinity, not its
     in.pe = 12.0;
     in.components = {total("Ca^2+", 1.5e-3), total("Cl-", 1.5e-3), total("Fe^2+", 5e-5),
                      ComponentInput{comp("HCO3-"), ComponentInput::Kind::alkalinity, 3.0e-3}};
-    in.minerals = {MineralTarget{mineral("Ferrihydrite"), 0.0, std::nullopt, MineralTarget::Direction::both}};
+    in.minerals = {MineralTarget{mineral("Ferrihydrite"), 0.0, std::nullopt}};
     const SpeciationResult r = speciate(core(), in);
     const double moved = transfer(r, "Ferrihydrite").moles;
     REQUIRE(moved < -4e-5);  // nearly all of the iron settles

@@ -124,7 +124,7 @@ std::vector<SpeciationInput> waters() {
         in.activity_model = activity::ModelKind::truesdell_jones;
         in.components = fresh();
         in.components.push_back({comp("HCO3-"), ComponentInput::Kind::alkalinity, 3.5e-3});
-        in.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt, MineralTarget::Direction::both}};
+        in.minerals = {MineralTarget{mineral("Calcite"), 0.0, std::nullopt}};
         out.push_back(in);
     }
     {   // Fixed pH, CO2 gas held, gypsum held, the charge closed on sodium, 40 degC.
@@ -137,7 +137,7 @@ std::vector<SpeciationInput> waters() {
         in.components[0].value = 18e-3;  // calcium
         in.components[5].value = 20e-3;  // sulfate
         in.gases = {GasTarget{gas("CO2(g)"), -2.5}};
-        in.minerals = {MineralTarget{mineral("Gypsum"), 0.0, std::nullopt, MineralTarget::Direction::both}};
+        in.minerals = {MineralTarget{mineral("Gypsum"), 0.0, std::nullopt}};
         in.charge_balance_component = comp("Na+");
         out.push_back(in);
     }
@@ -172,7 +172,7 @@ std::vector<SpeciationInput> waters() {
         w.charge_balance = "Cl";
         for (const auto& [k, v] : std::map<std::string, double>{{"Ca", 60}, {"Mg", 12}, {"Na", 25}, {"Cl", 40},
                                                               {"SO4", 30}, {"Alkalinity", 180}, {"NO3", 5},
-                                                              {"Fe(2)", 1.5}, {"Fe(3)", 0.4}, {"Mn", 0.2}}) {
+                                                              {"Fe +2", 1.5}, {"Fe +3", 0.4}, {"Mn", 0.2}}) {
             AnalyteValue a;
             a.name = k;
             a.value = v;

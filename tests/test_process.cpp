@@ -326,7 +326,7 @@ TEST_CASE("temperature with equilibrate keeps the solids in contact at equilibri
 water = "raw"
 label = "with calcite"
 kind = "equilibrate"
-minerals = { Calcite = 0.0 }
+solids = ["Calcite"]
 
 [[step]]
 label = "warmer"
@@ -346,7 +346,7 @@ TEST_CASE("equilibrate errors point at the case file") {
 [[step]]
 water = "raw"
 kind = "equilibrate"
-minerals = { Calcit = 0.0 }
+solids = ["Calcit"]
 )toml");
         FAIL("expected an InputError");
     } catch (const InputError& e) {
@@ -358,7 +358,7 @@ minerals = { Calcit = 0.0 }
 [[step]]
 water = "raw"
 kind = "equilibrate"
-minerals = { Calcite = 0.0, Aragonite = 0.0 }
+solids = ["Calcite", "Aragonite"]
 )toml");
         FAIL("expected an InputError");
     } catch (const InputError& e) {
@@ -370,20 +370,33 @@ minerals = { Calcite = 0.0, Aragonite = 0.0 }
 [[step]]
 water = "raw"
 kind = "equilibrate"
-gases = { "CO3(g)" = -3.5 }
-)toml"), doctest::Contains("did you mean 'CO2(g)'"), InputError);    // A formula where a phase is expected leads to the phase of that formula.
+partial_pressures = { CO3 = { ppmv = 420 } }
+)toml"), doctest::Contains("'partial_pressures.CO3': no gas CO3 in the database 'core'; its gases: CO2, O2, H2, H2S, NH3 (did you mean 'CO2'?)"), InputError);    // A formula where a phase is expected leads to the phase of that formula.
     CHECK_THROWS_WITH_AS(run(water + R"toml(
 [[step]]
 water = "raw"
 kind = "equilibrate"
-minerals = { CaCO3 = 0.0 }
+solids = ["CaCO3"]
 )toml"), doctest::Contains("'CaCO3' is not a mineral of the database 'core' (did you mean 'Calcite'?)"), InputError);
     CHECK_THROWS_WITH_AS(run(water + R"toml(
 [[step]]
 water = "raw"
 kind = "equilibrate"
-gases = { "CO2" = -3.4 }
-)toml"), doctest::Contains("'CO2' is not a gas of the database 'core' (did you mean 'CO2(g)'?)"), InputError);
+partial_pressures = { CO2 = { ppmv = 420 }, NO2 = { atm = 1e-4 } }
+)toml"), doctest::Contains("no gas NO2 in the database 'core'"), InputError);
+    // A solid among the gases, and a gas among the solids, are sent where they belong.
+    CHECK_THROWS_WITH_AS(run(water + R"toml(
+[[step]]
+water = "raw"
+kind = "equilibrate"
+partial_pressures = { CaCO3 = { atm = 1e-4 } }
+)toml"), doctest::Contains("'partial_pressures.CaCO3': CaCO3 is a solid, not a gas: list Calcite in solids = [\"Calcite\"]"), InputError);
+    CHECK_THROWS_WITH_AS(run(water + R"toml(
+[[step]]
+water = "raw"
+kind = "equilibrate"
+solids = ["CO2"]
+)toml"), doctest::Contains("'CO2' is not a mineral of the database 'core'; CO2(g) is a gas: give its level in partial_pressures = { CO2 = { ppmv = ... } }"), InputError);
 }
 
 TEST_CASE("Langelier index agrees with the Standard Methods 2330 B hand calculation") {
@@ -427,7 +440,7 @@ TEST_CASE("CCPP of a water already at calcite equilibrium is 0; LSI is 0 too") {
 water = "raw"
 label = "at equilibrium"
 kind = "equilibrate"
-minerals = { Calcite = 0.0 }
+solids = ["Calcite"]
 )toml");
     const Indices& ix = step(r, "at equilibrium").state.indices;
     REQUIRE(ix.available);
@@ -515,7 +528,7 @@ TEST_CASE("equilibrate with a closed headspace, read from the case file") {
 water = "soft"
 label = "sealed tank"
 kind = "equilibrate"
-headspace = { volume_l_per_kgw = 0.25, gases = { "CO2(g)" = -2.0 } }
+headspace = { litres_per_kgw = 0.25, partial_pressures = { CO2 = { log10_atm = -2.0 } } }
 )toml");
     const WaterState& before = step(r, "sealed tank").state;
     REQUIRE(before.result.transfers.size() == 1);
@@ -529,25 +542,25 @@ headspace = { volume_l_per_kgw = 0.25, gases = { "CO2(g)" = -2.0 } }
 [[step]]
 water = "soft"
 kind = "equilibrate"
-headspace = { gases = { "CO2(g)" = -2.0 } }
-)toml"), doctest::Contains("volume_l_per_kgw"), InputError);
+headspace = { partial_pressures = { CO2 = { percent = 1 } } }
+)toml"), doctest::Contains("litres_per_kgw"), InputError);
     CHECK_THROWS_WITH_AS(run(water + R"toml(
 [[step]]
 water = "soft"
 kind = "equilibrate"
-headspace = { volume_l_per_kgw = 1 }
-)toml"), doctest::Contains("gases"), InputError);
+headspace = { litres_per_kgw = 1 }
+)toml"), doctest::Contains("partial_pressures"), InputError);
     CHECK_THROWS_WITH_AS(run(water + R"toml(
 [[step]]
 water = "soft"
 kind = "equilibrate"
-headspace = { volume_l_per_kgw = 1, gases = { "CO2(g)" = "high" } }
-)toml"), doctest::Contains("starting log10 partial pressure"), InputError);
+headspace = { litres_per_kgw = 1, partial_pressures = { CO2 = "high" } }
+)toml"), doctest::Contains("a one-key table naming the unit"), InputError);
     CHECK_THROWS_WITH_AS(run(water + R"toml(
 [[step]]
 water = "soft"
 kind = "equilibrate"
-headspace = { volume_l_per_kgw = 1, gases = { "CO2(g)" = -2 }, volume = 3 }
+headspace = { litres_per_kgw = 1, partial_pressures = { CO2 = { percent = 1 } }, volume = 3 }
 )toml"), doctest::Contains("unknown key"), InputError);
 }
 
@@ -803,7 +816,7 @@ until = { pH = 10.9 }
 [[step]]
 label = "softened"
 kind = "equilibrate"
-minerals = { Calcite = 0.0 }
+solids = ["Calcite"]
 )toml");
         const WaterState& near8 = step(r, "caustic to saturation").state;
         const WaterState& soft = step(r, "softened").state;
@@ -859,7 +872,7 @@ until = { pH = 10.9 }
 [[step]]
 label = "softened"
 kind = "equilibrate"
-minerals = { Calcite = 0.0 }
+solids = ["Calcite"]
 
 [[step]]
 label = "recarbonated"
@@ -1277,13 +1290,13 @@ precipitate = ["Barite", "Calcite"]
 water = "raw"
 label = "settle"
 kind = "equilibrate"
-minerals = { Barite = { si = 0.0, only = "precipitate" }, Calcite = { si = 0.0, only = "precipitate" } }
+solids = { Barite = { may_dissolve = false }, Calcite = { may_dissolve = false } }
 
 [[step]]
 water = "raw"
 label = "with barite"
 kind = "equilibrate"
-minerals = { Barite = 0.0 }
+solids = ["Barite"]
 )toml");
     // The water has no barium: barite can neither be saturated nor precipitate (its ion
     // activity product is 0), so asking for it changes nothing but is said.

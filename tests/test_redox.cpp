@@ -1,5 +1,5 @@
 // Redox in waters: the redox level from pe, from an electrode reading against a reference
-// electrode, from dissolved oxygen; iron given as Fe(2) and Fe(3) apart, so the couples can
+// electrode, from dissolved oxygen; iron given as ferrous and ferric apart (Fe +2, Fe +3), so the couples can
 // disagree; electrons conserved through process steps. Waters are invented.
 #include <doctest/doctest.h>
 
@@ -71,7 +71,7 @@ Cl = 1
     CHECK(*r.pe < 14.0);
 }
 
-TEST_CASE("Fe(2) and Fe(3) given apart: the iron couple keeps its own Eh") {
+TEST_CASE("Fe +2 and Fe +3 given apart: the iron couple keeps its own Eh") {
     const auto r = speciate_case(R"toml(
 [water.w]
 temperature_c = 15
@@ -82,10 +82,9 @@ units = "mg/L"
 SO4 = 300
 Na = 60
 Ca = 40
-"Fe(2)" = 20
-"Fe(3)" = 5
+Fe = { "+2" = 20, "+3" = 5 }
 )toml");
-    // The ferric species hold exactly the Fe(3) given (5 mg/L / 55.845), the iron total both.
+    // The ferric species hold exactly the Fe +3 given (5 mg/L / 55.845), the iron total both.
     double ferric = 0.0;
     for (const auto& s : r.species) {
         double nu_e = 0.0, fe = 0.0;
@@ -115,8 +114,29 @@ TEST_CASE("redox-state analytes come in pairs and not with the element's total")
         CHECK_THROWS_WITH_AS(speciate_case("[water.w]\npH = 4\nunits = \"mg/L\"\n[water.w.analytes]\nSO4 = 100\n" + analytes),
                              doctest::Contains(fragment), InputError);
     };
-    refused("\"Fe(3)\" = 5\n", "only in pairs");
-    refused("Fe = 5\n\"Fe(3)\" = 5\n\"Fe(2)\" = 1\n", "give only one of them");
+    refused("Fe = { \"+3\" = 5 }\n",
+            "redox states of one element are given apart only in pairs (for example Fe = { \"+2\" = ..., \"+3\" = ... "
+            "}, both above 0); for one state alone, give the element's total instead: Fe = ...");
+    refused("Fe = { \"+3\" = 5, \"+2\" = 0 }\n", "only in pairs");
+}
+
+TEST_CASE("redox states the database does not know are refused, with the states it knows") {
+    auto refused = [](const std::string& analytes, const char* fragment, const std::string& suggestion) {
+        try {
+            (void)speciate_case("[water.w]\npH = 4\nunits = \"mg/L\"\n[water.w.analytes]\nSO4 = 100\n" + analytes);
+            FAIL("expected an InputError");
+        } catch (const InputError& e) {
+            CHECK(std::string(e.what()).find(fragment) != std::string::npos);
+            CHECK(e.suggestion() == suggestion);
+            CHECK(e.where().line == 6);
+        }
+    };
+    refused("Fe = { \"+2\" = 1, \"+6\" = 0.1 }\n",
+            "'water.w.analytes.Fe.\"+6\"': the database 'core' has no redox state +6 of Fe; its states of Fe: +2, +3", "");
+    refused("Mn = { \"+2\" = 1, \"+4\" = 0.1 }\n",
+            "'water.w.analytes.Mn.\"+2\"': the database 'core' gives no redox states of Mn (it gives them for Fe); "
+            "give its total instead: Mn = ...",
+            "");
 }
 
 TEST_CASE("one redox level only; dissolved oxygen needs a pH and must be above 0") {
@@ -190,7 +210,7 @@ temperature_c = 60
 
 TEST_CASE("a gas that brings electrons (oxygen) changes the electrons the water carries on") {
     // An invented anoxic well (pe -3: its nitrogen lives as ammonium) aerated with air
-    // (O2 at 0.21 atm, log -0.68; CO2 at -3.4), then carried on at the same temperature with
+    // (O2 at 0.21 atm; CO2 at 420 ppmv, air today, common practice), then carried on at the same temperature with
     // no gas. The water after aeration sits on the O2/H2O line (Stumm & Morgan 1996:
     // pe = 20.78 - pH + 0.25 log p(O2) at 25 degC) and its ammonium is oxidised to nitrate;
     // the next step must find the same water: the oxygen taken up (4 e- per O2) is part of
@@ -212,7 +232,7 @@ NO3 = { value = 0.8, as = "N" }
 [[step]]
 label = "aerate"
 kind = "equilibrate"
-gases = { "O2(g)" = -0.68, "CO2(g)" = -3.4 }
+partial_pressures = { O2 = { atm = 0.21 }, CO2 = { ppmv = 420 } }
 
 [[step]]
 label = "carried on"
@@ -227,7 +247,7 @@ temperature_c = 25
     const auto& after = steps[1].state.result;
     REQUIRE(aerated.pe.has_value());
     REQUIRE(after.pe.has_value());
-    CHECK(*aerated.pe == doctest::Approx(20.78 - aerated.ph + 0.25 * -0.68).epsilon(0.002));
+    CHECK(*aerated.pe == doctest::Approx(20.78 - aerated.ph + 0.25 * std::log10(0.21)).epsilon(0.002));
     CHECK(aerated.find("NO3-")->molality > 1e3 * aerated.find("NH4+")->molality);
     CHECK(*after.pe == doctest::Approx(*aerated.pe).epsilon(1e-6));
     CHECK(after.ph == doctest::Approx(aerated.ph).epsilon(1e-9));
@@ -257,8 +277,8 @@ Alkalinity = { value = 250, as = "CaCO3" }
 [[step]]
 label = "aerated"
 kind = "equilibrate"
-gases = { "O2(g)" = -0.68, "CO2(g)" = -3.4 }
-minerals = { Ferrihydrite = { si = 0.0, only = "precipitate" } }
+partial_pressures = { O2 = { atm = 0.21 }, CO2 = { ppmv = 420 } }
+solids = { Ferrihydrite = { may_dissolve = false } }
 )toml" + extra;
 }
 
@@ -289,8 +309,8 @@ bool warns(const equilibrium::SpeciationResult& r, const std::string& fragment) 
 
 }  // namespace
 
-TEST_CASE("aeration brings iron given as Fe(2) and Fe(3) to the water's redox level: ferric hydroxide settles") {
-    const std::string split_iron = "\"Fe(2)\" = 2.5\n\"Fe(3)\" = 0.3\n";
+TEST_CASE("aeration brings iron given as Fe +2 and Fe +3 to the water's redox level: ferric hydroxide settles") {
+    const std::string split_iron = "Fe = { \"+2\" = 2.5, \"+3\" = 0.3 }\n";
     const auto steps = run_case(aerated_well(split_iron));
     const auto& r = steps.at(0).state.result;
     // Hand reasoning (25 degC, Nordstrom et al. 1990 log K, values from memory): open to air
@@ -308,7 +328,7 @@ TEST_CASE("aeration brings iron given as Fe(2) and Fe(3) to the water's redox le
     // Siderite needs ferrous iron: undersaturated in fully aerated water.
     CHECK(si_of(r, "Siderite") < 0.0);
     // The step says what it did, and the iron is carried merged afterwards.
-    CHECK(warns(r, "brought to the step's redox level"));
+    CHECK(warns(r, "Fe given by redox state (Fe +2, Fe +3) brought to the step's redox level"));
     CHECK(steps.at(0).state.basis.redox_splits.empty());
     // The same water given as total iron ends the same way (that already worked).
     const auto total = run_case(aerated_well("Fe = 2.8\n"));
@@ -317,10 +337,10 @@ TEST_CASE("aeration brings iron given as Fe(2) and Fe(3) to the water's redox le
 }
 
 TEST_CASE("keep_redox_states_apart = true keeps the iron couple apart, and the report says so") {
-    const std::string split_iron = "\"Fe(2)\" = 2.5\n\"Fe(3)\" = 0.3\n";
+    const std::string split_iron = "Fe = { \"+2\" = 2.5, \"+3\" = 0.3 }\n";
     const auto steps = run_case(aerated_well(split_iron, "keep_redox_states_apart = true\n"));
     const auto& r = steps.at(0).state.result;
-    CHECK(warns(r, "kept apart"));
+    CHECK(warns(r, "Fe given by redox state (Fe +2, Fe +3) kept apart by choice (keep_redox_states_apart = true)"));
     CHECK(!steps.at(0).state.basis.redox_splits.empty());
     // Apart, the couples disagree (the iron keeps its low potential).
     CHECK(couple_eh(r, "O2(aq)/H2O") - couple_eh(r, "Fe^3+/Fe^2+") > 0.2);
@@ -350,8 +370,7 @@ Ca = 50
 Na = 20
 Cl = 40
 Alkalinity = { value = 150, as = "CaCO3" }
-"Fe(2)" = 1.0
-"Fe(3)" = 0.2
+Fe = { "+2" = 1.0, "+3" = 0.2 }
 )toml";
     std::vector<process::WaterState> w;
     const auto steps = run_case(waters + R"toml(
@@ -394,8 +413,7 @@ Ca = 60
 Na = 20
 Cl = 30
 Alkalinity = { value = 180, as = "CaCO3" }
-"Fe(2)" = 2.0
-"Fe(3)" = 0.4
+Fe = { "+2" = 2.0, "+3" = 0.4 }
 
 [water.soft]
 pH = 7.2
@@ -446,7 +464,7 @@ by = "mass"
         const auto& b = steps.at(1).state;
         const double wa = weight(w[0]), wc = weight(w[2]);
         CHECK(b.basis.redox_splits.empty());
-        CHECK(warns(b.result, "Fe given by redox state in one water and at the redox level of another"));
+        CHECK(warns(b.result, "Fe given by redox state (Fe +2, Fe +3) in one water and at the redox level of another"));
         const double expected = (wa * (*w[0].basis.electron_total + w[0].basis.redox_splits[0].electron_total) +
                                  wc * *w[2].basis.electron_total) / (wa + wc);
         CHECK(*b.basis.electron_total == doctest::Approx(expected).epsilon(1e-9).scale(0));
@@ -465,8 +483,7 @@ Ca = 60
 Na = 20
 Cl = 30
 Alkalinity = { value = 180, as = "CaCO3" }
-"Fe(2)" = 2.0
-"Fe(3)" = 0.4
+Fe = { "+2" = 2.0, "+3" = 0.4 }
 
 [[step]]
 label = "coagulant"

@@ -455,7 +455,7 @@ TEST_CASE("the fallback rescues a first attempt that cannot finish") {
     CHECK_THROWS_WITH_AS((void)speciate(core(), balanced, options, &bad_start),
                          doctest::Contains("the charge balance on 'Cl-' may not close with this analysis"), ConvergenceError);
     SpeciationInput with_calcite = hard_water();
-    with_calcite.minerals = {MineralTarget{*core().find_mineral("Calcite"), 0.0, std::nullopt, MineralTarget::Direction::both}};
+    with_calcite.minerals = {MineralTarget{*core().find_mineral("Calcite"), 0.0, std::nullopt}};
     CHECK_THROWS_WITH_AS((void)speciate(core(), with_calcite, options, &bad_start),
                          doctest::Contains("check that the minerals and gases requested can coexist"), ConvergenceError);
 }

@@ -12,7 +12,7 @@
 //     charge that needs adding).
 // About a third carry a redox level (pe, an Eh reading against a reference electrode, or
 // dissolved oxygen); the reduced-groundwater kind puts nitrate and sulfate at low pe; iron is
-// sometimes reported as Fe(2) and Fe(3). Soft waters go down to 0.005 meq/L alkalinity.
+// sometimes reported as ferrous and ferric iron apart (Fe +2, Fe +3). Soft waters go down to 0.005 meq/L alkalinity.
 //
 // The random numbers come from splitmix64 and are turned into doubles by hand, so the corpus
 // is the same with every compiler and standard library (std:: distributions are not). The
@@ -189,10 +189,10 @@ inline std::vector<Generated> generate(std::size_t n, std::uint64_t seed) {
         if (iron && !iron_apart) ions.push_back({"Fe", fe, 55.845, 2});
         if (iron_apart) {
             const double f3 = r.uniform(0.05, 0.95);
-            ions.push_back({"Fe(2)", fe * (1 - f3), 55.845, 2});
+            ions.push_back({"Fe +2", fe * (1 - f3), 55.845, 2});
             // Nominal charge +1: with the alkalinity given, ferric iron counts at its form at
             // the titration end point, Fe(OH)2+ (README, "How alkalinity is counted").
-            ions.push_back({"Fe(3)", fe * f3, 55.845, 1});
+            ions.push_back({"Fe +3", fe * f3, 55.845, 1});
         }
         if (g.kind == Kind::permeate)
             for (auto& ion : ions) ion.mg_per_l *= 0.05;  // permeate: mostly Na and Cl remain
@@ -230,7 +230,7 @@ inline std::vector<Generated> generate(std::size_t n, std::uint64_t seed) {
             if (nm == "Ca") other_bases_meq += mmol * frac(-12.78, 64.0);
             if (nm == "SiO2") other_bases_meq += mmol * frac(-9.83, 25.6);
             if (nm == "Al") other_bases_meq += mmol * detail::aluminium_bases_per_mol(ph);
-            if (nm == "Fe(3)") other_bases_meq += mmol * detail::ferric_bases_per_mol(ph);
+            if (nm == "Fe +3") other_bases_meq += mmol * detail::ferric_bases_per_mol(ph);
         }
         if (g.kind == Kind::caustic) alk_meq = std::max(alk_meq, 0.3 * oh_meq);
         // Redox level: a third of the waters, all of the reduced ones.
@@ -349,6 +349,10 @@ inline std::vector<Generated> generate(std::size_t n, std::uint64_t seed) {
         for (const auto& ion : ions) {
             deltag::AnalyteValue a;
             a.name = ion.name;
+            if (const auto space = a.name.find(' '); space != std::string::npos) {  // a redox state, "Fe +2"
+                a.element = a.name.substr(0, space);
+                a.oxidation_state = a.name.substr(space + 1);
+            }
             a.value = ion.mg_per_l;
             // Some labs report nitrate as N.
             if (a.name == "NO3" && r.chance(0.5)) {

@@ -117,7 +117,7 @@ struct Analyte {
     enum class Kind { total, alkalinity, redox_state };
     std::string name;
     Kind kind = Kind::total;
-    double electrons = 0.0;      // redox_state: e- per atom in the species of this state (Fe(3): -1)
+    double electrons = 0.0;      // redox_state: e- per atom in the species of this state (Fe +3: -1)
     std::size_t component = 0;
     chem::Formula mass_formula;  // what a mass concentration refers to (SO4, SiO2, ...)
     double per_component = 1.0;  // components per formula unit of mass_formula

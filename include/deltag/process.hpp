@@ -21,8 +21,9 @@ namespace deltag::process {
 struct MineralSpec {
     std::string name;                   // database mineral name
     double target_si = 0.0;
-    std::optional<double> amount_mol_per_kgw;  // available to dissolve; absent: unlimited
-    equilibrium::MineralTarget::Direction direction = equilibrium::MineralTarget::Direction::both;
+    std::optional<double> on_hand_mol_per_kgw;  // solid present, the most that can dissolve; absent: unlimited
+    bool may_form = true;
+    bool may_dissolve = true;
     SourceLocation where;
 };
 

@@ -46,14 +46,13 @@ struct ComponentInput {
     double value = 0.0;         // mol/kgw (total) or eq/kgw (total alkalinity)
 };
 
-// A mineral held at a saturation index while it dissolves or precipitates.
+// A solid held at a saturation index while it forms or dissolves.
 struct MineralTarget {
-    // The way it may move: both, dissolution only, precipitation only.
-    enum class Direction { both, dissolution, precipitation };
     std::size_t mineral = 0;                 // index into Database::minerals()
     double target_si = 0.0;
-    std::optional<double> amount_mol_per_kgw;  // solid available to dissolve; absent: unlimited
-    Direction direction = Direction::both;
+    std::optional<double> on_hand_mol_per_kgw;  // solid present, the most that can dissolve; absent: unlimited
+    bool may_form = true;                    // it may leave the water as solid
+    bool may_dissolve = true;                // it may enter the water (not both false)
 };
 
 // A gas held at a partial pressure (an open system: unlimited supply and sink).

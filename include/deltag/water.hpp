@@ -13,7 +13,12 @@
 namespace deltag {
 
 struct AnalyteValue {
-    std::string name;   // analyte key as the lab writes it (Ca, SO4, Alkalinity, ...)
+    // Analyte key as the lab writes it (Ca, SO4, Alkalinity, ...). A redox state of an element
+    // given apart, Fe = { "+2" = 2.4, "+3" = 0.3 }, is one analyte per state, named by the
+    // element and the state, "Fe +2" (the database's name for it), with both parts below.
+    std::string name;
+    std::string element;          // redox state: "Fe"; empty otherwise
+    std::string oxidation_state;  // redox state: "+2"; empty otherwise
     double value = 0.0;
     std::string unit;   // empty: the water's default unit
     std::string as;     // empty, an element (N, C, Si, ...) or "CaCO3"

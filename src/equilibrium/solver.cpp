@@ -531,8 +531,10 @@ void validate_input(const thermo::Database& db, const SpeciationInput& in) {
         if (m.mineral >= db.minerals().size()) throw InputError(here, "minerals", "mineral index out of range");
         const std::string& name = db.minerals()[m.mineral].name;
         if (!std::isfinite(m.target_si)) throw InputError(here, name, "expected a finite target saturation index");
-        if (m.amount_mol_per_kgw && !(std::isfinite(*m.amount_mol_per_kgw) && *m.amount_mol_per_kgw >= 0.0))
-            throw InputError(here, name, "expected an amount of solid >= 0 mol/kgw");
+        if (m.on_hand_mol_per_kgw && !(std::isfinite(*m.on_hand_mol_per_kgw) && *m.on_hand_mol_per_kgw >= 0.0))
+            throw InputError(here, name, "expected an amount of solid on hand >= 0 mol/kgw");
+        if (!m.may_form && !m.may_dissolve)
+            throw InputError(here, name, "a solid that may neither form nor dissolve takes no part; set may_form or may_dissolve");
         for (std::size_t b = 0; b < a; ++b)
             if (in.minerals[b].mineral == m.mineral) throw InputError(here, name, "mineral listed twice");
     }
@@ -1323,8 +1325,8 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
     for (const auto& m : input.minerals) {
         MineralState ms;
         ms.spec = m;
-        // A mineral that cannot dissolve (no solid) and may not precipitate is inert.
-        if (m.amount_mol_per_kgw && *m.amount_mol_per_kgw == 0.0 && m.direction == MineralTarget::Direction::dissolution)
+        // A mineral that cannot dissolve (no solid on hand) and may not form is inert.
+        if (m.on_hand_mol_per_kgw && *m.on_hand_mol_per_kgw == 0.0 && !m.may_form)
             ms.status = MineralState::Status::blocked;
         minerals.push_back(ms);
     }
@@ -1400,13 +1402,11 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
             MineralState& ms = minerals[a];
             if (ms.status != MineralState::Status::at_target) continue;
             const double xi = mineral_xi[a];
-            const auto dir = ms.spec.direction;
-            if (ms.spec.amount_mol_per_kgw && xi > *ms.spec.amount_mol_per_kgw) {
+            if (ms.spec.on_hand_mol_per_kgw && xi > *ms.spec.on_hand_mol_per_kgw) {
                 ms.status = MineralState::Status::exhausted;
-                ms.xi = *ms.spec.amount_mol_per_kgw;
+                ms.xi = *ms.spec.on_hand_mol_per_kgw;
                 released = true;
-            } else if ((dir == MineralTarget::Direction::dissolution && xi < 0) ||
-                       (dir == MineralTarget::Direction::precipitation && xi > 0)) {
+            } else if ((!ms.spec.may_form && xi < 0) || (!ms.spec.may_dissolve && xi > 0)) {
                 ms.status = MineralState::Status::blocked;
                 ms.xi = 0.0;
                 released = true;
@@ -1421,11 +1421,10 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
                 const thermo::PhaseEntry& ph = db.minerals()[ms.spec.mineral];
                 double si = -ph.log_k(input.temperature_c) - ms.spec.target_si;
                 for (const auto& [j, v] : ph.dissolution) si += v * p.la(sys.column_for(j, ph.dissolution));
-                const auto dir = ms.spec.direction;
-                const bool may_precipitate = dir != MineralTarget::Direction::dissolution;
-                const bool may_dissolve = dir != MineralTarget::Direction::precipitation &&
-                                          (!ms.spec.amount_mol_per_kgw || ms.xi < *ms.spec.amount_mol_per_kgw);
-                if ((si > 1e-9 && may_precipitate) || (si < -1e-9 && may_dissolve)) {
+                const bool may_form = ms.spec.may_form;
+                const bool may_dissolve = ms.spec.may_dissolve &&
+                                          (!ms.spec.on_hand_mol_per_kgw || ms.xi < *ms.spec.on_hand_mol_per_kgw);
+                if ((si > 1e-9 && may_form) || (si < -1e-9 && may_dissolve)) {
                     ms.status = MineralState::Status::at_target;
                     mineral_xi[a] = ms.xi;
                     taken_back = true;
@@ -1586,18 +1585,25 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
     for (const auto& t : res.transfers) {
         if (!t.exhausted && !t.blocked) continue;
         double si = 0.0, target = 0.0;
+        const MineralTarget* spec = nullptr;
         for (const auto& sat : res.saturation)
             if (sat.phase == t.phase) si = sat.si;
         for (const auto& m : input.minerals)
-            if (db.minerals()[m.mineral].name == t.phase) target = m.target_si;
+            if (db.minerals()[m.mineral].name == t.phase) {
+                target = m.target_si;
+                spec = &m;
+            }
         std::ostringstream o;
         o.precision(3);
         if (t.exhausted)
             o << t.phase << ": all of the " << t.moles * 1000 << " mmol/kgw available dissolved; the water stays "
               << (si < -default_si_tolerance ? "undersaturated" : "near saturation") << " (SI " << si << ")";
         else
-            o << t.phase << ": held back by its allowed direction (SI " << si << ", target "
-              << target << ")";
+            o << t.phase << ": held back, "
+              << (si > target ? "it may not form (may_form = false)"
+                  : spec && spec->may_dissolve ? "none of it on hand to dissolve"
+                                               : "it may not dissolve (may_dissolve = false)")
+              << " (SI " << si << ", held at " << target << ")";
         res.warnings.push_back(o.str());
     }
     return res;

@@ -109,6 +109,15 @@ std::string analyte_key(const WaterAnalysis& w, const AnalyteValue& a) {
     return water_key(w) + ".analytes." + (bare ? a.name : "\"" + a.name + "\"");
 }
 
+// The analytes a water's table takes as keys: the database's, less the redox states (those are
+// keys inside their element's table: Fe = { "+2" = ..., "+3" = ... }).
+std::vector<std::string> analyte_keys(const thermo::Database& db) {
+    std::vector<std::string> out;
+    for (const auto& an : db.analytes())
+        if (an.kind != thermo::Analyte::Kind::redox_state) out.push_back(an.name);
+    return out;
+}
+
 // One analyte after unit conversion, still on its own basis.
 struct Converted {
     const AnalyteValue* given = nullptr;
@@ -339,8 +348,31 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
             continue;
         }
         const auto ai = db.find_analyte(a.name);
+        if (!ai && !a.oxidation_state.empty()) {
+            // Fe = { "+4" = ... }: the states the database knows for the element, if any.
+            std::vector<std::string> states;
+            for (const auto& an : db.analytes())
+                if (an.kind == thermo::Analyte::Kind::redox_state && an.name.starts_with(a.element + " "))
+                    states.push_back(an.name.substr(a.element.size() + 1));
+            if (states.empty()) {
+                std::vector<std::string> elements;
+                for (const auto& an : db.analytes())
+                    if (an.kind == thermo::Analyte::Kind::redox_state) {
+                        const std::string el = an.name.substr(0, an.name.find(' '));
+                        if (std::find(elements.begin(), elements.end(), el) == elements.end()) elements.push_back(el);
+                    }
+                throw InputError(a.where, analyte_key(water, a),
+                                 "the database '" + db.name() + "' gives no redox states of " + a.element +
+                                     (elements.empty() ? std::string(" (it gives none for any element)")
+                                                       : " (it gives them for " + name_list(elements) + ")") +
+                                     "; give its total instead: " + a.element + " = ...");
+            }
+            throw InputError(a.where, analyte_key(water, a),
+                             "the database '" + db.name() + "' has no redox state " + a.oxidation_state + " of " +
+                                 a.element + "; its states of " + a.element + ": " + name_list(states));
+        }
         if (!ai) {
-            auto names = db.analyte_names();
+            auto names = analyte_keys(db);
             for (const char* ion : {"HCO3", "CO3"})
                 if (is_carbonate_ion(ion, db)) names.push_back(ion);
             throw InputError(a.where, analyte_key(water, a),
@@ -350,7 +382,7 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
         }
         const thermo::Analyte& an = db.analytes()[*ai];
         const auto [it, fresh] = by_component.emplace(an.component, &a);
-        // Redox states of one element (Fe(2), Fe(3)) share a component; anything else doesn't.
+        // Redox states of one element (Fe +2, Fe +3) share a component; anything else doesn't.
         const bool states = an.kind == thermo::Analyte::Kind::redox_state &&
                             db.analytes()[*db.find_analyte(it->second->name)].kind == thermo::Analyte::Kind::redox_state &&
                             it->second->name != a.name;
@@ -485,9 +517,9 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
     for (const auto& [comp, te] : states) {
         if (state_count[comp] < 2)
             throw InputError(by_component[comp]->where, analyte_key(water, *by_component[comp]),
-                             "redox states of one element are given apart only in pairs (for example Fe(2) and "
-                             "Fe(3), both above 0); for one state alone, give the element's total (" +
-                                 db.species()[comp].name + ") instead");
+                             "redox states of one element are given apart only in pairs (for example Fe = { \"+2\" = "
+                             "..., \"+3\" = ... }, both above 0); for one state alone, give the element's total "
+                             "instead: " + by_component[comp]->element + " = ...");
         in.components.push_back(ComponentInput{comp, ComponentInput::Kind::total, te.first});
         in.redox_splits.push_back({comp, te.second});
     }
@@ -512,11 +544,11 @@ equilibrium::SpeciationInput to_speciation_input(const WaterAnalysis& water, con
     } else if (!cb.empty()) {
         const auto ai = db.find_analyte(cb);
         if (!ai) {
-            auto names = db.analyte_names();
+            auto names = analyte_keys(db);
             names.insert(names.begin(), "pH");
             throw InputError(water.charge_balance_where, cb_key,
                              "cannot balance the charge on '" + cb + "': expected \"pH\" or an analyte of the database '" +
-                                 db.name() + "' (" + name_list(db.analyte_names()) + ")",
+                                 db.name() + "' (" + name_list(analyte_keys(db)) + ")",
                              nearest_name(cb, names));
         }
         const thermo::Analyte& an = db.analytes()[*ai];

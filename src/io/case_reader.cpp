@@ -10,8 +10,8 @@
 // file order. Messages name one by its position in the file, counted from 1 as in the default
 // labels ("step 2 (dose)", "cell 1", "diagram 3"):
 //   step[2].reagent                  the key reagent of the second [[step]]
-//   step[1].minerals.Gypsum.only     a key inside an inline table of the first step
-//   step[1].gases."CO2(g)"           a key that is not a bare word is quoted
+//   step[1].solids.Gypsum.hold_si    a key inside an inline table of the first step
+//   water.a.analytes.Fe."+2"         a key that is not a bare word is quoted
 //   sweep[1].outputs                 an entry of an array: the key of the array, at the
 //                                    entry's own line and column
 //   cell[1].anode.half_reaction      a key of an electrode given as a table
@@ -136,11 +136,14 @@ double below_detection_limit(const std::string& text, const SourceLocation& wher
     return limit;
 }
 
-AnalyteValue read_analyte(const std::string& name, const toml::node& node, const std::string& file,
-                          const std::string& water_prefix) {
+std::string signed_state(std::string_view k);
+
+// One analyte's value at `key`: a number, "<0.05" or a table { value, unit, as }.
+AnalyteValue read_analyte(const std::string& name, const std::string& key, const toml::node& node,
+                          const std::string& file) {
     AnalyteValue a;
     a.name = name;
-    a.key = tomlu::join_key(water_prefix + ".analytes", name);
+    a.key = key;
     a.where = tomlu::where(node.source(), file);
     if (node.is_integer() || node.is_floating_point()) {
         a.value = node.is_integer() ? static_cast<double>(node.as_integer()->get())
@@ -151,6 +154,13 @@ AnalyteValue read_analyte(const std::string& name, const toml::node& node, const
         a.below_detection = true;
     } else if (const toml::table* t = node.as_table()) {
         tomlu::TableReader r(*t, file, a.key);
+        // "2" or "III" where a redox state was meant: the states take their sign.
+        for (const auto& e : in_file_order(*t, file))
+            if (!is_one_of(e.name, analyte_keys) && !signed_state(e.name).empty())
+                throw InputError(e.key_where, tomlu::join_key(a.key, e.name),
+                                 "a redox state is written as a signed oxidation state, as in " + name +
+                                     " = { \"+2\" = ..., \"+3\" = ... }",
+                                 signed_state(e.name));
         if (const toml::node* v = t->get("value"); v && v->is_string()) {
             const std::string vkey = tomlu::join_key(a.key, "value");
             a.value = below_detection_limit(v->as_string()->get(), tomlu::where(v->source(), file), vkey);
@@ -177,6 +187,69 @@ AnalyteValue read_analyte(const std::string& name, const toml::node& node, const
         throw InputError(a.where, a.key,
                          "expected a concentration of zero or more, found " + message_number(a.value));
     return a;
+}
+
+// A signed oxidation state as a key: "+2", "+3", "-2".
+bool is_oxidation_state(std::string_view k) {
+    static const std::regex state(R"([+-][0-9]+)");
+    return std::regex_match(k.begin(), k.end(), state);
+}
+
+// An oxidation state written another way ("2", "III", "+III"): the signed form, else "".
+std::string signed_state(std::string_view k) {
+    std::string_view body = k;
+    if (!body.empty() && (body.front() == '+' || body.front() == '-')) body.remove_prefix(1);
+    static const std::vector<std::string> roman = {"I", "II", "III", "IV", "V", "VI", "VII"};
+    std::string digits;
+    for (std::size_t i = 0; i < roman.size(); ++i)
+        if (body == roman[i]) digits = std::to_string(i + 1);
+    if (digits.empty() && !body.empty() && body.size() <= 1 && std::isdigit(static_cast<unsigned char>(body.front())))
+        digits = std::string(body);
+    if (digits.empty()) return "";
+    return (!k.empty() && k.front() == '-' ? "-" : "+") + digits;
+}
+
+// Fe = { "+2" = 2.4, "+3" = 0.3, unit = "mg/L" }: an element given by redox state, as labs
+// report ferrous and ferric iron apart. Each state is an analyte of its own, "Fe +2", whose
+// value is written as any analyte's (a number, "<0.05" or a table); `unit` applies to the
+// states that give none of their own.
+std::vector<AnalyteValue> read_redox_states(const std::string& element, const toml::table& t, const std::string& file,
+                                            const std::string& water_prefix) {
+    const std::string key = tomlu::join_key(water_prefix + ".analytes", element);
+    std::vector<AnalyteValue> out;
+    tomlu::TableReader r(t, file, key);
+    for (const auto& e : in_file_order(t, file)) {
+        if (e.name == "unit") continue;
+        if (!is_oxidation_state(e.name)) {
+            const std::string fix = signed_state(e.name);
+            throw InputError(e.key_where, tomlu::join_key(key, e.name),
+                             "unknown key in the redox states of " + element +
+                                 "; expected signed oxidation states, such as \"+2\" and \"+3\", and unit",
+                             fix.empty() ? nearest_name(e.name, {"unit"}) : fix);
+        }
+        AnalyteValue a = read_analyte(element + " " + e.name, tomlu::join_key(key, e.name), *e.node, file);
+        (void)r.node(e.name);
+        a.element = element;
+        a.oxidation_state = e.name;
+        out.push_back(std::move(a));
+    }
+    if (r.has("unit")) {
+        const std::string unit = checked_unit(r, "unit");
+        for (auto& a : out)
+            if (a.unit.empty()) a.unit = unit;
+    }
+    r.finish({"unit"});
+    return out;
+}
+
+// An analyte key that gives a redox state in a form of its own ("Fe(2)", "Fe(III)",
+// "Fe +2"): the element, else "". Such states go in the element's table.
+std::string state_apart_from_table(const std::string& name) {
+    static const std::regex in_parentheses(R"(([A-Z][a-z]?)\s*\(\s*([+-]?([0-9]+|[IVX]+))\s*\))");
+    static const std::regex with_sign(R"(([A-Z][a-z]?)\s+[+-][0-9]+)");
+    std::smatch m;
+    if (std::regex_match(name, m, in_parentheses) || std::regex_match(name, m, with_sign)) return m[1].str();
+    return "";
 }
 
 // Of keys that exclude each other, the second one written (in file order) is reported, naming
@@ -281,8 +354,20 @@ WaterAnalysis read_water(const std::string& name, const toml::node& node, const 
     read_lab_measurements(r, w);
 
     if (const toml::table* analytes = r.table("analytes")) {
-        for (const auto& e : in_file_order(*analytes, file))
-            w.analytes.push_back(read_analyte(e.name, *e.node, file, prefix));
+        for (const auto& e : in_file_order(*analytes, file)) {
+            if (const std::string element = state_apart_from_table(e.name); !element.empty())
+                throw InputError(e.key_where, tomlu::join_key(prefix + ".analytes", e.name),
+                                 "redox states of an element are given in its own table, by signed oxidation state: " +
+                                     element + " = { \"+2\" = ..., \"+3\" = ... }",
+                                 element);
+            const toml::table* states = e.node->as_table();
+            if (states && std::any_of(states->begin(), states->end(),
+                                      [](const auto& kv) { return is_oxidation_state(kv.first.str()); })) {
+                for (auto& a : read_redox_states(e.name, *states, file, prefix)) w.analytes.push_back(std::move(a));
+                continue;
+            }
+            w.analytes.push_back(read_analyte(e.name, tomlu::join_key(prefix + ".analytes", e.name), *e.node, file));
+        }
     }
     r.finish(water_keys);
 
@@ -302,11 +387,14 @@ WaterAnalysis read_water(const std::string& name, const toml::node& node, const 
             r.fail("charge_balance", "charge balance on " + w.charge_balance +
                                          " needs a measured pH; add pH = ... to [" + prefix +
                                          "] or set charge_balance = \"pH\"");
-        const bool listed = std::any_of(w.analytes.begin(), w.analytes.end(),
-                                        [&](const AnalyteValue& a) { return a.name == w.charge_balance; });
+        // A redox state given apart is not one to adjust: the balance takes an analyte's total.
+        const bool listed = std::any_of(w.analytes.begin(), w.analytes.end(), [&](const AnalyteValue& a) {
+            return a.oxidation_state.empty() && a.name == w.charge_balance;
+        });
         if (!listed) {
             std::vector<std::string> names;
-            for (const auto& a : w.analytes) names.push_back(a.name);
+            for (const auto& a : w.analytes)
+                if (a.oxidation_state.empty()) names.push_back(a.name);
             r.fail("charge_balance",
                    "charge balance on " + w.charge_balance + ", which is not among the analytes of this water" +
                        (names.empty() ? std::string(" (it has none)") : " (" + name_list(names) + ")") +
@@ -324,7 +412,7 @@ const std::vector<std::string> step_kinds = {"equilibrate", "dose", "blend", "co
 // The keys each kind of step takes. A blend has no `water`: it names its waters in `waters`.
 const std::vector<std::string>& keys_of_kind(std::string_view kind) {
     static const std::map<std::string, std::vector<std::string>, std::less<>> keys = {
-        {"equilibrate", {"kind", "label", "water", "minerals", "gases", "headspace", "keep_redox_states_apart"}},
+        {"equilibrate", {"kind", "label", "water", "solids", "partial_pressures", "headspace", "keep_redox_states_apart"}},
         {"dose", {"kind", "label", "water", "reagent", "amount", "until", "max_amount", "keep_redox_states_apart"}},
         {"blend", {"kind", "label", "waters", "by"}},
         {"concentrate", {"kind", "label", "water", "factor", "recovery", "precipitate"}},
@@ -333,12 +421,13 @@ const std::vector<std::string>& keys_of_kind(std::string_view kind) {
     return keys.find(kind)->second;
 }
 
-const std::vector<std::string> mineral_keys = {"si", "amount_mol_per_kgw", "amount_mmol_per_kgw", "only"};
-const std::vector<std::string> mineral_directions = {"dissolve", "precipitate"};
+const std::vector<std::string> solid_keys = {"hold_si", "on_hand_mmol_per_kgw", "on_hand_mol_per_kgw", "may_form",
+                                             "may_dissolve"};
+const std::vector<std::string> headspace_keys = {"litres_per_kgw", "temperature_c", "partial_pressures"};
 const std::vector<std::string> dose_units = {"mol/kgw", "mmol/kgw", "umol/kgw", "mg/kgw", "g/kgw",
                                              "mol/L",   "mmol/L",   "umol/L",   "mg/L",   "g/L"};
 const std::vector<std::string> amount_keys = {"value", "unit"};
-const std::vector<std::string> gas_units = {"atm", "bar", "kPa", "ppmv", "%"};
+const std::vector<std::string> gas_units = {"atm", "bar", "kPa", "ppmv", "percent", "log10_atm"};
 const std::vector<std::string> until_keys = {"pH", "si", "alkalinity_meq_per_l", "langelier"};
 const std::vector<std::string> blend_bases = {"volume", "mass"};
 const std::vector<std::string> sweep_keys = {"label",  "step",        "at",      "variable", "from", "to",
@@ -487,143 +576,179 @@ void check_step_keys(const toml::table& t, const std::string& kind, const std::s
     }
 }
 
-// minerals = { Calcite = 0.0, Gypsum = { si = 0.0, amount_mmol_per_kgw = 2.0, only = "dissolve" } }
-process::MineralSpec read_mineral(const Entry& e, const std::string& file, const std::string& prefix) {
-    using Direction = equilibrium::MineralTarget::Direction;
+// The long form of one solid:
+//   Calcite = { hold_si = 0.3, on_hand_mmol_per_kgw = 5, may_form = false }
+// Absent keys keep the short form's meaning: held at saturation (hold_si = 0), as much solid
+// as it takes (no on-hand amount), free to form and to dissolve.
+process::MineralSpec read_solid(const Entry& e, const std::string& file, const std::string& prefix) {
     process::MineralSpec m;
     m.name = e.name;
     m.where = e.key_where;
     const std::string key = tomlu::join_key(prefix, e.name);
-    if (e.node->is_integer() || e.node->is_floating_point()) {
-        const double v = e.node->is_integer() ? static_cast<double>(e.node->as_integer()->get())
-                                              : e.node->as_floating_point()->get();
-        const SourceLocation at = tomlu::where(e.node->source(), file);
-        if (!std::isfinite(v)) throw InputError(at, key, "expected a finite number");
-        if (v < -20.0 || v > 20.0)
-            throw InputError(at, key, "expected a target saturation index from -20 to 20, found " + message_number(v));
-        m.target_si = v;
-        return m;
-    }
     const toml::table* t = e.node->as_table();
     if (!t)
         throw InputError(tomlu::where(e.node->source(), file), key,
-                         "expected a target saturation index (a number) or a table { si = ..., "
-                         "amount_mmol_per_kgw = ..., only = \"dissolve\" or \"precipitate\" }, found " +
-                             tomlu::type_name(*e.node));
+                         "expected a table { hold_si = ..., on_hand_mmol_per_kgw = ..., may_form = ..., may_dissolve = "
+                         "... }, found " + tomlu::type_name(*e.node) +
+                             "; a solid held at saturation with no other condition is listed by name: solids = [\"" +
+                             e.name + "\"]");
+    reject_unknown_keys(*t, solid_keys, file, key);
     tomlu::TableReader r(*t, file, key);
-    if (auto si = ranged(r, "si", -20.0, 20.0, "a target saturation index")) m.target_si = *si;
-    const auto mol = r.number("amount_mol_per_kgw");
-    const auto mmol = r.number("amount_mmol_per_kgw");
-    if (mol && mmol)
-        r.fail("amount_mmol_per_kgw",
-               "give the amount of solid once, as amount_mol_per_kgw or amount_mmol_per_kgw, not both");
+    if (auto si = ranged(r, "hold_si", -20.0, 20.0, "a saturation index to hold")) m.target_si = *si;
+    const auto mol = r.number("on_hand_mol_per_kgw");
+    const auto mmol = r.number("on_hand_mmol_per_kgw");
+    at_most_one(r, {"on_hand_mol_per_kgw", "on_hand_mmol_per_kgw"},
+                "give the solid on hand once, as on_hand_mol_per_kgw or on_hand_mmol_per_kgw");
+    const std::string on_hand_key = mol ? "on_hand_mol_per_kgw" : "on_hand_mmol_per_kgw";
     if (mol || mmol) {
-        const std::string k = mol ? "amount_mol_per_kgw" : "amount_mmol_per_kgw";
         const double v = mol ? *mol : *mmol;
-        if (v < 0.0) r.fail(k, "expected an amount of solid of zero or more, found " + message_number(v));
-        m.amount_mol_per_kgw = mol ? v : v * 1e-3;
+        if (v < 0.0) r.fail(on_hand_key, "expected an amount of solid on hand of zero or more, found " + message_number(v));
+        m.on_hand_mol_per_kgw = mol ? v : v * 1e-3;
     }
-    if (auto only = r.string("only")) {
-        if (*only == "dissolve") m.direction = Direction::dissolution;
-        else if (*only == "precipitate") m.direction = Direction::precipitation;
-        else
-            r.fail("only",
-                   "expected \"dissolve\" or \"precipitate\" (leave 'only' out to allow both), found \"" + *only + "\"",
-                   nearest_name(*only, mineral_directions));
-        if (m.amount_mol_per_kgw && m.direction == Direction::precipitation)
-            r.fail("only", "an amount of solid limits how much can dissolve; a mineral that may only "
-                           "precipitate takes none: remove " + std::string(mol ? "amount_mol_per_kgw" : "amount_mmol_per_kgw") +
-                           " or 'only'");
-    }
-    r.finish(mineral_keys);
+    m.may_form = r.boolean("may_form").value_or(true);
+    m.may_dissolve = r.boolean("may_dissolve").value_or(true);
+    if (!m.may_form && !m.may_dissolve)
+        r.fail(r.has("may_dissolve") ? "may_dissolve" : "may_form",
+               "a solid that may neither form nor dissolve takes no part in the step: set may_form or may_dissolve "
+               "to true, or leave " + e.name + " out");
+    if (m.on_hand_mol_per_kgw && !m.may_dissolve)
+        r.fail(on_hand_key, "the solid on hand limits how much can dissolve, and " + e.name +
+                                " may not dissolve (may_dissolve = false): remove " + on_hand_key + " or may_dissolve");
+    r.finish(solid_keys);
     return m;
 }
 
-// A gas level: a bare number is the log10 partial pressure in atm; a table { value, unit }
-// gives the partial pressure in atm, bar or kPa, or the gas's share of the gas phase in ppmv
-// (parts per million by volume) or % (by volume), taken at a total pressure of 1 atm
-// (Dalton's law, p = x P): 420 ppmv of CO2 is 420e-6 atm, 21 % of O2 is 0.21 atm.
-// 1 atm = 101.325 kPa = 1.01325 bar exactly (the standard atmosphere, 10th CGPM 1954).
-// Returns the log10 partial pressure in atm, from -20 to 2 as for a bare number.
-double gas_level(tomlu::TableReader& g, const Entry& entry, const std::string& what) {
-    const std::string key = g.dotted(entry.name);
-    if (entry.node->is_integer() || entry.node->is_floating_point())
-        return *ranged(g, entry.name, -20.0, 2.0, "a log10 partial pressure in atm");
-    const toml::table* t = entry.node->as_table();
+// solids = ["Calcite", "Gypsum"]                        each held at saturation, free both ways
+// solids = { Calcite = { hold_si = 0.3 }, ... }         the long form (read_solid)
+std::vector<process::MineralSpec> read_solids(tomlu::TableReader& r) {
+    std::vector<process::MineralSpec> out;
+    const toml::node* n = r.node("solids");
+    if (!n) return out;
+    const std::string key = r.dotted("solids");
+    if (const toml::array* a = n->as_array()) {
+        for (const auto& el : *a) {
+            const SourceLocation at = tomlu::where(el.source(), r.file());
+            if (!el.is_string())
+                throw InputError(at, key,
+                                 "expected names of solids (strings), found " + tomlu::type_name(el) +
+                                     " in the list; a solid with conditions goes in the table form, solids = { NAME = "
+                                     "{ hold_si = ..., ... } }");
+            const std::string name = el.as_string()->get();
+            if (name.empty()) throw InputError(at, key, "expected the name of a solid, found an empty string");
+            for (const auto& m : out)
+                if (m.name == name)
+                    throw InputError(at, key, "the solid '" + name + "' is listed twice (line " +
+                                                  std::to_string(m.where.line) + ")");
+            process::MineralSpec m;
+            m.name = name;
+            m.where = at;
+            out.push_back(std::move(m));
+        }
+        return out;
+    }
+    const toml::table* t = n->as_table();
     if (!t)
-        g.fail(entry.name, "expected " + what + " (a number), or { value = ..., unit = ... } with unit one of: " +
-                               name_list(gas_units) + "; found " + tomlu::type_name(*entry.node));
+        r.fail("solids", "expected a list of names, solids = [\"Calcite\", ...], or a table solids = { Calcite = "
+                         "{ hold_si = ..., ... } }; found " + tomlu::type_name(*n));
+    for (const auto& entry : in_file_order(*t, r.file())) out.push_back(read_solid(entry, r.file(), key));
+    return out;
+}
+
+// A gas level: a one-key table whose key is the unit, { ppmv = 420 }: a partial pressure in
+// atm, bar or kPa; the gas's share of the gas phase in ppmv (parts per million by volume) or
+// percent (by volume), taken at a total pressure of 1 atm (Dalton's law, p = x P): 420 ppmv
+// of CO2 is 420e-6 atm, 21 percent of O2 is 0.21 atm; or log10_atm, the log10 of the partial
+// pressure in atm. 1 atm = 101.325 kPa = 1.01325 bar exactly (the standard atmosphere, 10th
+// CGPM 1954). Returns the log10 partial pressure in atm, from -20 to 2.
+double gas_level(tomlu::TableReader& g, const Entry& entry) {
+    const std::string key = g.dotted(entry.name);
+    const std::string form = "a one-key table naming the unit, such as { ppmv = 420 } or { atm = 0.21 }; units: " +
+                             name_list(gas_units);
+    const toml::table* t = entry.node->as_table();
+    if (!t) g.fail(entry.name, "expected " + form + "; found " + tomlu::type_name(*entry.node));
     (void)g.node(entry.name);
-    reject_unknown_keys(*t, amount_keys, g.file(), key);
+    const auto given = in_file_order(*t, g.file());
+    if (given.empty()) g.fail(entry.name, "expected " + form + "; found an empty table");
+    reject_unknown_keys(*t, gas_units, g.file(), key);
     tomlu::TableReader r(*t, g.file(), key);
-    const double v = r.require_number("value", "the gas level, a number (value = ...)");
-    const std::string unit = r.require_string("unit", "the unit of the gas level, one of: " + name_list(gas_units));
-    double atm = 0.0;
-    if (unit == "atm") atm = v;
-    else if (unit == "bar") atm = v / 1.01325;
+    if (given.size() > 1)
+        r.fail(given[1].name, "a gas level takes one unit, found both " + given[0].name + " (line " +
+                                  std::to_string(given[0].key_where.line) + ") and " + given[1].name);
+    const std::string& unit = given[0].name;
+    const double v = *r.number(unit);
+    if (unit == "log10_atm") {
+        check_range(r, unit, v, -20.0, 2.0, "a log10 partial pressure", " (log10 atm)");
+        return v;
+    }
+    if (!(v > 0.0))
+        r.fail(unit, "expected a gas level above zero, found " + message_number(v) +
+                         " (a partial pressure of zero has no log10); leave a gas that is absent out");
+    double atm = v;
+    if (unit == "bar") atm = v / 1.01325;
     else if (unit == "kPa") atm = v / 101.325;
     else if (unit == "ppmv") atm = v * 1e-6;
-    else if (unit == "%") atm = v / 100.0;
-    else
-        r.fail("unit", "unknown unit of a gas level '" + unit + "'; expected one of: " + name_list(gas_units) +
-                           " (or a bare number: the log10 partial pressure in atm)",
-               nearest_name(unit, gas_units));
-    if (!(v > 0.0))
-        r.fail("value", "expected a gas level above zero, found " + message_number(v) +
-                            " (a partial pressure of zero has no log10); leave a gas that is absent out");
-    const bool share = unit == "ppmv" || unit == "%";
+    else if (unit == "percent") atm = v / 100.0;
+    const bool share = unit == "ppmv" || unit == "percent";
     if (share && atm > 1.0)
-        r.fail("value", "expected a share of the gas phase of at most 100 % (1e6 ppmv), found " + message_number(v) + " " +
-                            unit);
+        r.fail(unit, "expected a share of the gas phase of at most 100 percent (1e6 ppmv), found " + message_number(v) +
+                         " " + unit);
     const double log_p = std::log10(atm);
     if (log_p < -20.0 || log_p > 2.0)
-        r.fail("value", "expected a partial pressure from 1e-20 to 100 atm (log10 from -20 to 2), found " +
-                            message_number(v) + " " + unit + " = " + message_number(atm) + " atm");
+        r.fail(unit, "expected a partial pressure from 1e-20 to 100 atm (log10 from -20 to 2), found " +
+                         message_number(v) + " " + unit + " = " + message_number(atm) + " atm");
     return log_p;
+}
+
+// partial_pressures = { CO2 = { ppmv = 420 }, O2 = { percent = 21 } }: gases named by their
+// formula; each is the database's gas of that formula, "CO2" the gas CO2(g).
+std::vector<process::GasSpec> read_partial_pressures(tomlu::TableReader& r, const std::string& what) {
+    std::vector<process::GasSpec> out;
+    const toml::table* t = r.table("partial_pressures");
+    if (!t) return out;
+    tomlu::TableReader g(*t, r.file(), r.dotted("partial_pressures"));
+    for (const auto& entry : in_file_order(*t, r.file())) {
+        const std::string& name = entry.name;
+        static const std::string mark = "(g)";
+        if (name.size() > mark.size() && name.ends_with(mark))
+            throw InputError(entry.key_where, g.dotted(name),
+                             "a gas is named here by its formula, without \"(g)\": write " +
+                                 name.substr(0, name.size() - mark.size()) + " for " + what,
+                             name.substr(0, name.size() - mark.size()));
+        if (name.empty() || name == mark)
+            throw InputError(entry.key_where, g.dotted(name), "expected the formula of a gas, such as CO2 or O2");
+        process::GasSpec gas;
+        gas.name = name + mark;
+        gas.where = entry.key_where;
+        gas.log_partial_pressure_atm = gas_level(g, entry);
+        out.push_back(std::move(gas));
+    }
+    return out;
 }
 
 process::EquilibrateStep read_equilibrate(tomlu::TableReader& r) {
     process::EquilibrateStep e;
-    if (const toml::table* minerals = r.table("minerals")) {
-        for (const auto& entry : in_file_order(*minerals, r.file()))
-            e.minerals.push_back(read_mineral(entry, r.file(), r.dotted("minerals")));
-    }
-    if (const toml::table* gases = r.table("gases")) {
-        tomlu::TableReader g(*gases, r.file(), r.dotted("gases"));
-        for (const auto& entry : in_file_order(*gases, r.file())) {
-            process::GasSpec gas;
-            gas.name = entry.name;
-            gas.where = entry.key_where;
-            gas.log_partial_pressure_atm = gas_level(g, entry, "the log10 partial pressure of the gas in atm");
-            e.gases.push_back(std::move(gas));
-        }
-    }
-    // headspace = { volume_l_per_kgw = 0.5, temperature_c = 20, gases = { "CO2(g)" = -3.4 } }
+    e.minerals = read_solids(r);
+    e.gases = read_partial_pressures(r, "the gas held at this partial pressure");
+    // headspace = { litres_per_kgw = 0.5, temperature_c = 20, partial_pressures = { CO2 = { ppmv = 420 } } }
     if (const toml::table* hs = r.table("headspace")) {
         tomlu::TableReader h(*hs, r.file(), r.dotted("headspace"));
+        reject_unknown_keys(*hs, headspace_keys, r.file(), h.prefix());
         process::HeadspaceSpec spec;
         spec.where = r.location("headspace");
-        if (!h.has("volume_l_per_kgw")) h.fail("volume_l_per_kgw", "missing: expected the gas volume in litres per kg of water");
-        spec.volume_l_per_kgw = *ranged(h, "volume_l_per_kgw", 1e-9, 1e6, "litres of gas per kg of water");
+        if (!h.has("litres_per_kgw")) h.fail("litres_per_kgw", "missing: expected the gas volume in litres per kg of water");
+        spec.volume_l_per_kgw = *ranged(h, "litres_per_kgw", 1e-9, 1e6, "litres of gas per kg of water");
         if (h.has("temperature_c")) spec.temperature_c = ranged(h, "temperature_c", 0.0, 100.0, "a temperature in degC");
-        const toml::table* gases = h.table("gases");
-        if (!gases || gases->empty())
-            h.fail("gases", "missing: expected gases = { \"NAME(g)\" = starting log10 partial pressure in atm, ... }");
-        tomlu::TableReader g(*gases, r.file(), h.dotted("gases"));
-        for (const auto& entry : in_file_order(*gases, r.file())) {
-            process::GasSpec gas;
-            gas.name = entry.name;
-            gas.where = entry.key_where;
-            gas.log_partial_pressure_atm = gas_level(g, entry, "the starting log10 partial pressure in atm");
-            spec.gases.push_back(std::move(gas));
-        }
-        h.finish({"volume_l_per_kgw", "temperature_c", "gases"});
+        spec.gases = read_partial_pressures(h, "the gas that starts at this partial pressure");
+        if (spec.gases.empty())
+            h.fail("partial_pressures", "missing: expected the starting partial pressures of the gas space, such as "
+                                        "partial_pressures = { CO2 = { ppmv = 420 } }");
+        h.finish(headspace_keys);
         e.headspace = std::move(spec);
     }
     if (e.minerals.empty() && e.gases.empty() && !e.headspace)
         throw InputError(r.table_location(), r.prefix(),
-                         "a step of kind 'equilibrate' needs minerals = { NAME = target SI, ... } or gases = "
-                         "{ \"NAME(g)\" = log10 partial pressure in atm, ... }, with at least one entry");
+                         "a step of kind 'equilibrate' needs solids = [\"NAME\", ...] or partial_pressures = "
+                         "{ GAS = { UNIT = ... }, ... }, with at least one entry");
     return e;
 }
 

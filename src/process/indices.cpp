@@ -271,7 +271,7 @@ void find_ccpp(const thermo::Database& db, const WaterState& w, std::size_t calc
                std::size_t carbonate, Indices& ix) {
     const auto& r = w.result;
     equilibrium::SpeciationInput eq = w.basis;
-    eq.minerals = {equilibrium::MineralTarget{calcite, 0.0, std::nullopt, equilibrium::MineralTarget::Direction::both}};
+    eq.minerals = {equilibrium::MineralTarget{calcite, 0.0, std::nullopt}};
     eq.gases.clear();
     eq.headspace.reset();
     eq.charge_balance_component.reset();

@@ -5,6 +5,7 @@
 // 2 H2O per mole) and the water of a reagent are not tracked, except where a step removes
 // water on purpose (concentrate).
 #include <algorithm>
+#include <cctype>
 #include <cmath>
 #include <map>
 #include <sstream>
@@ -17,10 +18,6 @@
 namespace deltag::process {
 
 namespace {
-
-// A mineral allowed to leave the water but not to enter it. (The enum's name is the solver's;
-// it is spelled once here.)
-constexpr auto settle_only = equilibrium::MineralTarget::Direction::precipitation;
 
 // Kg of water per litre of a derived water: the density of pure water at its temperature,
 // less the dissolved mass (the same approximation as for a lab analysis without a density).
@@ -61,17 +58,44 @@ std::size_t mineral_index(const thermo::Database& db, const std::string& name, c
     // A formula where a mineral is expected ("CaCO3") leads to the mineral of that formula.
     std::vector<std::pair<std::string, std::string>> phases;
     for (const auto& m : db.minerals()) phases.emplace_back(m.name, m.formula.text);
-    throw InputError(where, key, "'" + name + "' is not a mineral of the database '" + db.name() + "'",
+    // A gas among the solids ("CO2"): it goes in partial_pressures.
+    const std::string gas = name.ends_with("(g)") ? name : name + "(g)";
+    const std::string as_gas = db.find_gas(gas) ? "; " + gas + " is a gas: give its level in partial_pressures = { " +
+                                                      gas.substr(0, gas.size() - 3) + " = { ppmv = ... } }"
+                                                : std::string();
+    throw InputError(where, key, "'" + name + "' is not a mineral of the database '" + db.name() + "'" + as_gas,
                      nearest_phase(name, phases));
 }
 
+// A case file names a gas by its formula ("CO2" for the database's CO2(g)); `name` is the
+// database's name, `key` the table the formula is a key of. Messages and suggestions use the
+// formula, as the case file writes it.
 std::size_t gas_index(const thermo::Database& db, const std::string& name, const SourceLocation& where,
                       const std::string& key) {
     if (auto i = db.find_gas(name)) return *i;
+    const auto written = [](const std::string& gas) {
+        return gas.ends_with("(g)") ? gas.substr(0, gas.size() - 3) : gas;
+    };
     std::vector<std::pair<std::string, std::string>> phases;
-    for (const auto& g : db.gases()) phases.emplace_back(g.name, g.formula.text);
-    throw InputError(where, key, "'" + name + "' is not a gas of the database '" + db.name() + "'",
-                     nearest_phase(name, phases));
+    std::vector<std::string> formulas;
+    for (const auto& g : db.gases()) {
+        phases.emplace_back(written(g.name), g.formula.text);
+        formulas.push_back(written(g.name));
+    }
+    const std::string formula = written(name);
+    // A solid among the gases ("Calcite", "CaCO3"): it goes in solids.
+    std::string solid;
+    for (const auto& m : db.minerals())
+        if (solid.empty() && (m.name == formula || m.formula.text == formula)) solid = m.name;
+    if (!solid.empty())
+        throw InputError(where, key + "." + formula,
+                         formula + " is a solid, not a gas: list " + solid + " in solids = [\"" + solid + "\"]");
+    const bool bare = std::all_of(formula.begin(), formula.end(), [](char c) {
+        return std::isalnum(static_cast<unsigned char>(c)) || c == '_' || c == '-';
+    });
+    throw InputError(where, key + "." + (bare ? formula : "\"" + formula + "\""),
+                     "no gas " + formula + " in the database '" + db.name() + "'; its gases: " + name_list(formulas),
+                     nearest_phase(formula, phases));
 }
 
 // The element of a component, for messages (Fe for Fe^2+).
@@ -98,22 +122,34 @@ double split_electrons(const thermo::Database& db, const equilibrium::Speciation
     return e;
 }
 
+// "Fe given by redox state (Fe +2, Fe +3)": the elements of these components and the redox
+// states the database names for them, for the messages of the steps.
+std::string given_by_state(const thermo::Database& db, const std::vector<std::size_t>& components) {
+    std::vector<std::string> elements, states;
+    for (std::size_t comp : components) {
+        elements.push_back(element_of(db, comp));
+        for (const auto& an : db.analytes())
+            if (an.kind == thermo::Analyte::Kind::redox_state && an.component == comp) states.push_back(an.name);
+    }
+    return name_list(elements) + " given by redox state" + (states.empty() ? "" : " (" + name_list(states) + ")");
+}
+
 std::string split_elements(const thermo::Database& db, const equilibrium::SpeciationInput& in) {
-    std::vector<std::string> names;
-    for (const auto& sp : in.redox_splits) names.push_back(element_of(db, sp.component));
-    return name_list(names);
+    std::vector<std::size_t> components;
+    for (const auto& sp : in.redox_splits) components.push_back(sp.component);
+    return given_by_state(db, components);
 }
 
 // A step that brings the water to one redox level (equilibrate, an oxidant or reductant
 // dose, temperature with equilibrate) lets the redox states of an element given apart
-// (Fe(2), Fe(3)) equilibrate with it: their electrons join the water's electron total and
+// (Fe +2, Fe +3) equilibrate with it: their electrons join the water's electron total and
 // the element is one total. With keep_redox_states_apart the states stay apart. Returns
 // what the result should say ("" when the water has no states apart).
 std::string bring_to_one_redox_level(const thermo::Database& db, const Step& s, equilibrium::SpeciationInput& in) {
     if (in.redox_splits.empty()) return "";
     const std::string elements = split_elements(db, in);
     if (s.keep_redox_states_apart)
-        return elements + " given by redox state kept apart by choice (keep_redox_states_apart = true): its couple keeps "
+        return elements + " kept apart by choice (keep_redox_states_apart = true): its couple keeps "
                "an Eh of its own and does not follow the step's redox level";
     if (!in.pe) {
         double electrons = in.electron_total.value_or(0.0);  // no redox level: the components' states, 0
@@ -121,11 +157,11 @@ std::string bring_to_one_redox_level(const thermo::Database& db, const Step& s, 
         in.electron_total = electrons;
     }
     in.redox_splits.clear();
-    return elements + " given by redox state brought to the step's redox level: one electron balance for the whole "
+    return elements + " brought to the step's redox level: one electron balance for the whole "
            "water (keep_redox_states_apart = true keeps the states apart)";
 }
 
-// Minerals that may only precipitate but need a component the water lacks, and that no
+// Solids that may form but not dissolve and need a component the water lacks, and that no
 // other phase of the step brings in, can never be saturated (their ion activity product is
 // 0): they are left out, and the returned warnings say so.
 std::vector<std::string> leave_out_absent(const thermo::Database& db, equilibrium::SpeciationInput& in) {
@@ -135,7 +171,7 @@ std::vector<std::string> leave_out_absent(const thermo::Database& db, equilibriu
         for (const auto& [j, v] : st) present[j] = true;
     };
     for (const auto& m : in.minerals)
-        if (m.direction != settle_only && (!m.amount_mol_per_kgw || *m.amount_mol_per_kgw > 0))
+        if (m.may_dissolve && (!m.on_hand_mol_per_kgw || *m.on_hand_mol_per_kgw > 0))
             bring(db.minerals()[m.mineral].dissolution);
     for (const auto& g : in.gases) bring(db.gases()[g.gas].dissolution);
     if (in.headspace)
@@ -144,7 +180,7 @@ std::vector<std::string> leave_out_absent(const thermo::Database& db, equilibriu
     std::vector<equilibrium::MineralTarget> kept;
     for (const auto& m : in.minerals) {
         std::vector<std::string> absent;
-        if (m.direction == settle_only)
+        if (!m.may_dissolve)
             for (const auto& [j, v] : db.minerals()[m.mineral].dissolution)
                 if (db.species()[j].role == thermo::ComponentRole::ordinary && !present[j]) absent.push_back(db.species()[j].name);
         if (absent.empty()) {
@@ -152,7 +188,7 @@ std::vector<std::string> leave_out_absent(const thermo::Database& db, equilibriu
             continue;
         }
         warnings.push_back(db.minerals()[m.mineral].name + " left out: its components (" + name_list(absent) +
-                           ") are absent from the water, so it cannot precipitate");
+                           ") are absent from the water, so it cannot form");
     }
     in.minerals = std::move(kept);
     return warnings;
@@ -180,7 +216,7 @@ WaterState finish(const thermo::Database& db, const std::string& label, equilibr
         equilibrium::MineralTarget m = in.minerals[a];
         const auto& t = r.transfers[a];
         if (t.exhausted) continue;
-        if (m.amount_mol_per_kgw) m.amount_mol_per_kgw = std::max(0.0, *m.amount_mol_per_kgw - t.moles);
+        if (m.on_hand_mol_per_kgw) m.on_hand_mol_per_kgw = std::max(0.0, *m.on_hand_mol_per_kgw - t.moles);
         w.minerals.push_back(m);
     }
     w.gases = in.gases;
@@ -228,16 +264,16 @@ WaterState do_equilibrate(const thermo::Database& db, const Step& s, const Equil
     in.minerals.clear();
     in.gases.clear();
     for (const auto& m : e.minerals)
-        in.minerals.push_back({mineral_index(db, m.name, m.where, "minerals." + m.name), m.target_si,
-                               m.amount_mol_per_kgw, m.direction});
+        in.minerals.push_back({mineral_index(db, m.name, m.where, "solids." + m.name), m.target_si,
+                               m.on_hand_mol_per_kgw, m.may_form, m.may_dissolve});
     for (const auto& g : e.gases)
-        in.gases.push_back({gas_index(db, g.name, g.where, "gases." + g.name), g.log_partial_pressure_atm});
+        in.gases.push_back({gas_index(db, g.name, g.where, "partial_pressures"), g.log_partial_pressure_atm});
     if (e.headspace) {
         equilibrium::Headspace h;
         h.volume_l_per_kgw = e.headspace->volume_l_per_kgw;
         h.temperature_c = e.headspace->temperature_c;
         for (const auto& g : e.headspace->gases)
-            h.gases.push_back({gas_index(db, g.name, g.where, "headspace.gases." + g.name), g.log_partial_pressure_atm});
+            h.gases.push_back({gas_index(db, g.name, g.where, "headspace.partial_pressures"), g.log_partial_pressure_atm});
         in.headspace = h;
     }
     std::vector<std::string> notes = leave_out_absent(db, in);
@@ -291,7 +327,7 @@ WaterState dosed(const thermo::Database& db, const Step& s, const WaterState& fr
     for (const auto& [j, k] : split.components) add_total(in, j, k * mol_per_kgw);
     if (split.electrons != 0.0) {
         // The reagent's electrons belong to its element when that element's redox states are
-        // kept apart (ferric chloride into a water with Fe(2) and Fe(3) apart), else to the water.
+        // kept apart (ferric chloride into a water with Fe +2 and Fe +3 apart), else to the water.
         equilibrium::SpeciationInput::RedoxSplit* own = nullptr;
         for (auto& sp : in.redox_splits)
             for (const auto& [j, k] : split.components)
@@ -424,7 +460,7 @@ WaterState do_blend(const thermo::Database& db, const Step& s, const BlendStep& 
     // them apart; when one part holds it at the water's redox level, the states cannot stay
     // apart in the blend: they join the water's electrons, and the result says so.
     in.redox_splits.clear();
-    std::string merged;
+    std::vector<std::size_t> merged;
     std::vector<std::size_t> split_components;
     for (const auto* part : parts)
         for (const auto& sp : part->basis.redox_splits)
@@ -447,7 +483,7 @@ WaterState do_blend(const thermo::Database& db, const Step& s, const BlendStep& 
         } else {
             any_redox = true;
             electrons += split_e;
-            merged += (merged.empty() ? "" : ", ") + element_of(db, comp);
+            merged.push_back(comp);
         }
     }
     in.pe.reset();
@@ -456,7 +492,7 @@ WaterState do_blend(const thermo::Database& db, const Step& s, const BlendStep& 
     equilibrium::SpeciationResult r = solve(db, in, &parts.front()->result);
     WaterState out = finish(db, s.label, in, std::move(r));
     if (!merged.empty())
-        out.result.warnings.push_back(merged + " given by redox state in one water and at the redox level of another: "
+        out.result.warnings.push_back(given_by_state(db, merged) + " in one water and at the redox level of another: "
                                       "in the blend its states follow one electron balance");
     return out;
 }
@@ -475,7 +511,7 @@ WaterState do_concentrate(const thermo::Database& db, const Step& s, const Conce
     for (std::size_t k = 0; k < c.precipitate.size(); ++k) {
         const SourceLocation at = k < c.precipitate_where.size() ? c.precipitate_where[k] : s.where;
         in.minerals.push_back({mineral_index(db, c.precipitate[k], at, "precipitate"), 0.0, std::nullopt,
-                               settle_only});
+                               /*may_form=*/true, /*may_dissolve=*/false});
     }
     const std::vector<std::string> notes = leave_out_absent(db, in);
     const std::vector<equilibrium::MineralTarget> allowed = in.minerals;
@@ -488,7 +524,7 @@ WaterState do_concentrate(const thermo::Database& db, const Step& s, const Conce
     out.minerals.clear();
     for (std::size_t a = 0; a < allowed.size(); ++a) {
         const double formed = std::max(0.0, -out.result.transfers[a].moles);
-        out.minerals.push_back({allowed[a].mineral, 0.0, formed, equilibrium::MineralTarget::Direction::both});
+        out.minerals.push_back({allowed[a].mineral, 0.0, formed, true, true});
     }
     return out;
 }

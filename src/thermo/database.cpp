@@ -7,6 +7,7 @@
 #include <functional>
 #include <limits>
 #include <map>
+#include <regex>
 #include <sstream>
 
 #include "deltag/database.hpp"
@@ -543,8 +544,16 @@ private:
             else if (kind == "redox_state") a.kind = Analyte::Kind::redox_state;
             else r.fail("kind", "expected \"total\", \"alkalinity\" or \"redox_state\"",
                         nearest_name(kind, {"total", "alkalinity", "redox_state"}));
-            if (a.kind == Analyte::Kind::redox_state)
-                a.electrons = r.require_number("electrons", "the e- per atom in the formation of this state's species (Fe(3): -1)");
+            if (a.kind == Analyte::Kind::redox_state) {
+                // Named by element and signed oxidation state, "Fe +3": a case file gives it
+                // in the element's table, Fe = { "+3" = ... }.
+                static const std::regex state_name(R"([A-Z][a-z]? [+-][0-9]+)");
+                if (!std::regex_match(key, state_name))
+                    throw InputError(at, prefix,
+                                     "an analyte of kind \"redox_state\" is named by its element and its signed "
+                                     "oxidation state, such as \"Fe +3\"; found \"" + key + "\"");
+                a.electrons = r.require_number("electrons", "the e- per atom in the formation of this state's species (Fe +3: -1)");
+            }
             else if (r.has("electrons"))
                 r.fail("electrons", "electrons belongs to an analyte of kind \"redox_state\"");
             const std::string mf = r.string("mass_formula").value_or(key);
