@@ -6,7 +6,9 @@
 // All waters in these tests are invented scenarios.
 #include <doctest/doctest.h>
 
+#include <algorithm>
 #include <cmath>
+#include <iterator>
 #include <cstdio>
 #include <fstream>
 #include <optional>
@@ -2378,4 +2380,49 @@ TEST_CASE("errors: measured dissolved solids and conductance") {
                 "water.w.measured_conductance_25c_us_per_cm", 3, "expected a number, found a boolean");
     check_error("[water.w]\npH = 7\nmeasured_conductance_25c_us_per_cm = 5e6\n",
                 "water.w.measured_conductance_25c_us_per_cm", 3, "is the unit right?");
+}
+
+// --- the one table of step kinds ------------------------------------------------------------
+
+TEST_CASE("step kinds: one table, in the order of the alternatives, each with its keys") {
+    using namespace deltag::process;
+    const auto& table = deltag::io::step_keys();
+    REQUIRE(table.size() == std::variant_size_v<StepAction>);
+    for (std::size_t i = 0; i < table.size(); ++i) {
+        CHECK(table[i].kind == step_kinds[i]);
+        // Every kind takes kind and label; a blend names its waters instead of one water.
+        const auto& keys = table[i].keys;
+        CHECK(std::find(keys.begin(), keys.end(), "kind") != keys.end());
+        CHECK(std::find(keys.begin(), keys.end(), "label") != keys.end());
+    }
+    // step_kind() of each alternative is its name in the table (a property of the visit).
+    Step s;
+    s.action = EquilibrateStep{};
+    CHECK(step_kind(s) == "equilibrate");
+    s.action = DoseStep{};
+    CHECK(step_kind(s) == "dose");
+    s.action = BlendStep{};
+    CHECK(step_kind(s) == "blend");
+    s.action = ConcentrateStep{};
+    CHECK(step_kind(s) == "concentrate");
+    s.action = TemperatureStep{};
+    CHECK(step_kind(s) == "temperature");
+}
+
+TEST_CASE("step kinds: the README's process steps section documents every kind and every key") {
+    std::ifstream f(std::string(DELTAG_SOURCE_DIR) + "/README.md");
+    REQUIRE(f.good());
+    const std::string readme((std::istreambuf_iterator<char>(f)), std::istreambuf_iterator<char>());
+    const auto begin = readme.find("### Process steps");
+    REQUIRE(begin != std::string::npos);
+    const auto end = readme.find("\n### ", begin + 1);
+    const std::string section = readme.substr(begin, end - begin);
+    for (const auto& k : deltag::io::step_keys()) {
+        CAPTURE(k.kind);
+        CHECK(contains(section, "kind = \"" + k.kind + "\""));
+        for (const auto& key : k.keys) {
+            CAPTURE(key);
+            CHECK((contains(section, key + " = ") || contains(section, "`" + key + "`")));
+        }
+    }
 }

@@ -62,6 +62,15 @@ struct Case {
     std::vector<DiagramCase> diagrams;  // [[diagram]] in file order
 };
 
+// The kinds of step a [[step]] table may be (process::step_kinds, in that order) and the
+// keys each takes. The case reader checks steps against it; its messages and the README's
+// list of keys (a test checks) come from it.
+struct StepKindKeys {
+    std::string kind;
+    std::vector<std::string> keys;
+};
+const std::vector<StepKindKeys>& step_keys();
+
 // Reads and validates a case file. Throws InputError (file, line, column, key, what was
 // expected, nearest valid name) on any problem; never returns a partly read case.
 Case read_case(const std::string& path);

@@ -4,9 +4,11 @@
 // code); run_steps() executes them in order on the speciated waters.
 #pragma once
 
+#include <array>
 #include <map>
 #include <optional>
 #include <string>
+#include <string_view>
 #include <variant>
 #include <vector>
 
@@ -41,7 +43,9 @@ struct HeadspaceSpec {
     SourceLocation where;
 };
 
+// Each kind of step is a struct whose `kind` is its name in case files, reports and messages.
 struct EquilibrateStep {
+    static constexpr std::string_view kind = "equilibrate";
     std::vector<MineralSpec> minerals;
     std::vector<GasSpec> gases;
     std::optional<HeadspaceSpec> headspace;
@@ -63,6 +67,7 @@ struct DoseTarget {
 };
 
 struct DoseStep {
+    static constexpr std::string_view kind = "dose";
     std::string reagent;             // formula, e.g. "H2SO4", "Ca(OH)2", "CO2"
     SourceLocation reagent_where;
     std::optional<Amount> amount;    // a fixed dose ...
@@ -71,6 +76,7 @@ struct DoseStep {
 };
 
 struct BlendStep {
+    static constexpr std::string_view kind = "blend";
     enum class Basis { volume, mass };
     Basis basis = Basis::volume;
     std::vector<std::pair<std::string, double>> parts;  // water (or step label) -> fraction
@@ -89,15 +95,33 @@ std::string concentration_factor_problem(double factor);
 std::string recovery_problem(double recovery);
 
 struct ConcentrateStep {
+    static constexpr std::string_view kind = "concentrate";
     double factor = 1.0;             // cycles of concentration, or 1/(1 - recovery)
     std::vector<std::string> precipitate;  // minerals allowed to precipitate (to SI 0)
     std::vector<SourceLocation> precipitate_where;
 };
 
 struct TemperatureStep {
+    static constexpr std::string_view kind = "temperature";
     double temperature_c = 25.0;
     bool equilibrate = false;        // re-equilibrate the minerals and gases present
 };
+
+// The kinds of step. Code that acts on a step dispatches with std::visit over an overload set
+// of every alternative, so that a kind added here fails to compile wherever it is not handled.
+using StepAction = std::variant<EquilibrateStep, DoseStep, BlendStep, ConcentrateStep, TemperatureStep>;
+
+namespace detail {
+template <class V>
+struct KindNames;
+template <class... T>
+struct KindNames<std::variant<T...>> {
+    static constexpr std::array<std::string_view, sizeof...(T)> value{T::kind...};
+};
+}  // namespace detail
+
+// The names of the kinds, in the order of StepAction's alternatives.
+inline constexpr auto step_kinds = detail::KindNames<StepAction>::value;
 
 struct Step {
     std::string label;               // default: "step N (KIND)"
@@ -109,10 +133,10 @@ struct Step {
     // apart (Fe(2), Fe(3)) into the element's total and the water's electrons. True keeps
     // them apart through this step; the result says so.
     bool keep_redox_states_apart = false;
-    std::variant<EquilibrateStep, DoseStep, BlendStep, ConcentrateStep, TemperatureStep> action;
+    StepAction action;
 };
 
-std::string_view step_kind(const Step& s);  // "equilibrate", "dose", ...
+std::string_view step_kind(const Step& s);  // the `kind` of its action: "equilibrate", "dose", ...
 
 // One input varied over a range, many solves.
 struct Sweep {

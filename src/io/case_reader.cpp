@@ -36,6 +36,7 @@
 #include <regex>
 #include <sstream>
 #include <tuple>
+#include <type_traits>
 #include <utility>
 #include <variant>
 
@@ -407,18 +408,35 @@ WaterAnalysis read_water(const std::string& name, const toml::node& node, const 
 
 // --- steps and sweeps ---------------------------------------------------------------------
 
-const std::vector<std::string> step_kinds = {"equilibrate", "dose", "blend", "concentrate", "temperature"};
+// The names of the kinds of step (process::step_kinds), as the name lists below take them.
+const std::vector<std::string> step_kinds(process::step_kinds.begin(), process::step_kinds.end());
 
-// The keys each kind of step takes. A blend has no `water`: it names its waters in `waters`.
+// The keys each kind of step takes, one overload per alternative of process::StepAction, so a
+// kind without its keys does not compile. A blend has no `water`: it names its waters in `waters`.
+std::vector<std::string> keys_of(std::type_identity<process::EquilibrateStep>) {
+    return {"kind", "label", "water", "solids", "partial_pressures", "headspace", "keep_redox_states_apart"};
+}
+std::vector<std::string> keys_of(std::type_identity<process::DoseStep>) {
+    return {"kind", "label", "water", "reagent", "amount", "until", "max_amount", "keep_redox_states_apart"};
+}
+std::vector<std::string> keys_of(std::type_identity<process::BlendStep>) { return {"kind", "label", "waters", "by"}; }
+std::vector<std::string> keys_of(std::type_identity<process::ConcentrateStep>) {
+    return {"kind", "label", "water", "factor", "recovery", "precipitate"};
+}
+std::vector<std::string> keys_of(std::type_identity<process::TemperatureStep>) {
+    return {"kind", "label", "water", "temperature_c", "equilibrate", "keep_redox_states_apart"};
+}
+
+template <std::size_t... I>
+std::vector<StepKindKeys> make_step_keys(std::index_sequence<I...>) {
+    return {StepKindKeys{std::string(process::step_kinds[I]),
+                         keys_of(std::type_identity<std::variant_alternative_t<I, process::StepAction>>{})}...};
+}
+
 const std::vector<std::string>& keys_of_kind(std::string_view kind) {
-    static const std::map<std::string, std::vector<std::string>, std::less<>> keys = {
-        {"equilibrate", {"kind", "label", "water", "solids", "partial_pressures", "headspace", "keep_redox_states_apart"}},
-        {"dose", {"kind", "label", "water", "reagent", "amount", "until", "max_amount", "keep_redox_states_apart"}},
-        {"blend", {"kind", "label", "waters", "by"}},
-        {"concentrate", {"kind", "label", "water", "factor", "recovery", "precipitate"}},
-        {"temperature", {"kind", "label", "water", "temperature_c", "equilibrate", "keep_redox_states_apart"}},
-    };
-    return keys.find(kind)->second;
+    for (const auto& k : step_keys())
+        if (k.kind == kind) return k.keys;
+    throw std::logic_error("no step kind '" + std::string(kind) + "'");
 }
 
 const std::vector<std::string> solid_keys = {"hold_si", "on_hand_mmol_per_kgw", "on_hand_mol_per_kgw", "may_form",
@@ -438,13 +456,6 @@ const std::vector<std::string> output_prefixes = {"si", "transfer", "total"};
 
 std::string default_step_label(std::size_t n, std::string_view kind) {
     return "step " + std::to_string(n) + " (" + std::string(kind) + ")";
-}
-
-// The kind's name; the order is that of the alternatives of process::Step::action.
-std::string kind_of(const process::Step& s) {
-    static_assert(std::variant_size_v<decltype(process::Step::action)> == 5);
-    static const char* names[] = {"equilibrate", "dose", "blend", "concentrate", "temperature"};
-    return names[s.action.index()];
 }
 
 // The range check of `ranged`, for a value already read.
@@ -725,7 +736,8 @@ std::vector<process::GasSpec> read_partial_pressures(tomlu::TableReader& r, cons
     return out;
 }
 
-process::EquilibrateStep read_equilibrate(tomlu::TableReader& r) {
+process::EquilibrateStep read_action(std::type_identity<process::EquilibrateStep>, const StepContext&, std::size_t,
+                                     tomlu::TableReader& r) {
     process::EquilibrateStep e;
     e.minerals = read_solids(r);
     e.gases = read_partial_pressures(r, "the gas held at this partial pressure");
@@ -822,7 +834,7 @@ process::DoseTarget read_until(tomlu::TableReader& r) {
     return d;
 }
 
-process::DoseStep read_dose(tomlu::TableReader& r) {
+process::DoseStep read_action(std::type_identity<process::DoseStep>, const StepContext&, std::size_t, tomlu::TableReader& r) {
     process::DoseStep d;
     d.reagent = r.require_string("reagent", "the reagent, a formula such as \"H2SO4\" or \"Ca(OH)2\"");
     if (d.reagent.empty()) r.fail("reagent", "expected the reagent's formula, such as \"H2SO4\", found an empty string");
@@ -844,7 +856,8 @@ process::DoseStep read_dose(tomlu::TableReader& r) {
     return d;
 }
 
-process::BlendStep read_blend(const StepContext& c, std::size_t n, tomlu::TableReader& r) {
+process::BlendStep read_action(std::type_identity<process::BlendStep>, const StepContext& c, std::size_t n,
+                               tomlu::TableReader& r) {
     process::BlendStep b;
     const toml::node* wn = r.node("waters");
     if (!wn)
@@ -878,7 +891,8 @@ process::BlendStep read_blend(const StepContext& c, std::size_t n, tomlu::TableR
     return b;
 }
 
-process::ConcentrateStep read_concentrate(tomlu::TableReader& r) {
+process::ConcentrateStep read_action(std::type_identity<process::ConcentrateStep>, const StepContext&, std::size_t,
+                                     tomlu::TableReader& r) {
     process::ConcentrateStep k;
     const bool factor = r.has("factor"), recovery = r.has("recovery");
     if (factor && recovery)
@@ -916,16 +930,31 @@ process::ConcentrateStep read_concentrate(tomlu::TableReader& r) {
     return k;
 }
 
-process::TemperatureStep read_temperature(tomlu::TableReader& r) {
+process::TemperatureStep read_action(std::type_identity<process::TemperatureStep>, const StepContext&, std::size_t,
+                                     tomlu::TableReader& r) {
     process::TemperatureStep t;
     const auto tc = ranged(r, "temperature_c", 0.0, 100.0, "a temperature", " °C",
-                           " (the range of the water-property correlations)");
+                        " (the range of the water-property correlations)");
     if (!tc)
         throw InputError(r.table_location(), r.dotted("temperature_c"),
                          "missing: a step of kind 'temperature' needs temperature_c = ... (°C)");
     t.temperature_c = *tc;
     t.equilibrate = r.boolean("equilibrate").value_or(false);
     return t;
+}
+
+// The action of the kind named, read by the read_action overload of its alternative.
+template <std::size_t... I>
+process::StepAction read_action_of_kind(std::string_view kind, const StepContext& c, std::size_t n, tomlu::TableReader& r,
+                                        std::index_sequence<I...>) {
+    process::StepAction a;
+    const bool found =
+        ((kind == process::step_kinds[I]
+              ? (a = read_action(std::type_identity<std::variant_alternative_t<I, process::StepAction>>{}, c, n, r), true)
+              : false) ||
+         ...);
+    if (!found) throw std::logic_error("no step kind '" + std::string(kind) + "'");
+    return a;
 }
 
 process::Step read_step(const StepContext& c, std::size_t n, const toml::table& t) {
@@ -967,11 +996,7 @@ process::Step read_step(const StepContext& c, std::size_t n, const toml::table& 
                              "); name the one it starts from: water = \"" + names.front() + "\"");
     }
 
-    if (*kind == "equilibrate") s.action = read_equilibrate(r);
-    else if (*kind == "dose") s.action = read_dose(r);
-    else if (*kind == "blend") s.action = read_blend(c, n, r);
-    else if (*kind == "concentrate") s.action = read_concentrate(r);
-    else s.action = read_temperature(r);
+    s.action = read_action_of_kind(*kind, c, n, r, std::make_index_sequence<std::variant_size_v<process::StepAction>>{});
     // Only the kinds that bring the water to one redox level take this key (check_step_keys).
     s.keep_redox_states_apart = r.boolean("keep_redox_states_apart").value_or(false);
     if (r.has("keep_redox_states_apart") && *kind == "temperature" && !std::get<process::TemperatureStep>(s.action).equilibrate)
@@ -1069,10 +1094,10 @@ process::Sweep read_sweep(const std::string& file, std::size_t n, const toml::ta
                               : variable == "dose"        ? "dose"
                               : variable == "factor"      ? "concentrate"
                                                           : "blend";
-    if (kind_of(*step) != needs)
+    if (std::string(process::step_kind(*step)) != needs)
         r.fail("variable", "the variable '" + variable + "' is an input of a step of kind '" + needs + "', but step '" +
                                step->label + "' (line " + std::to_string(step->where.line) + ") is of kind '" +
-                               kind_of(*step) + "'");
+                               std::string(process::step_kind(*step)) + "'");
     std::string unit;
     if (variable == "temperature_c") {
         sw.variable = Variable::temperature_c;
@@ -1274,7 +1299,7 @@ CellElectrode read_electrode(tomlu::TableReader& r, const std::string& which, co
         check_result_name(c.waters, c.steps, e.water, e.water_where, er.dotted("water"));
     }
     e.temperature_c = ranged(er, "temperature_c", 0.0, 100.0, "a temperature", " °C",
-                             " (the range of the water-property correlations)");
+                        " (the range of the water-property correlations)");
     const auto species = species_of(reaction);
     for (const auto& a : read_activities(er)) {
         if (!among(a.species, species))
@@ -1316,7 +1341,7 @@ CellSpec read_cell(const std::string& file, const Case& c, std::size_t n, const 
         check_result_name(c.waters, c.steps, water, water_where, r.dotted("water"));
     }
     const auto temperature_c = ranged(r, "temperature_c", 0.0, 100.0, "a temperature", " °C",
-                                      " (the range of the water-property correlations)");
+                        " (the range of the water-property correlations)");
 
     chem::Reaction cathode_reaction, anode_reaction;
     SourceLocation cathode_where, anode_where;
@@ -1398,7 +1423,7 @@ DiagramCase read_diagram(const std::string& file, const Case& c, std::size_t n, 
                d.element.size() <= 3 ? nearest_name(d.element, chem::element_symbols()) : std::string());
 
     d.temperature_c = ranged(r, "temperature_c", 0.0, 100.0, "a temperature", " °C",
-                             " (the range of the water-property correlations)");
+                        " (the range of the water-property correlations)");
     at_most_one(r, {"log_activity", "activity"},
                 "give the activity of the dissolved species once, as log_activity or activity");
     if (auto la = ranged(r, "log_activity", -12.0, 0.0, "a log10 activity of the dissolved species")) d.log_activity = *la;
@@ -1444,6 +1469,12 @@ DiagramCase read_diagram(const std::string& file, const Case& c, std::size_t n, 
 }
 
 }  // namespace
+
+const std::vector<StepKindKeys>& step_keys() {
+    static const std::vector<StepKindKeys> table =
+        make_step_keys(std::make_index_sequence<std::variant_size_v<process::StepAction>>{});
+    return table;
+}
 
 Case parse_case(std::string_view toml_text, const std::string& origin) {
     const toml::table root = tomlu::parse(toml_text, origin);

@@ -14,6 +14,7 @@
 #include "deltag/process.hpp"
 #include "deltag/water_properties.hpp"
 #include "process/root.hpp"
+#include "util/overloaded.hpp"
 
 namespace deltag::process {
 
@@ -582,14 +583,7 @@ std::string recovery_problem(double recovery) {
 }
 
 std::string_view step_kind(const Step& s) {
-    switch (s.action.index()) {
-        case 0: return "equilibrate";
-        case 1: return "dose";
-        case 2: return "blend";
-        case 3: return "concentrate";
-        case 4: return "temperature";
-    }
-    return "";
+    return std::visit([](const auto& a) { return std::decay_t<decltype(a)>::kind; }, s.action);
 }
 
 WaterState state_from_result(const equilibrium::SpeciationResult& r, const equilibrium::SpeciationInput& input,
@@ -630,23 +624,26 @@ std::vector<StepOutcome> run_steps(const thermo::Database& db, const std::vector
         StepOutcome o;
         o.label = s.label;
         o.kind = std::string(step_kind(s));
-        if (const auto* e = std::get_if<EquilibrateStep>(&s.action)) {
-            o.state = do_equilibrate(db, s, *e, *from);
-        } else if (const auto* d = std::get_if<DoseStep>(&s.action)) {
-            StepOutcome r = do_dose(db, s, *d, *from);
-            o.state = std::move(r.state);
-            o.dose = r.dose;
-        } else if (const auto* b = std::get_if<BlendStep>(&s.action)) {
-            std::vector<const WaterState*> parts;
-            for (std::size_t k = 0; k < b->parts.size(); ++k)
-                parts.push_back(&find_state(known, b->parts[k].first,
-                                            k < b->part_where.size() ? b->part_where[k] : s.where, "waters"));
-            o.state = do_blend(db, s, *b, parts);
-        } else if (const auto* c = std::get_if<ConcentrateStep>(&s.action)) {
-            o.state = do_concentrate(db, s, *c, *from);
-        } else if (const auto* t = std::get_if<TemperatureStep>(&s.action)) {
-            o.state = do_temperature(db, s, *t, *from);
-        }
+        // One lambda per kind: a kind added to StepAction and not handled here does not compile.
+        std::visit(Overloaded{
+                       [&](const EquilibrateStep& e) { o.state = do_equilibrate(db, s, e, *from); },
+                       [&](const DoseStep& d) {
+                           StepOutcome r = do_dose(db, s, d, *from);
+                           o.state = std::move(r.state);
+                           o.dose = r.dose;
+                       },
+                       [&](const BlendStep& b) {
+                           std::vector<const WaterState*> parts;
+                           for (std::size_t k = 0; k < b.parts.size(); ++k)
+                               parts.push_back(&find_state(known, b.parts[k].first,
+                                                           k < b.part_where.size() ? b.part_where[k] : s.where,
+                                                           "waters"));
+                           o.state = do_blend(db, s, b, parts);
+                       },
+                       [&](const ConcentrateStep& c) { o.state = do_concentrate(db, s, c, *from); },
+                       [&](const TemperatureStep& t) { o.state = do_temperature(db, s, t, *from); },
+                   },
+                   s.action);
         known[s.label] = o.state;
         out.push_back(std::move(o));
         previous = &known[s.label];
