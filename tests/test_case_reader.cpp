@@ -1028,7 +1028,7 @@ TEST_CASE("errors: headspace") {
     SUBCASE("a temperature out of range") {
         check_error(step_of("equilibrate",
                             "headspace = { litres_per_kgw = 0.5, temperature_c = 120, partial_pressures = { CO2 = { ppmv = 420 } } }\n"),
-                    "step[1].headspace.temperature_c", first, "expected a temperature in degC from 0 to 100");
+                    "step[1].headspace.temperature_c", first, "expected a temperature from 0 to 100 °C (the range of the water-property correlations), found 120");
     }
 }
 
@@ -1627,7 +1627,7 @@ TEST_CASE("errors: sweeps") {
     }
     SUBCASE("a temperature out of range") {
         check_error(sweep_with("step = \"heat\"\nvariable = \"temperature_c\"\nfrom = 10\nto = 120\n"), "sweep[1].to",
-                    sw + 3, "expected a temperature from 0 to 100 °C, found 120");
+                    sw + 3, "expected a temperature from 0 to 100 °C (the range of the water-property correlations), found 120");
     }
     SUBCASE("a negative dose, in the step's unit") {
         check_error(sweep_with("step = \"lime\"\nvariable = \"dose\"\nfrom = -1\nto = 2\n"), "sweep[1].from", sw + 2,

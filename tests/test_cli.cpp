@@ -388,7 +388,7 @@ TEST_CASE("cell: bad half-reactions and activities exit 2 with a clear message")
     fails("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --activity 'Cu^2+=1'", "no activity for 'Zn^2+'");
     fails("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --activity 'Cu^2+'", "expected SPECIES=VALUE");
     fails("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --activity 'Cu^2+=-3'", "must be a positive number");
-    fails("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --temperature-c 150", "0-100");
+    fails("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --temperature-c 150", "expected a temperature from 0 to 100 °C");
     fails("cell --cathode 'Cu^2+ + 2 e- = Cu(s)' --anode 'Zn^2+ + 2 e- = Zn(s)' --ph 15", "pH within 0-14");
 }
 

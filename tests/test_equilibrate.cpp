@@ -270,7 +270,7 @@ TEST_CASE("closed headspace: calcite in a sealed vessel with a little CO2") {
     CHECK_THROWS_WITH_AS((void)speciate(core(), bad), doctest::Contains("at least one gas"), InputError);
     bad = in;
     bad.headspace->temperature_c = 150.0;
-    CHECK_THROWS_WITH_AS((void)speciate(core(), bad), doctest::Contains("headspace temperature within 0-100"), InputError);
+    CHECK_THROWS_WITH_AS((void)speciate(core(), bad), doctest::Contains("headspace temperature: expected a temperature from 0 to 100 °C"), InputError);
     bad = in;
     bad.headspace->gases.push_back(bad.headspace->gases.front());
     CHECK_THROWS_WITH_AS((void)speciate(core(), bad), doctest::Contains("listed twice in the headspace"), InputError);

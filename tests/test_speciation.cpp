@@ -6,6 +6,7 @@
 
 #include "deltag/constants.hpp"
 #include "deltag/speciation.hpp"
+#include "deltag/water_properties.hpp"
 
 using namespace deltag;
 using namespace deltag::equilibrium;
@@ -301,7 +302,7 @@ TEST_CASE("speciate rejects input it cannot set up") {
     };
     SpeciationInput in;
     in.temperature_c = 120.0;
-    expect_input_error(in, "0-100 degC");
+    expect_input_error(in, "expected a temperature from 0 to 100 °C (the range of the water-property correlations), found 120");
     in = {};
     in.ph = 15.0;
     expect_input_error(in, "pH within 0-14");
@@ -546,4 +547,34 @@ TEST_CASE("oxygen held with the electrons conserved: the gas gives the pe, whate
     REQUIRE(r.pe.has_value());
     CHECK(*r.pe == doctest::Approx(20.78 - 7.4 - 0.17).epsilon(0.003));
     CHECK(r.summary.iterations <= 40);
+}
+
+TEST_CASE("a temperature just outside the accepted range is refused with the message naming the limit") {
+    // The limit is thermo::accepted_temperature_c (0-100 degC today); the ends themselves are
+    // accepted, 0.01 degC beyond either is not.
+    const auto range = thermo::accepted_temperature_c;
+    CHECK(range.min_c == 0.0);
+    CHECK(range.max_c == 100.0);
+    const std::string limit = "from " + message_number(range.min_c) + " to " + message_number(range.max_c) + " °C";
+    for (double t : {range.min_c - 0.01, range.max_c + 0.01}) {
+        CAPTURE(t);
+        SpeciationInput in;
+        in.temperature_c = t;
+        try {
+            (void)speciate(core(), in);
+            FAIL("expected an InputError");
+        } catch (const InputError& e) {
+            CHECK(e.key() == "temperature_c");
+            CHECK(std::string(e.what()).find("expected a temperature " + limit) != std::string::npos);
+            CHECK(std::string(e.what()).find("found " + message_number(t)) != std::string::npos);
+        }
+    }
+    for (double t : {range.min_c, range.max_c}) {
+        CAPTURE(t);
+        SpeciationInput in;
+        in.temperature_c = t;
+        CHECK_NOTHROW((void)speciate(core(), in));
+    }
+    CHECK(thermo::temperature_problem(range.max_c).empty());
+    CHECK_FALSE(thermo::temperature_problem(std::nan("")).empty());
 }

@@ -13,14 +13,9 @@
 
 #include "deltag/chem.hpp"
 #include "deltag/error.hpp"
+#include "deltag/water_properties.hpp"
 
 namespace deltag::thermo {
-
-struct TemperatureRange {
-    double min_c = 0.0;
-    double max_c = 100.0;
-    bool contains(double t_c) const { return t_c >= min_c - 1e-9 && t_c <= max_c + 1e-9; }
-};
 
 // How one database entry gives log K as a function of temperature.
 struct LogKModel {

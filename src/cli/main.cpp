@@ -20,6 +20,7 @@
 #include "deltag/report.hpp"
 #include "deltag/speciation.hpp"
 #include "deltag/water.hpp"
+#include "deltag/water_properties.hpp"
 
 namespace fs = std::filesystem;
 using namespace deltag;
@@ -272,7 +273,7 @@ int cmd_cell(const std::string& cathode, const std::string& anode, const std::ve
         l = load_database(db_path, cmd);
         db = l.db;
     }
-    if (!(t >= 0.0 && t <= 100.0)) throw InputError(cmd, "--temperature-c", "expected a temperature within 0-100 degC");
+    if (const std::string p = thermo::temperature_problem(t); !p.empty()) throw InputError(cmd, "--temperature-c", p);
     if (ph) {
         if (!(*ph >= 0.0 && *ph <= 14.0)) throw InputError(cmd, "--ph", "expected a pH within 0-14");
         acts["H+"] = std::pow(10.0, -*ph);
@@ -291,8 +292,8 @@ int cmd_cell(const std::string& cathode, const std::string& anode, const std::ve
 int cmd_potential(std::optional<double> value_v, const std::string& from, const std::string& to, double temperature_c,
                   std::optional<double> delta_g_kj, std::optional<double> electrons, const std::string& format) {
     const SourceLocation cmd{"command line", 0, 0};
-    if (!(temperature_c >= 0.0 && temperature_c <= 100.0))
-        throw InputError(cmd, "--temperature-c", "expected a temperature within 0-100 degC");
+    if (const std::string p = thermo::temperature_problem(temperature_c); !p.empty())
+        throw InputError(cmd, "--temperature-c", p);
     if (delta_g_kj) {
         // The other way: a Gibbs energy to the potential that drives it, E = -dG/(nF).
         if (!electrons || !(*electrons > 0))

@@ -20,6 +20,7 @@
 
 #include "deltag/constants.hpp"
 #include "deltag/speciation.hpp"
+#include "deltag/water_properties.hpp"
 #include "equilibrium/probe.hpp"
 #include "equilibrium/system.hpp"
 
@@ -495,8 +496,8 @@ namespace {
 
 void validate_input(const thermo::Database& db, const SpeciationInput& in) {
     const SourceLocation here{in.label.empty() ? std::string("speciation input") : in.label, 0, 0};
-    if (!std::isfinite(in.temperature_c) || in.temperature_c < 0.0 || in.temperature_c > 100.0)
-        throw InputError(here, "temperature_c", "expected a temperature within 0-100 degC");
+    if (const std::string p = thermo::temperature_problem(in.temperature_c); !p.empty())
+        throw InputError(here, "temperature_c", p);
     if (in.ph && (!std::isfinite(*in.ph) || *in.ph < 0.0 || *in.ph > 14.0))
         throw InputError(here, "pH", "expected a pH within 0-14");
     if (in.pe && !std::isfinite(*in.pe)) throw InputError(here, "pe", "expected a finite pe");
@@ -560,8 +561,8 @@ void validate_input(const thermo::Database& db, const SpeciationInput& in) {
         const Headspace& h = *in.headspace;
         if (!(std::isfinite(h.volume_l_per_kgw) && h.volume_l_per_kgw > 0))
             throw InputError(here, "headspace", "expected a headspace volume > 0 L per kg of water");
-        if (h.temperature_c && !(*h.temperature_c >= 0 && *h.temperature_c <= 100))
-            throw InputError(here, "headspace", "expected a headspace temperature within 0-100 degC");
+        if (h.temperature_c && !thermo::accepted_temperature_c.contains(*h.temperature_c))
+            throw InputError(here, "headspace", "headspace temperature: " + thermo::temperature_problem(*h.temperature_c));
         if (h.gases.empty()) throw InputError(here, "headspace", "a headspace needs at least one gas with its starting partial pressure");
         for (std::size_t a = 0; a < h.gases.size(); ++a) {
             const auto& g = h.gases[a];

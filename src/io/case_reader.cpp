@@ -43,6 +43,7 @@
 #include "deltag/chem.hpp"
 #include "deltag/process.hpp"
 #include "deltag/reference_electrodes.hpp"
+#include "deltag/water_properties.hpp"
 #include "thermo/toml_util.hpp"
 
 namespace deltag::io {
@@ -72,6 +73,14 @@ std::optional<double> ranged(tomlu::TableReader& r, std::string_view key, double
     if (v && (*v < lo || *v > hi))
         r.fail(key, "expected " + what + " from " + message_number(lo) + " to " + message_number(hi) + unit + why +
                         ", found " + message_number(*v));
+    return v;
+}
+
+// A temperature, checked against thermo::accepted_temperature_c.
+std::optional<double> temperature(tomlu::TableReader& r, std::string_view key) {
+    auto v = r.number(key);
+    if (v)
+        if (const std::string p = thermo::temperature_problem(*v); !p.empty()) r.fail(key, p);
     return v;
 }
 
@@ -319,8 +328,7 @@ WaterAnalysis read_water(const std::string& name, const toml::node& node, const 
                              tomlu::type_name(node));
 
     tomlu::TableReader r(*t, file, prefix);
-    if (auto v = ranged(r, "temperature_c", 0.0, 100.0, "a temperature", " °C",
-                        " (the range of the water-property correlations)"))
+    if (auto v = temperature(r, "temperature_c"))
         w.temperature_c = *v;
     w.ph = ranged(r, "pH", 0.0, 14.0, "a pH");
     read_redox(r, w);
@@ -749,7 +757,7 @@ process::EquilibrateStep read_action(std::type_identity<process::EquilibrateStep
         spec.where = r.location("headspace");
         if (!h.has("litres_per_kgw")) h.fail("litres_per_kgw", "missing: expected the gas volume in litres per kg of water");
         spec.volume_l_per_kgw = *ranged(h, "litres_per_kgw", 1e-9, 1e6, "litres of gas per kg of water");
-        if (h.has("temperature_c")) spec.temperature_c = ranged(h, "temperature_c", 0.0, 100.0, "a temperature in degC");
+        if (h.has("temperature_c")) spec.temperature_c = temperature(h, "temperature_c");
         spec.gases = read_partial_pressures(h, "the gas that starts at this partial pressure");
         if (spec.gases.empty())
             h.fail("partial_pressures", "missing: expected the starting partial pressures of the gas space, such as "
@@ -933,8 +941,7 @@ process::ConcentrateStep read_action(std::type_identity<process::ConcentrateStep
 process::TemperatureStep read_action(std::type_identity<process::TemperatureStep>, const StepContext&, std::size_t,
                                      tomlu::TableReader& r) {
     process::TemperatureStep t;
-    const auto tc = ranged(r, "temperature_c", 0.0, 100.0, "a temperature", " °C",
-                        " (the range of the water-property correlations)");
+    const auto tc = temperature(r, "temperature_c");
     if (!tc)
         throw InputError(r.table_location(), r.dotted("temperature_c"),
                          "missing: a step of kind 'temperature' needs temperature_c = ... (°C)");
@@ -1120,7 +1127,7 @@ process::Sweep read_sweep(const std::string& file, std::size_t n, const toml::ta
     for (const char* key : {"from", "to"}) {
         const double v = std::string_view(key) == "from" ? sw.from : sw.to;
         switch (sw.variable) {
-            case Variable::temperature_c: check_range(r, key, v, 0.0, 100.0, "a temperature", " °C"); break;
+            case Variable::temperature_c: if (const std::string p = thermo::temperature_problem(v); !p.empty()) r.fail(key, p); break;
             case Variable::dose:
                 if (v < 0.0) r.fail(key, "expected a dose of zero or more in" + unit + ", found " + message_number(v));
                 break;
@@ -1298,8 +1305,7 @@ CellElectrode read_electrode(tomlu::TableReader& r, const std::string& which, co
         e.water_where = key_where(*t, "water", r.file());
         check_result_name(c.waters, c.steps, e.water, e.water_where, er.dotted("water"));
     }
-    e.temperature_c = ranged(er, "temperature_c", 0.0, 100.0, "a temperature", " °C",
-                        " (the range of the water-property correlations)");
+    e.temperature_c = temperature(er, "temperature_c");
     const auto species = species_of(reaction);
     for (const auto& a : read_activities(er)) {
         if (!among(a.species, species))
@@ -1340,8 +1346,7 @@ CellSpec read_cell(const std::string& file, const Case& c, std::size_t n, const 
         water_where = key_where(t, "water", r.file());
         check_result_name(c.waters, c.steps, water, water_where, r.dotted("water"));
     }
-    const auto temperature_c = ranged(r, "temperature_c", 0.0, 100.0, "a temperature", " °C",
-                        " (the range of the water-property correlations)");
+    const auto temperature_c = temperature(r, "temperature_c");
 
     chem::Reaction cathode_reaction, anode_reaction;
     SourceLocation cathode_where, anode_where;
@@ -1422,8 +1427,7 @@ DiagramCase read_diagram(const std::string& file, const Case& c, std::size_t n, 
         r.fail("element", "unknown element '" + d.element + "'; expected an element symbol such as Fe, Cu or Mn",
                d.element.size() <= 3 ? nearest_name(d.element, chem::element_symbols()) : std::string());
 
-    d.temperature_c = ranged(r, "temperature_c", 0.0, 100.0, "a temperature", " °C",
-                        " (the range of the water-property correlations)");
+    d.temperature_c = temperature(r, "temperature_c");
     at_most_one(r, {"log_activity", "activity"},
                 "give the activity of the dissolved species once, as log_activity or activity");
     if (auto la = ranged(r, "log_activity", -12.0, 0.0, "a log10 activity of the dissolved species")) d.log_activity = *la;

@@ -7,8 +7,16 @@
 #include <numbers>
 
 #include "deltag/constants.hpp"
+#include "deltag/error.hpp"
 
 namespace deltag::thermo {
+
+std::string temperature_problem(double temperature_c) {
+    if (accepted_temperature_c.contains(temperature_c)) return "";
+    return "expected a temperature from " + message_number(accepted_temperature_c.min_c) + " to " +
+           message_number(accepted_temperature_c.max_c) + " °C (the range of the water-property correlations), found " +
+           message_number(temperature_c);
+}
 
 // Kell (1975) J. Chem. Eng. Data 20, 97: density of air-free water at 1 atm, 0-150 degC,
 // as a rational function of t (degC), result in kg/m^3.
