@@ -432,8 +432,8 @@ TEST_CASE("errors: the keys of a water") {
     }
     SUBCASE("unknown unit, nearest name suggested") {
         check_error("[water.a]\nunits = \"mg/l\"\n", "water.a.units", 2,
-                    "unknown concentration unit 'mg/l'; expected one of: mg/L, ug/L, µg/L, mmol/L, umol/L, "
-                    "µmol/L, mol/L, meq/L, mg/kg, ppm, mol/kgw, mmol/kgw",
+                    "unknown concentration unit 'mg/l'; expected one of: mg/L, ug/L, µg/L, g/L, mol/L, mmol/L, "
+                    "umol/L, µmol/L, meq/L, mg/kg, ppm, mol/kgw, mmol/kgw, umol/kgw, µmol/kgw, mg/kgw, g/kgw",
                     "mg/L");
     }
     SUBCASE("analytes not a table") {
@@ -1380,12 +1380,23 @@ TEST_CASE("errors: dose") {
     }
     SUBCASE("amount without unit") {
         check_error(step_of("dose", reagent + "amount = { value = 0.5 }\n"), "step[1].amount.unit", first + 1,
-                    "missing: expected the unit of the amount, one of: mol/kgw, mmol/kgw, umol/kgw, mg/kgw, g/kgw, "
-                    "mol/L, mmol/L, umol/L, mg/L, g/L");
+                    "missing: expected the unit of the amount, one of: mg/L, ug/L, g/L, mol/L, mmol/L, umol/L, "
+                    "mol/kgw, mmol/kgw, umol/kgw, mg/kgw, g/kgw");
     }
     SUBCASE("an unknown unit, nearest name suggested") {
         check_error(step_of("dose", reagent + "amount = { value = 0.5, unit = \"mmol/kg\" }\n"), "step[1].amount.unit",
-                    first + 1, "unknown unit of amount 'mmol/kg'; expected one of: mol/kgw, mmol/kgw", "mmol/kgw");
+                    first + 1, "unknown unit of amount 'mmol/kg'; expected one of: mg/L, ug/L", "mmol/kgw");
+    }
+    SUBCASE("a concentration per kg of solution is no unit of a dose") {
+        check_error(step_of("dose", reagent + "amount = { value = 0.5, unit = \"mg/kg\" }\n"), "step[1].amount.unit",
+                    first + 1,
+                    "'mg/kg' is per kg of solution; give a dose per kg of water (mg/kgw) or per litre (mg/L); expected "
+                    "one of: mg/L",
+                    "mg/kgw");
+    }
+    SUBCASE("equivalents are no unit of a dose") {
+        check_error(step_of("dose", reagent + "amount = { value = 0.5, unit = \"meq/L\" }\n"), "step[1].amount.unit",
+                    first + 1, "'meq/L' counts equivalents, which a neutral reagent does not have");
     }
     SUBCASE("an unknown key in amount, nearest name suggested") {
         check_error(step_of("dose", reagent + "amount = { value = 0.5, unit = \"mg/L\", units = \"mg/L\" }\n"),

@@ -661,7 +661,40 @@ TEST_CASE("a dose amount in a unit the library does not know is refused (built i
     d.reagent = "HCl";
     d.amount = Amount{1.0, "kg/ton", SourceLocation{"code", 7, 1}};
     s.action = d;
-    CHECK_THROWS_WITH_AS(run_steps(core(), r.waters, {s}), doctest::Contains("unknown unit 'kg/ton' for an amount"), InputError);
+    CHECK_THROWS_WITH_AS(run_steps(core(), r.waters, {s}), doctest::Contains("unknown unit of amount 'kg/ton'; expected one of: mg/L"), InputError);
+}
+
+TEST_CASE("a dose amount per kg of solution or in equivalents is refused (built in code)") {
+    const Run r = run(water);
+    Step s;
+    s.label = "ppm dose";
+    s.water = "raw";
+    DoseStep d;
+    d.reagent = "HCl";
+    d.amount = Amount{1.0, "ppm", SourceLocation{"code", 7, 1}};
+    s.action = d;
+    CHECK_THROWS_WITH_AS(run_steps(core(), r.waters, {s}),
+                         doctest::Contains("'ppm' is per kg of solution; give a dose per kg of water (mg/kgw)"), InputError);
+    d.amount->unit = "meq/L";
+    s.action = d;
+    CHECK_THROWS_WITH_AS(run_steps(core(), r.waters, {s}), doctest::Contains("'meq/L' counts equivalents"), InputError);
+}
+
+TEST_CASE("a dose in mg/kgw and the same dose in mmol/kgw give the same water") {
+    // 36.458 mg of HCl per kg of water is 1 mmol/kgw (H 1.008 + Cl 35.45 = 36.458 g/mol, IUPAC
+    // abridged standard atomic weights).
+    const Run r = run(water);
+    auto dose = [&](double value, const char* unit) {
+        Step s;
+        s.label = "acid";
+        s.water = "raw";
+        DoseStep d;
+        d.reagent = "HCl";
+        d.amount = Amount{value, unit, SourceLocation{"code", 1, 1}};
+        s.action = d;
+        return run_steps(core(), r.waters, {s}).front().dose->mol_per_kgw;
+    };
+    CHECK(dose(36.458, "mg/kgw") == doctest::Approx(dose(1.0, "mmol/kgw")).epsilon(1e-4));
 }
 
 // --- Langelier index, CCPP: the definitions held to their meaning -------------------------

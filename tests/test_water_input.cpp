@@ -9,6 +9,8 @@
 #include <doctest/doctest.h>
 
 #include <algorithm>
+#include <fstream>
+#include <iterator>
 #include <optional>
 #include <string>
 
@@ -161,10 +163,14 @@ void check_error(const WaterAnalysis& w, const std::string& key, int line, const
 
 TEST_CASE("the concentration units") {
     const auto& u = deltag::concentration_units();
-    for (const char* name : {"mg/L", "ug/L", "\u00B5g/L", "mmol/L", "umol/L", "\u00B5mol/L", "mol/L", "meq/L", "mg/kg",
-                             "ppm", "mol/kgw", "mmol/kgw"})
+    for (const char* name : {"mg/L", "ug/L", "\u00B5g/L", "g/L", "mmol/L", "umol/L", "\u00B5mol/L", "mol/L", "meq/L",
+                             "mg/kg", "ppm", "mol/kgw", "mmol/kgw", "umol/kgw", "\u00B5mol/kgw", "mg/kgw", "g/kgw"})
         CHECK(std::find(u.begin(), u.end(), name) != u.end());
-    CHECK(u.size() == 12);
+    CHECK(u.size() == 17);
+    // Every name in the list is found in the one table, and every entry's name is in the list.
+    for (const auto& name : u) CHECK(deltag::find_concentration_unit(name) != nullptr);
+    for (const auto& e : deltag::concentration_unit_table())
+        CHECK(std::find(u.begin(), u.end(), std::string(e.name)) != u.end());
     CHECK(deltag::is_concentration_unit("\u03BCg/L"));  // Greek mu, accepted like the micro sign
     CHECK_FALSE(deltag::is_concentration_unit("ppb"));
 }
@@ -406,6 +412,39 @@ TEST_CASE("mol/kgw and mmol/kgw are taken as they are") {
     const auto in = convert(w);
     CHECK(molality(in, "Na+") == near(0.5).epsilon(1e-15));
     CHECK(molality(in, "Cl-") == near(0.5).epsilon(1e-15));
+}
+
+TEST_CASE("mg/kgw, g/kgw and umol/kgw: per kg of water, a mass through the molar mass") {
+    // 40.078 mg Ca per kg of water is 1 mmol/kgw (Ca 40.078 g/mol, IUPAC); 2.2990 g/kgw Na is
+    // 0.1 mol/kgw; 250 umol/kgw Cl is 2.5e-4 mol/kgw. The density does not enter.
+    auto w = water(1.3);
+    add(w, "Ca", 40.078, "mg/kgw");
+    add(w, "Na", 2.2990, "g/kgw");
+    add(w, "Cl", 250.0, "\u00B5mol/kgw");
+    const auto in = convert(w);
+    CHECK(molality(in, "Ca^2+") == near(1e-3).epsilon(1e-12));
+    CHECK(molality(in, "Na+") == near(0.1).epsilon(1e-4));
+    CHECK(molality(in, "Cl-") == near(2.5e-4).epsilon(1e-15));
+}
+
+TEST_CASE("the README's list of units is the table's") {
+    std::ifstream f(std::string(DELTAG_SOURCE_DIR) + "/README.md");
+    REQUIRE(f.good());
+    const std::string readme((std::istreambuf_iterator<char>(f)), std::istreambuf_iterator<char>());
+    const auto begin = readme.find("- **Units**:");
+    REQUIRE(begin != std::string::npos);
+    const std::string bullet = readme.substr(begin, readme.find("\n- **", begin + 1) - begin);
+    for (const auto& e : deltag::concentration_unit_table()) {
+        CAPTURE(e.name);
+        CHECK(contains(bullet, "`" + std::string(e.name) + "`"));
+    }
+}
+
+TEST_CASE("g/L is 1000 mg/L") {
+    auto a = water(1.0), b = water(1.0);
+    add(a, "Na", 0.5, "g/L");
+    add(b, "Na", 500.0, "mg/L");
+    CHECK(molality(convert(a), "Na+") == near(molality(convert(b), "Na+")).epsilon(1e-15));
 }
 
 TEST_CASE("units of several bases in one water") {

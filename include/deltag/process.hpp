@@ -15,6 +15,7 @@
 #include "deltag/database.hpp"
 #include "deltag/error.hpp"
 #include "deltag/speciation.hpp"
+#include "deltag/water.hpp"
 
 namespace deltag::process {
 
@@ -57,6 +58,17 @@ struct Amount {
     std::string unit = "mmol/kgw";
     SourceLocation where;
 };
+
+// The units an amount of reagent takes: the units of concentration_unit_table() that give a
+// mass or an amount per kg of water or per litre (not equivalents, which need a charge, nor
+// per kg of solution, which a dose does not know).
+const std::vector<std::string>& amount_units();
+// "" when `unit` is one of them; otherwise what was expected (and, for a concentration unit
+// that is no unit of an amount, why).
+std::string amount_unit_problem(std::string_view unit);
+// The unit to suggest instead: mg/kgw for a mass per kg of solution, none for equivalents (the
+// reagent's own conversion is needed), otherwise the nearest name.
+std::string amount_unit_suggestion(std::string_view unit);
 
 struct DoseTarget {
     enum class Kind { ph, saturation_index, alkalinity, langelier };

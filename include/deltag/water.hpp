@@ -63,8 +63,27 @@ struct WaterAnalysis {
     SourceLocation charge_balance_where;
 };
 
-// Units a concentration may be given in. "ppm" is mg/kg of solution (parts per million by
-// mass); "ug/L", "µg/L" (micro sign) and "μg/L" (Greek mu) are one unit, as are the umol/L forms.
+// One unit of concentration: what it is counted per (a litre of solution, a kg of solution, a
+// kg of water), what it measures (a mass, an amount, equivalents), and the factor to g, mol or
+// eq. The one table of units: the water reader, doses and the case reader all use it.
+struct ConcentrationUnit {
+    enum class Basis { per_litre, per_kg_solution, per_kg_water };
+    enum class Measure { mass, amount, equivalents };
+    std::string_view name;
+    Basis basis = Basis::per_litre;
+    Measure measure = Measure::mass;
+    double scale = 1.0;  // to g, mol or eq
+};
+
+// Every unit: mg/L, ug/L, g/L, mol/L, mmol/L, umol/L, meq/L (per litre of solution); mg/kg and
+// ppm (per kg of solution; "ppm" is parts per million by mass, mg/kg, not mg/L); mol/kgw,
+// mmol/kgw, umol/kgw, mg/kgw, g/kgw (per kg of water).
+const std::vector<ConcentrationUnit>& concentration_unit_table();
+// The entry of a unit as written, nullptr when there is none. The micro prefix may be "u", the
+// micro sign "µ" or the Greek mu "μ": "ug/L", "µg/L" and "μg/L" are one unit.
+const ConcentrationUnit* find_concentration_unit(std::string_view unit);
+
+// The names a concentration may be given in (the table's, and the µ spelling of each u unit).
 const std::vector<std::string>& concentration_units();
 bool is_concentration_unit(std::string_view unit);
 

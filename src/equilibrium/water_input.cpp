@@ -2,13 +2,13 @@
 // database components, concentrations converted to mol/kgw (eq/kgw for alkalinity), "as"
 // applied, pH, pe and the charge-balance choice set.
 //
-// Units. Each unit has a basis and a measure:
-//   per litre of solution:      mg/L, ug/L = µg/L (mass), mmol/L, umol/L, mol/L (amount), meq/L (equivalents)
+// Units (concentration_unit_table). Each unit has a basis and a measure:
+//   per litre of solution:      mg/L, ug/L = µg/L, g/L (mass), mmol/L, umol/L, mol/L (amount), meq/L (equivalents)
 //   per kg of solution:         mg/kg = ppm (mass)
 // "ppm" is taken as it is defined, parts per million by mass: 1 mg per kg of solution, not
 // 1 mg/L. The two differ by the solution density (about 0.3 % for a fresh water at 25 °C,
 // more for a brine); a lab that writes ppm for mg/L should be read as mg/L.
-//   per kg of water:            mol/kgw, mmol/kgw (amount)
+//   per kg of water:            mol/kgw, mmol/kgw, umol/kgw (amount), mg/kgw, g/kgw (mass)
 // A mass refers to the analyte's mass_formula (SO4, SiO2, HCO3 for alkalinity), or to the
 // substance named by "as"; an amount (mol) refers to the same formula unit; equivalents are
 // divided by |charge| of the component (for alkalinity they are the result directly).
@@ -49,23 +49,7 @@
 
 namespace deltag {
 
-const std::vector<std::string>& concentration_units() {
-    static const std::vector<std::string> units = {"mg/L",  "ug/L",  "µg/L",    "mmol/L",  "umol/L",
-                                                   "µmol/L", "mol/L", "meq/L", "mg/kg", "ppm",     "mol/kgw",
-                                                   "mmol/kgw"};
-    return units;
-}
-
 namespace {
-
-enum class Basis { per_litre, per_kg_solution, per_kg_water };
-enum class Measure { mass, amount, equivalents };
-
-struct UnitInfo {
-    Basis basis;
-    Measure measure;
-    double scale;  // to g, mol or eq
-};
 
 // The micro prefix as labs type it: "u", the micro sign U+00B5 or the Greek mu U+03BC (the
 // same glyph in most fonts); all three mean 1e-6.
@@ -79,19 +63,53 @@ std::string plain_micro(std::string_view u) {
     return std::string(u);
 }
 
-std::optional<UnitInfo> unit_info(std::string_view given) {
-    const std::string u = plain_micro(given);
-    if (u == "mg/L") return UnitInfo{Basis::per_litre, Measure::mass, 1e-3};
-    if (u == "ug/L") return UnitInfo{Basis::per_litre, Measure::mass, 1e-6};
-    if (u == "mmol/L") return UnitInfo{Basis::per_litre, Measure::amount, 1e-3};
-    if (u == "umol/L") return UnitInfo{Basis::per_litre, Measure::amount, 1e-6};
-    if (u == "mol/L") return UnitInfo{Basis::per_litre, Measure::amount, 1.0};
-    if (u == "meq/L") return UnitInfo{Basis::per_litre, Measure::equivalents, 1e-3};
-    if (u == "mg/kg" || u == "ppm") return UnitInfo{Basis::per_kg_solution, Measure::mass, 1e-3};
-    if (u == "mol/kgw") return UnitInfo{Basis::per_kg_water, Measure::amount, 1.0};
-    if (u == "mmol/kgw") return UnitInfo{Basis::per_kg_water, Measure::amount, 1e-3};
-    return std::nullopt;
+}  // namespace
+
+const std::vector<ConcentrationUnit>& concentration_unit_table() {
+    using B = ConcentrationUnit::Basis;
+    using M = ConcentrationUnit::Measure;
+    static const std::vector<ConcentrationUnit> table = {
+        {"mg/L", B::per_litre, M::mass, 1e-3},
+        {"ug/L", B::per_litre, M::mass, 1e-6},
+        {"g/L", B::per_litre, M::mass, 1.0},
+        {"mol/L", B::per_litre, M::amount, 1.0},
+        {"mmol/L", B::per_litre, M::amount, 1e-3},
+        {"umol/L", B::per_litre, M::amount, 1e-6},
+        {"meq/L", B::per_litre, M::equivalents, 1e-3},
+        {"mg/kg", B::per_kg_solution, M::mass, 1e-3},
+        {"ppm", B::per_kg_solution, M::mass, 1e-3},
+        {"mol/kgw", B::per_kg_water, M::amount, 1.0},
+        {"mmol/kgw", B::per_kg_water, M::amount, 1e-3},
+        {"umol/kgw", B::per_kg_water, M::amount, 1e-6},
+        {"mg/kgw", B::per_kg_water, M::mass, 1e-3},
+        {"g/kgw", B::per_kg_water, M::mass, 1.0},
+    };
+    return table;
 }
+
+const ConcentrationUnit* find_concentration_unit(std::string_view unit) {
+    const std::string u = plain_micro(unit);
+    for (const auto& e : concentration_unit_table())
+        if (e.name == u) return &e;
+    return nullptr;
+}
+
+const std::vector<std::string>& concentration_units() {
+    static const std::vector<std::string> names = [] {
+        std::vector<std::string> out;
+        for (const auto& e : concentration_unit_table()) {
+            out.emplace_back(e.name);
+            if (e.name.front() == 'u') out.push_back("\u00B5" + std::string(e.name.substr(1)));
+        }
+        return out;
+    }();
+    return names;
+}
+
+namespace {
+
+using Basis = ConcentrationUnit::Basis;
+using Measure = ConcentrationUnit::Measure;
 
 std::string water_key(const WaterAnalysis& w) {
     // Same quoting as the case reader: bare words stay bare.
@@ -152,7 +170,7 @@ Converted convert(const WaterAnalysis& w, const AnalyteValue& a, const thermo::A
                   const thermo::Database& db) {
     const std::string key = analyte_key(w, a);
     const std::string unit = a.unit.empty() ? w.units : a.unit;
-    const auto info = unit_info(unit);
+    const ConcentrationUnit* info = find_concentration_unit(unit);
     if (!info)
         throw InputError(a.where, key,
                          "unknown concentration unit '" + unit + "'; expected one of: " +
@@ -245,7 +263,7 @@ bool is_carbonate_ion(const std::string& name, const thermo::Database& db) {
 Converted convert_carbonate_ion(const WaterAnalysis& w, const AnalyteValue& a, const thermo::Analyte& alkalinity) {
     const std::string key = analyte_key(w, a);
     const std::string unit = a.unit.empty() ? w.units : a.unit;
-    const auto info = unit_info(unit);
+    const ConcentrationUnit* info = find_concentration_unit(unit);
     if (!info)
         throw InputError(a.where, key,
                          "unknown concentration unit '" + unit + "'; expected one of: " + name_list(concentration_units()),
@@ -281,7 +299,7 @@ Converted convert_carbonate_ion(const WaterAnalysis& w, const AnalyteValue& a, c
 
 }  // namespace
 
-bool is_concentration_unit(std::string_view unit) { return unit_info(unit).has_value(); }
+bool is_concentration_unit(std::string_view unit) { return find_concentration_unit(unit) != nullptr; }
 
 // Values below the detection limit. The default is half the limit: zero would drop a
 // substance the lab could not rule out, the limit would count the largest amount it could

@@ -450,8 +450,6 @@ const std::vector<std::string>& keys_of_kind(std::string_view kind) {
 const std::vector<std::string> solid_keys = {"hold_si", "on_hand_mmol_per_kgw", "on_hand_mol_per_kgw", "may_form",
                                              "may_dissolve"};
 const std::vector<std::string> headspace_keys = {"litres_per_kgw", "temperature_c", "partial_pressures"};
-const std::vector<std::string> dose_units = {"mol/kgw", "mmol/kgw", "umol/kgw", "mg/kgw", "g/kgw",
-                                             "mol/L",   "mmol/L",   "umol/L",   "mg/L",   "g/L"};
 const std::vector<std::string> amount_keys = {"value", "unit"};
 const std::vector<std::string> gas_units = {"atm", "bar", "kPa", "ppmv", "percent", "log10_atm"};
 const std::vector<std::string> until_keys = {"pH", "si", "alkalinity_meq_per_l", "langelier"};
@@ -786,10 +784,9 @@ process::Amount read_amount(tomlu::TableReader& r, std::string_view key, bool ab
     if (above_zero && a.value <= 0.0)
         ar.fail("value", "expected a largest dose above zero, found " + message_number(a.value));
     if (a.value < 0.0) ar.fail("value", "expected an amount of zero or more, found " + message_number(a.value));
-    a.unit = ar.require_string("unit", "the unit of the amount, one of: " + name_list(dose_units));
-    if (!is_one_of(a.unit, dose_units))
-        ar.fail("unit", "unknown unit of amount '" + a.unit + "'; expected one of: " + name_list(dose_units),
-                nearest_name(a.unit, dose_units));
+    a.unit = ar.require_string("unit", "the unit of the amount, one of: " + name_list(process::amount_units()));
+    if (const std::string p = process::amount_unit_problem(a.unit); !p.empty())
+        ar.fail("unit", p, process::amount_unit_suggestion(a.unit));
     return a;
 }
 

@@ -231,30 +231,18 @@ WaterState finish(const thermo::Database& db, const std::string& label, equilibr
     return w;
 }
 
+bool is_amount_unit(const ConcentrationUnit& u) {
+    return u.measure != ConcentrationUnit::Measure::equivalents && u.basis != ConcentrationUnit::Basis::per_kg_solution;
+}
+
 double amount_in_mol_per_kgw(const Amount& a, double molar_mass_g, double kg_water_per_litre) {
-    struct U {
-        const char* name;
-        double factor;  // to mol
-        bool per_litre;
-        bool mass;
-    };
-    static const U units[] = {{"mol/kgw", 1, false, false},   {"mmol/kgw", 1e-3, false, false},
-                              {"umol/kgw", 1e-6, false, false}, {"mg/kgw", 1e-3, false, true},
-                              {"g/kgw", 1, false, true},        {"mol/L", 1, true, false},
-                              {"mmol/L", 1e-3, true, false},    {"umol/L", 1e-6, true, false},
-                              {"mg/L", 1e-3, true, true},       {"g/L", 1, true, true}};
-    for (const auto& u : units) {
-        if (a.unit != u.name) continue;
-        double mol = a.value * u.factor;
-        if (u.mass) mol /= molar_mass_g;
-        if (u.per_litre) mol /= kg_water_per_litre;
-        return mol;
-    }
-    std::vector<std::string> names;
-    for (const auto& u : units) names.emplace_back(u.name);
-    const std::string list = name_list(names);
-    throw InputError(a.where, "unit", "unknown unit '" + a.unit + "' for an amount; expected one of: " + list,
-                     nearest_name(a.unit, names));
+    if (const std::string p = amount_unit_problem(a.unit); !p.empty())
+        throw InputError(a.where, "unit", p, amount_unit_suggestion(a.unit));
+    const ConcentrationUnit& u = *find_concentration_unit(a.unit);
+    double mol = a.value * u.scale;
+    if (u.measure == ConcentrationUnit::Measure::mass) mol /= molar_mass_g;
+    if (u.basis == ConcentrationUnit::Basis::per_litre) mol /= kg_water_per_litre;
+    return mol;
 }
 
 // --- the kinds of step --------------------------------------------------------------------
@@ -580,6 +568,36 @@ std::string recovery_problem(double recovery) {
     return "expected a recovery (the fraction of the water removed) from 0 to " + message_number(max_recovery) +
            " (a concentration factor from " + message_number(min_concentration_factor) + " to " +
            message_number(max_concentration_factor) + "), found " + message_number(recovery);
+}
+
+const std::vector<std::string>& amount_units() {
+    static const std::vector<std::string> names = [] {
+        std::vector<std::string> out;
+        for (const auto& u : concentration_unit_table())
+            if (is_amount_unit(u)) out.emplace_back(u.name);
+        return out;
+    }();
+    return names;
+}
+
+std::string amount_unit_problem(std::string_view unit) {
+    const ConcentrationUnit* u = find_concentration_unit(unit);
+    if (u && is_amount_unit(*u)) return "";
+    const std::string expected = "; expected one of: " + name_list(amount_units());
+    if (!u) return "unknown unit of amount '" + std::string(unit) + "'" + expected;
+    if (u->measure == ConcentrationUnit::Measure::equivalents)
+        return "'" + std::string(unit) + "' counts equivalents, which a neutral reagent does not have; give the dose as a "
+               "mass or an amount" + expected;
+    return "'" + std::string(unit) + "' is per kg of solution; give a dose per kg of water (mg/kgw) or per litre (mg/L)" +
+           expected;
+}
+
+std::string amount_unit_suggestion(std::string_view unit) {
+    const ConcentrationUnit* u = find_concentration_unit(unit);
+    if (!u) return nearest_name(std::string(unit), amount_units());
+    if (u->measure == ConcentrationUnit::Measure::equivalents) return "";
+    if (u->basis == ConcentrationUnit::Basis::per_kg_solution) return "mg/kgw";
+    return "";
 }
 
 std::string_view step_kind(const Step& s) {
