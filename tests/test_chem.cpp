@@ -17,6 +17,7 @@
 
 #include "deltag/chem.hpp"
 #include "deltag/error.hpp"
+#include "chem/names.hpp"
 
 using namespace deltag;
 using namespace deltag::chem;

@@ -13,7 +13,9 @@
 #include <string_view>
 #include <vector>
 
+#include "deltag/activity.hpp"
 #include "deltag/database.hpp"
+#include "deltag/reference_electrodes.hpp"
 
 using namespace deltag;
 using namespace deltag::thermo;
@@ -1942,4 +1944,37 @@ TEST_CASE("the reference levels are the forms that predominate at pH 4.5 (25 deg
     // Aluminium is the element nearest its boundary: AlOH^2+ holds about a quarter of it at
     // pH 4.5 (log ratio -0.5), which is the size of the error of a fixed reference there.
     CHECK(rel("AlOH^2+", "Al^3+") > -0.6);
+}
+
+// --- every field of a public struct has a value -------------------------------------------
+
+// At compile time: a constexpr default-initialised object is refused by the compiler if any
+// field is left without a value.
+constexpr deltag::activity::SpeciesParameters default_parameters;
+static_assert(default_parameters.charge == 0);
+static_assert(default_parameters.ion_size_angstrom != default_parameters.ion_size_angstrom);  // NaN: not given
+constexpr deltag::thermo::DebyeHuckelParameters default_debye_huckel;
+static_assert(default_debye_huckel.a == 0.0 && default_debye_huckel.b == 0.0);
+constexpr deltag::thermo::TemperatureRange default_range;
+static_assert(default_range.min_c == 0.0 && default_range.max_c == 0.0);
+
+TEST_CASE("public structs: a default-constructed value has every field set; 'not given' is NaN") {
+    const deltag::activity::SpeciesParameters p;
+    CHECK(std::isnan(p.ion_size_angstrom));
+    CHECK(std::isnan(p.tj_a_angstrom));
+    CHECK(std::isnan(p.tj_b));
+    CHECK(std::isnan(p.salting_out));
+    const deltag::thermo::Species s;
+    CHECK(std::isnan(s.ion_size_angstrom));
+    CHECK(std::isnan(s.tj_a_angstrom));
+    CHECK(std::isnan(s.tj_b));
+    CHECK(std::isnan(s.salting_out));
+    CHECK(s.alkalinity == 0.0);
+    const deltag::chem::ReactionTerm t;
+    CHECK(t.coefficient == 0.0);
+    const deltag::electro::ReferenceElectrode e;
+    CHECK(e.e_25_v == 0.0);
+    CHECK(e.de_dt_v_per_k == 0.0);
+    const deltag::thermo::LintFinding f;
+    CHECK(f.level == deltag::thermo::LintFinding::Level::error);
 }

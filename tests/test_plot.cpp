@@ -12,6 +12,7 @@
 #include <string>
 
 #include "deltag/plot.hpp"
+#include "io/svg_axes.hpp"
 
 using deltag::io::AxisScale;
 using deltag::io::LinePlot;

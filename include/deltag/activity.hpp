@@ -3,6 +3,7 @@
 // the derivative d(log10 gamma)/dI for the analytic Jacobian of the equilibrium solver.
 #pragma once
 
+#include <limits>
 #include <memory>
 #include <span>
 #include <string>
@@ -21,14 +22,14 @@ std::string_view model_name(ModelKind kind);
 bool parse_model_name(std::string_view name, ModelKind& kind);
 std::vector<std::string> model_names();
 
-// Parameters of one aqueous species as a model needs them. NaN marks "not given"; a model
+// Parameters of one aqueous species as a model needs them. NaN (the default) marks "not given"; a model
 // that needs a missing parameter uses its documented default (see DEVELOPERS.md).
 struct SpeciesParameters {
     int charge = 0;
-    double ion_size_angstrom;  // a (extended Debye-Hueckel, B-dot) - NaN if not given
-    double tj_a_angstrom;      // Truesdell-Jones a - NaN if not given
-    double tj_b;               // Truesdell-Jones b, kg/mol - NaN if not given
-    double salting_out;        // neutral species: log10 gamma = k I, kg/mol - NaN if not given
+    double ion_size_angstrom = std::numeric_limits<double>::quiet_NaN();  // a (extended Debye-Hueckel, B-dot)
+    double tj_a_angstrom = std::numeric_limits<double>::quiet_NaN();      // Truesdell-Jones a
+    double tj_b = std::numeric_limits<double>::quiet_NaN();               // Truesdell-Jones b, kg/mol
+    double salting_out = std::numeric_limits<double>::quiet_NaN();        // neutral species: log10 gamma = k I, kg/mol
 };
 
 SpeciesParameters no_parameters(int charge);

@@ -26,7 +26,7 @@ public:
 
 private:
     std::string text_;
-    int column_;
+    int column_ = 0;
     std::string message_;
 };
 
@@ -56,7 +56,7 @@ std::optional<double> atomic_weight(std::string_view symbol);
 const std::vector<std::string>& element_symbols();
 
 struct ReactionTerm {
-    double coefficient;  // signed: negative on the left-hand side, positive on the right
+    double coefficient = 0.0;  // signed: negative on the left-hand side, positive on the right
     std::string species;  // the formula text as written (without the coefficient)
 };
 

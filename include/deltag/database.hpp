@@ -5,6 +5,7 @@
 
 #include <array>
 #include <cstddef>
+#include <limits>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -70,11 +71,11 @@ struct Species : Entry {
     // For a component: itself with coefficient 1 and log K = 0.
     Stoichiometry formation;
     LogKFunction log_k;
-    // Activity-model parameters; NaN where the database gives none.
-    double ion_size_angstrom;  // a of extended Debye-Hueckel and B-dot (Kielland 1937 style)
-    double tj_a_angstrom;      // Truesdell-Jones a
-    double tj_b;               // Truesdell-Jones b, kg/mol
-    double salting_out;        // neutral species: log10 gamma = k I
+    // Activity-model parameters; NaN (the default) where the database gives none.
+    double ion_size_angstrom = std::numeric_limits<double>::quiet_NaN();  // a of extended Debye-Hueckel and B-dot (Kielland 1937 style)
+    double tj_a_angstrom = std::numeric_limits<double>::quiet_NaN();      // Truesdell-Jones a
+    double tj_b = std::numeric_limits<double>::quiet_NaN();               // Truesdell-Jones b, kg/mol
+    double salting_out = std::numeric_limits<double>::quiet_NaN();        // neutral species: log10 gamma = k I
     double alkalinity = 0.0;  // equivalents of total alkalinity per mole (see README)
 };
 
@@ -127,7 +128,7 @@ struct Source {
 
 struct LintFinding {
     enum class Level { error, warning };
-    Level level;
+    Level level = Level::error;
     SourceLocation where;
     std::string key;
     std::string message;

@@ -64,7 +64,7 @@ public:
 
 private:
     std::string subject_;
-    double residual_;
+    double residual_ = 0.0;
     std::string reason_;
     std::string hint_;
 };
@@ -75,20 +75,5 @@ std::string message_number(double v);
 
 // Names joined for a message: "a, b, c".
 std::string name_list(const std::vector<std::string>& names);
-
-// Levenshtein distance, case-insensitive.
-std::size_t edit_distance(std::string_view a, std::string_view b);
-
-// The candidate closest to `name` by edit distance, or "" when nothing is reasonably close
-// (more than one edit for names of up to two characters, else more than
-// max(2, (|name| + 1)/3) edits). A candidate that is `name` with its charge written another
-// way ("Cu2+", "Cu+2", "Cu++" for "Cu^2+") comes first; a formula of other elements than a
-// formula `name` ("SO4" for "PO4") is never suggested; a candidate that is `name` with a
-// phase mark ("CO2(g)" for "CO2") is suggested.
-std::string nearest_name(std::string_view name, const std::vector<std::string>& candidates);
-
-// For a phase (a mineral or a gas) named wrongly: the first phase whose formula `name` is
-// ("Calcite" for "CaCO3"), else the nearest name. `phases` holds (name, formula) pairs.
-std::string nearest_phase(std::string_view name, const std::vector<std::pair<std::string, std::string>>& phases);
 
 }  // namespace deltag

@@ -11,8 +11,8 @@ namespace deltag::electro {
 
 struct ReferenceElectrode {
     std::string name;            // "SCE", "Ag/AgCl(sat KCl)", ...
-    double e_25_v;               // vs SHE at 25 degC
-    double de_dt_v_per_k;        // temperature coefficient at 25 degC
+    double e_25_v = 0.0;         // vs SHE at 25 degC
+    double de_dt_v_per_k = 0.0;  // temperature coefficient at 25 degC
     std::string source;
     // Ag/AgCl in a KCl solution of fixed concentration: E(T) = E°(AgCl/Ag, T) - (RT/F) ln a(Cl-)
     // with a(Cl-) held at its 25 degC value, i.e. E°(T) + (E_25 - E°_25) T/298.15, E°(T) of

@@ -8,6 +8,7 @@
 #include <sstream>
 
 #include "deltag/chem.hpp"
+#include "chem/names.hpp"
 
 namespace deltag {
 

@@ -21,6 +21,7 @@
 #include "deltag/speciation.hpp"
 #include "deltag/water.hpp"
 #include "deltag/water_properties.hpp"
+#include "chem/names.hpp"
 
 namespace fs = std::filesystem;
 using namespace deltag;

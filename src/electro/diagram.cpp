@@ -12,6 +12,7 @@
 #include "deltag/chem.hpp"
 #include "deltag/constants.hpp"
 #include "deltag/diagram.hpp"
+#include "chem/names.hpp"
 
 namespace deltag::electro {
 

@@ -7,6 +7,7 @@
 
 #include "deltag/constants.hpp"
 #include "deltag/electro.hpp"
+#include "chem/names.hpp"
 
 namespace deltag::electro {
 

@@ -46,6 +46,7 @@
 #include "deltag/chem.hpp"
 #include "deltag/reference_electrodes.hpp"
 #include "deltag/water_properties.hpp"
+#include "chem/names.hpp"
 
 namespace deltag {
 

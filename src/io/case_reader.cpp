@@ -44,6 +44,7 @@
 #include "deltag/process.hpp"
 #include "deltag/reference_electrodes.hpp"
 #include "deltag/water_properties.hpp"
+#include "chem/names.hpp"
 #include "thermo/toml_util.hpp"
 
 namespace deltag::io {

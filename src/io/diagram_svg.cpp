@@ -23,6 +23,7 @@
 
 #include "deltag/chem.hpp"
 #include "deltag/plot.hpp"
+#include "io/svg_axes.hpp"
 #include "io/text_format.hpp"
 
 namespace deltag::io {

@@ -7,6 +7,7 @@
 // pattern and marker shape, so the curves stay apart in grey print.
 #include "deltag/plot.hpp"
 
+#include "io/svg_axes.hpp"
 #include "io/text_format.hpp"
 
 #include <algorithm>

@@ -13,6 +13,7 @@
 #include "deltag/constants.hpp"
 #include "deltag/process.hpp"
 #include "deltag/water_properties.hpp"
+#include "chem/names.hpp"
 #include "process/root.hpp"
 #include "util/overloaded.hpp"
 

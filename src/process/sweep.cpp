@@ -6,6 +6,7 @@
 #include <sstream>
 
 #include "deltag/process.hpp"
+#include "chem/names.hpp"
 
 namespace deltag::process {
 

@@ -11,6 +11,7 @@
 #include <sstream>
 
 #include "deltag/database.hpp"
+#include "chem/names.hpp"
 #include "thermo/toml_util.hpp"
 
 namespace deltag::thermo {

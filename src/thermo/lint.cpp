@@ -4,6 +4,7 @@
 #include <sstream>
 
 #include "deltag/database.hpp"
+#include "chem/names.hpp"
 
 namespace deltag::thermo {
 

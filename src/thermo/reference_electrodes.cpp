@@ -1,6 +1,7 @@
 // Reference electrodes (common practice values, check-values.md) and Eh <-> pe.
 #include "deltag/constants.hpp"
 #include "deltag/reference_electrodes.hpp"
+#include "chem/names.hpp"
 
 namespace deltag::electro {
 

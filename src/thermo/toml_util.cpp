@@ -4,6 +4,7 @@
 #include <cctype>
 #include <cmath>
 #include <sstream>
+#include "chem/names.hpp"
 
 namespace deltag::tomlu {
 
