@@ -426,6 +426,27 @@ TEST_CASE("a charge balance whose analyte eats the alkalinity before the balance
     }
 }
 
+TEST_CASE("KINSOL's own message reaches the full summary") {
+    // The start of the test below: the first attempt cannot finish, the fallback can.
+    SpeciationResult bad_start = speciate(core(), hard_water());
+    for (auto& s : bad_start.species) s.molality *= 1e-9;
+    SolverOptions options;
+    options.max_step_log10 = 0.001;
+    const SpeciationResult r = speciate(core(), hard_water(), options, &bad_start);
+    REQUIRE(r.summary.converged);
+    // The failed first attempt ran out of iterations; KINSOL said so, and the full summary
+    // (--verbose) carries its words.
+    CHECK_FALSE(r.summary.kinsol_message.empty());
+    CHECK(r.summary.full().find("KINSOL's last message: " + r.summary.kinsol_message) != std::string::npos);
+}
+
+TEST_CASE("a result is accepted at accept_factor times the tolerance") {
+    const SpeciationResult r = speciate(core(), hard_water());
+    REQUIRE(r.summary.converged);
+    const SolverOptions defaults;
+    CHECK(r.summary.residual_norm <= defaults.tolerance * defaults.accept_factor);
+}
+
 TEST_CASE("the fallback rescues a first attempt that cannot finish") {
     // A warm start nine decades away from the answer, with steps capped at 0.001 log units,
     // cannot get there in 200 iterations; the fallback (ideal solution from the default

@@ -15,12 +15,24 @@
 namespace deltag::equilibrium {
 
 // Every solver knob, with its default.
+// Every knob of the solver. The defaults are what deltag runs with.
 struct SolverOptions {
-    int max_iterations = 200;          // Newton iterations per attempt
-    double tolerance = 1e-12;          // max |scaled residual| to accept (mass balances relative)
+    int max_iterations = 200;          // Newton iterations of the last leg of an attempt (see first_leg_iterations)
+    double tolerance = 1e-12;          // KINSOL's target for the max |scaled residual| (mass balances relative)
+    double accept_factor = 10.0;       // a result is accepted when its max |scaled residual| <= accept_factor * tolerance
     double step_tolerance = 1e-16;     // smallest scaled step before KINSOL gives up
     double max_step_log10 = 3.0;       // largest Newton step, in log10 units of any unknown
-    bool allow_fallback = true;        // retry from an ideal-solution start when the first attempt fails
+    // An attempt runs legs of first_leg_iterations, twice that, ... (the last one up to
+    // max_iterations), each from the point the last reached with the basis chosen afresh.
+    int first_leg_iterations = 25;
+    int max_legs = 6;
+    bool allow_fallback = true;        // retry from ideal-solution starts when the first attempt fails
+    std::vector<double> fallback_ph_starts = {7.0, 4.0, 10.0, 2.0, 12.5};  // the fallback's pH guesses (pH free)
+    double fallback_max_step_log10 = 1.0;  // the fallback's step cap, log10 units
+    int max_active_set_rounds = 30;    // rounds of releasing and taking back minerals before giving up
+    // A mineral released from its target is taken back when its SI passes the target by more
+    // than this, in the direction it may move (log units).
+    double take_back_si = 1e-9;
 };
 
 // What the solver did.
@@ -32,6 +44,7 @@ struct SolveSummary {
     double residual_norm = 0.0;    // max |scaled residual| at the end
     std::string stop_reason;       // why the last attempt stopped
     std::string method;            // "KINSOL Newton, line search"; with the fallback named
+    std::string kinsol_message;    // KINSOL's own message from the last attempt that gave one; "" if none
     double seconds = 0.0;
 
     std::string brief() const;     // one line

@@ -361,6 +361,7 @@ struct AttemptOutcome {
     double residual = std::numeric_limits<double>::infinity();
     long iterations = 0, evaluations = 0;
     std::string reason;
+    std::string message;  // KINSOL's own message, caught by kin_silent_errors; "" if it gave none
 };
 
 // The convergence measure: each balance relative to the size of its own terms (so a total
@@ -382,9 +383,9 @@ double max_abs_residual(const Problem& p, const std::vector<double>& u) {
     return r;
 }
 
-// The acceptance on our own measure (max_abs_residual), with a decade of slack on the tolerance.
+// The acceptance on our own measure (max_abs_residual): accept_factor times the tolerance.
 bool meets_tolerance(double residual, const SolverOptions& opt) {
-    return std::isfinite(residual) && residual <= std::max(opt.tolerance, 1e-300) * 10.0;
+    return std::isfinite(residual) && residual <= std::max(opt.tolerance, 1e-300) * opt.accept_factor;
 }
 
 // One KINSOL run from u (updated in place).
@@ -437,6 +438,7 @@ AttemptOutcome run_kinsol(const Problem& p, std::vector<double>& u, const Solver
     const double r = max_abs_residual(p, candidate);
     out.residual = r;
     out.reason = kinsol_flag_text(flag);
+    out.message = data.last_message;
     if ((flag == KIN_SUCCESS || flag == KIN_INITIAL_GUESS_OK) && !meets_tolerance(r, opt))
         out.reason = "the Newton residual met its tolerance but a balance, against the size of its own terms, did not";
     // Accept on our own measure: KINSOL may stop on a tiny step with the residual already met.
@@ -481,8 +483,9 @@ std::string SolveSummary::full() const {
       << "Newton iterations: " << iterations << "\n"
       << "residual evaluations: " << residual_evaluations << "\n"
       << "max scaled residual: " << residual_norm << "\n"
-      << "stopped because: " << stop_reason << "\n"
-      << "time: " << seconds * 1e6 << " us\n";
+      << "stopped because: " << stop_reason << "\n";
+    if (!kinsol_message.empty()) o << "KINSOL's last message: " << kinsol_message << "\n";
+    o << "time: " << seconds * 1e6 << " us\n";
     return o.str();
 }
 
@@ -1004,6 +1007,7 @@ void count(SolveSummary& summary, const AttemptOutcome& o) {
     summary.attempts += 1;
     summary.iterations += static_cast<int>(o.iterations);
     summary.residual_evaluations += static_cast<int>(o.evaluations);
+    if (!o.message.empty()) summary.kinsol_message = o.message;
 }
 
 // A first pe for a water whose electrons are conserved (the pe is an unknown):
@@ -1088,7 +1092,8 @@ AttemptOutcome attempt(Problem& p, const SpeciationInput& input, CarriedState& s
                        const SolverOptions& options, SolveSummary& summary) {
     AttemptOutcome best;
     std::vector<int> best_basis = p.basis_of_column;
-    for (int leg = 0; leg < 6; ++leg) {
+    const int legs = std::max(options.max_legs, 1);
+    for (int leg = 0; leg < legs; ++leg) {
         choose_basis(p, guessed_log_activities(p, st, ph_guess, pe_guess));
         p.refer_electrons_to_basis();
         std::vector<double> trial = to_unknowns(p, input, st, ph_guess, pe_guess);
@@ -1098,8 +1103,8 @@ AttemptOutcome attempt(Problem& p, const SpeciationInput& input, CarriedState& s
         // Short legs first (25, 50, 100, ... iterations): a basis that fits the water badly
         // is replaced early, from the point reached, rather than after the whole budget.
         SolverOptions leg_options = options;
-        leg_options.max_iterations = std::min(options.max_iterations, 25 << leg);
-        const bool last_leg = leg == 5;
+        leg_options.max_iterations = std::min(options.max_iterations, std::max(options.first_leg_iterations, 1) << std::min(leg, 20));
+        const bool last_leg = leg == legs - 1;
         if (last_leg) leg_options.max_iterations = options.max_iterations;
         AttemptOutcome o = run_kinsol(p, trial, leg_options);
         count(summary, o);
@@ -1129,7 +1134,7 @@ AttemptOutcome solve_layout(ChemicalSystem& sys, const SpeciationInput& input, P
     AttemptOutcome outcome = attempt(p, input, st, u, ph0, pe_guess, phase_start, options, summary);
     if (outcome.converged || !options.allow_fallback) return outcome;
     const std::vector<double> ph_guesses =
-        input.ph ? std::vector<double>{*input.ph} : std::vector<double>{7.0, 4.0, 10.0, 2.0, 12.5};
+        input.ph ? std::vector<double>{*input.ph} : options.fallback_ph_starts;
     for (double ph_guess : ph_guesses) {
         CarriedState fresh;
         fresh.column.assign(sys.columns.size(), std::numeric_limits<double>::quiet_NaN());
@@ -1137,7 +1142,7 @@ AttemptOutcome solve_layout(ChemicalSystem& sys, const SpeciationInput& input, P
         std::unique_ptr<activity::ActivityModel> real = std::move(sys.model);
         sys.model = activity::make_model(activity::ModelKind::ideal, input.temperature_c);
         SolverOptions loose = options;
-        loose.max_step_log10 = 1.0;
+        loose.max_step_log10 = options.fallback_max_step_log10;
         AttemptOutcome ideal = attempt(p, input, fresh, v, ph_guess, pe_guess, phase_start, loose, summary);
         sys.model = std::move(real);
         if (!std::isfinite(ideal.residual)) continue;
@@ -1366,7 +1371,6 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
     Layout L;
     std::vector<double> u;
     AttemptOutcome outcome;
-    const int max_active_set_rounds = 30;
     int round = 0;
     for (;; ++round) {
         L = make_layout(db, sys, input, minerals);
@@ -1425,7 +1429,7 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
                 const bool may_form = ms.spec.may_form;
                 const bool may_dissolve = ms.spec.may_dissolve &&
                                           (!ms.spec.on_hand_mol_per_kgw || ms.xi < *ms.spec.on_hand_mol_per_kgw);
-                if ((si > 1e-9 && may_form) || (si < -1e-9 && may_dissolve)) {
+                if ((si > options.take_back_si && may_form) || (si < -options.take_back_si && may_dissolve)) {
                     ms.status = MineralState::Status::at_target;
                     mineral_xi[a] = ms.xi;
                     taken_back = true;
@@ -1433,7 +1437,7 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
             }
         }
         if (!released && !taken_back) break;
-        if (round + 1 >= max_active_set_rounds) {
+        if (round + 1 >= options.max_active_set_rounds) {
             outcome.converged = false;
             outcome.reason = "the set of minerals at their targets kept changing";
             break;
