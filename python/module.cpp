@@ -62,7 +62,11 @@ Loaded load_database(const std::string& path_or_core, const SourceLocation& wher
         l.db = l.owned.get();
         l.name = path_or_core;
     }
-    for (const auto& f : l.db->lint())
+    // The embedded database never changes: its lint runs once (it costs about as much as a
+    // solve), a file's at every load.
+    static const std::vector<thermo::LintFinding> embedded_findings = thermo::Database::embedded().lint();
+    const std::vector<thermo::LintFinding> file_findings = l.owned ? l.db->lint() : std::vector<thermo::LintFinding>{};
+    for (const auto& f : l.owned ? file_findings : embedded_findings)
         if (f.level == thermo::LintFinding::Level::error)
             throw InputError(f.where, f.key, f.message + " (run 'deltag database check' for the full list)");
     return l;
@@ -162,6 +166,8 @@ void raise_input(const char* cls, const InputError& e) {
 PYBIND11_MODULE(_core, m) {
     m.doc() = "The compiled part of deltag; use the package deltag, which documents every function.";
     m.attr("__version__") = DELTAG_VERSION;
+    m.attr("caution") = std::string(io::caution_text());
+    m.attr("electro_caution") = std::string(io::electro_caution_text());
 
     py::register_exception_translator([](std::exception_ptr p) {
         try {

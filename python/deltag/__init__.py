@@ -20,8 +20,10 @@ Errors raise the exceptions of ``deltag.errors`` (InputError, NoSolutionError,
 ConvergenceError), carrying the message, file, line and key the command line prints.
 The functions release the GIL while they compute, so threads run them in parallel.
 
-Results for potable water, dosing, pressure equipment or cathodic protection inform an
-engineer's judgement; local codes and a licensed engineer decide.
+``deltag.caution`` (every water) and ``deltag.electro_caution`` (cells) are the cautions the
+command's reports carry; show them with results that feed decisions on drinking water,
+dosing, pressure equipment or cathodic protection, which follow local codes and rest with
+licensed engineers.
 """
 
 import json as _json
@@ -33,6 +35,8 @@ from . import _core
 from .errors import ConvergenceError, Error, InputError, NoSolutionError
 
 __version__ = _core.__version__
+caution = _core.caution
+electro_caution = _core.electro_caution
 
 __all__ = ["speciate", "Water", "cell", "Cell", "convert_potential", "reference_electrodes",
            "Error", "InputError", "NoSolutionError", "ConvergenceError"]

@@ -248,6 +248,9 @@ def test_docstrings_present():
         assert inspect.getdoc(obj), name
     for cls in (deltag.Water, deltag.Cell):
         assert inspect.getdoc(cls.to_dict)
+    # The reports' cautions, for results that feed safety decisions.
+    assert "licensed engineers" in deltag.caution
+    assert "cathodic-protection" in deltag.electro_caution
 
 
 def _sample(i):
