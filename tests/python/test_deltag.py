@@ -269,3 +269,16 @@ def test_threads_give_identical_results():
     with concurrent.futures.ThreadPoolExecutor(max_workers=4) as pool:
         threaded = list(pool.map(run, samples))
     assert threaded == serial
+
+
+def test_readme_session():
+    # The README's notebook session runs as shown (numbers to the digits it prints).
+    import doctest
+    import pathlib
+    readme = (pathlib.Path(__file__).resolve().parents[2] / "README.md").read_text(encoding="utf-8")
+    start = readme.index("```python", readme.index("## Using deltag from C++ and Python"))
+    block = readme[start + len("```python"):readme.index("```", start + 3)]
+    test = doctest.DocTestParser().get_doctest(block, {}, "README session", "README.md", 0)
+    runner = doctest.DocTestRunner(optionflags=doctest.ELLIPSIS | doctest.NORMALIZE_WHITESPACE)
+    runner.run(test)
+    assert runner.failures == 0 and runner.tries > 10
