@@ -282,3 +282,32 @@ def test_readme_session():
     runner = doctest.DocTestRunner(optionflags=doctest.ELLIPSIS | doctest.NORMALIZE_WHITESPACE)
     runner.run(test)
     assert runner.failures == 0 and runner.tries > 10
+
+
+def test_database_file_errors_keep_their_file_and_line(tmp_path):
+    # An error inside a database file points into that file, as at the command line.
+    db = tmp_path / "broken.toml"
+    db.write_text('[sources.x]\ncitation = "invented for a test"\n[components.H2O\n', encoding="utf-8")
+    with pytest.raises(deltag.InputError) as e:
+        deltag.speciate({}, database=str(db))
+    assert e.value.file == str(db)
+    assert e.value.line == 3
+    with pytest.raises(deltag.InputError) as e:
+        deltag.cell("Cu^2+ + 2 e- = Cu(s)", "Zn^2+ + 2 e- = Zn(s)", database=str(db))
+    assert e.value.file == str(db) and e.value.line == 3
+
+
+def test_a_database_that_fails_its_lint_is_refused(tmp_path):
+    # The lint gate of the command line: an error-level finding (here a citation too short to
+    # find the source) refuses the database, naming the entry and its line.
+    db = tmp_path / "short-citation.toml"
+    db.write_text("\n".join([
+        "[sources.x]", 'citation = "abc"',
+        "[components.H2O]", 'source = "x"', "temperature_range_c = [0, 100]",
+        '[components."H+"]', 'source = "x"', "temperature_range_c = [0, 100]", "ion_size_angstrom = 9",
+        '[components."e-"]', 'source = "x"', "temperature_range_c = [0, 100]", ""]), encoding="utf-8")
+    with pytest.raises(deltag.InputError) as e:
+        deltag.speciate({}, database=str(db))
+    assert e.value.key == "sources.x"
+    assert e.value.file == str(db) and e.value.line == 1
+    assert "too short" in e.value.message and "deltag database check" in e.value.message
