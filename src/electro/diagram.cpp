@@ -297,9 +297,10 @@ DiagramResult eh_ph_diagram(const thermo::Database& db, const DiagramSpec& spec)
     {
         std::vector<std::string> names = db.species_names();
         for (const auto& n : db.mineral_names()) names.push_back(n);
-        for (const auto& n : spec.leave_out) {
+        for (std::size_t i = 0; i < spec.leave_out.size(); ++i) {
+            const std::string& n = spec.leave_out[i];
             if (!db.find_species(n) && !db.find_mineral(n))
-                throw InputError(where, key_of(spec, "leave_out"),
+                throw InputError(i < spec.leave_out_where.size() ? spec.leave_out_where[i] : where, key_of(spec, "leave_out"),
                                  "'" + n + "' is neither a species nor a mineral of database '" + db.name() + "'",
                                  nearest_name(n, names));
             leave_out.insert(n);
@@ -550,8 +551,10 @@ DiagramResult eh_ph_diagram(const thermo::Database& db, const DiagramSpec& spec)
 
     // ---- points
     res.points = spec.points;
-    if (water && water->pe)
-        res.points.push_back(WaterPoint{water->label.empty() ? std::string("water") : water->label, water->ph,
+    const std::string water_point = water && !water->label.empty() ? water->label : std::string("water");
+    if (water && water->pe &&
+        std::none_of(res.points.begin(), res.points.end(), [&](const WaterPoint& p) { return p.label == water_point; }))
+        res.points.push_back(WaterPoint{water_point, water->ph,
                                         *water->pe * slope});
     for (const auto& p : res.points)
         if (p.ph < spec.ph_min || p.ph > spec.ph_max || p.eh_v < spec.eh_min_v || p.eh_v > spec.eh_max_v)
@@ -560,8 +563,8 @@ DiagramResult eh_ph_diagram(const thermo::Database& db, const DiagramSpec& spec)
 
     // ---- warnings
     if (!need_ligands.empty()) {
-        std::string why = !water ? std::string("give a water and set ligands to include them")
-                                 : !spec.ligands ? std::string("set ligands to include them at the water's activities")
+        std::string why = !water ? std::string("give a water and set ligands = true to include them")
+                                 : !spec.ligands ? std::string("set ligands = true to include them at the water's activities")
                                                  : std::string("their other components are not in water '" + water->label + "'");
         res.warnings.push_back("left out " + std::to_string(need_ligands.size()) + " form(s) of " + spec.element +
                                " that need other components (" + join(need_ligands) + "): " + why);
