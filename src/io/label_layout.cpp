@@ -2,10 +2,8 @@
 #include "io/label_layout.hpp"
 
 #include <algorithm>
-#include <array>
 #include <cmath>
 #include <cstddef>
-#include <utility>
 
 namespace deltag::io::layout {
 
@@ -65,12 +63,18 @@ std::vector<PlacedLabel> place_point_labels(const std::vector<LabelRequest>& poi
         const LabelRequest& p = points[i];
         const double w = p.width, h = p.height;
         std::vector<Candidate> candidates;
-        // Next to the dot: right, left, the diagonals, above, below.
-        const double d = std::sqrt(0.5);
-        const std::array<std::pair<double, double>, 8> near = {
-            {{1.0, 0.0}, {-1.0, 0.0}, {d, -d}, {d, d}, {-d, -d}, {-d, d}, {0.0, -1.0}, {0.0, 1.0}}};
-        for (const auto& [ux, uy] : near)
-            candidates.push_back({box_towards(p.x, p.y, ux, uy, gap, w, h), false});
+        // Next to the dot: right, left, the four diagonals (just above or below the right and
+        // left places, so they can all be taken together), above, below.
+        const double d = std::sqrt(0.5) * gap, lift = std::max(d, 0.5 * h);
+        candidates.push_back({box_towards(p.x, p.y, 1.0, 0.0, gap, w, h), false});
+        candidates.push_back({box_towards(p.x, p.y, -1.0, 0.0, gap, w, h), false});
+        for (const double sy : {-1.0, 1.0})
+            for (const double sx : {1.0, -1.0}) {
+                const double x0 = sx > 0 ? p.x + d : p.x - d - w, y0 = sy < 0 ? p.y - lift - h : p.y + lift;
+                candidates.push_back({Box{x0, y0, x0 + w, y0 + h}, false});
+            }
+        candidates.push_back({box_towards(p.x, p.y, 0.0, -1.0, gap, w, h), false});
+        candidates.push_back({box_towards(p.x, p.y, 0.0, 1.0, gap, w, h), false});
         // Further out, with a leader: rings a label height apart, 16 directions each.
         const double step = std::max(h, 8.0);
         for (int ring = 1; ring <= 12; ++ring)
@@ -97,8 +101,13 @@ std::vector<PlacedLabel> place_point_labels(const std::vector<LabelRequest>& poi
                 placed.leader_y0 = p.y + (ny - p.y) / len * dot_radius;
                 placed.leader_x1 = nx;
                 placed.leader_y1 = ny;
-                for (std::size_t j = 0; j < dots.size() && free; ++j)
-                    if (j != i) free = !segment_crosses(placed.leader_x0, placed.leader_y0, nx, ny, dots[j]);
+                // Dots that cover this dot's edge cannot be missed; the others must be.
+                for (std::size_t j = 0; j < dots.size() && free; ++j) {
+                    const Box& o = dots[j];
+                    const bool covers_start = placed.leader_x0 >= o.x0 && placed.leader_x0 <= o.x1 &&
+                                              placed.leader_y0 >= o.y0 && placed.leader_y0 <= o.y1;
+                    if (j != i && !covers_start) free = !segment_crosses(placed.leader_x0, placed.leader_y0, nx, ny, o);
+                }
                 for (const Box& b : labels) free = free && !segment_crosses(placed.leader_x0, placed.leader_y0, nx, ny, b);
                 for (const Box& b : avoid) free = free && !segment_crosses(placed.leader_x0, placed.leader_y0, nx, ny, b);
                 if (!free) continue;

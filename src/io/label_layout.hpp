@@ -38,7 +38,7 @@ struct PlacedLabel {
 // on rings further out in 16 directions with a leader line. A candidate is free when its box
 // lies inside `frame`, meets no dot (a box of `dot_radius` around every point), no label
 // placed before, no box of `avoid`, and no leader line drawn before; a leader must not cross
-// another dot or label either. A label with no free candidate is left unplaced.
+// another label, a box of `avoid` or a dot other than those covering its own dot's edge. A label with no free candidate is left unplaced.
 std::vector<PlacedLabel> place_point_labels(const std::vector<LabelRequest>& points, const Box& frame, double dot_radius,
                                             const std::vector<Box>& avoid = {});
 
