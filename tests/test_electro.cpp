@@ -512,6 +512,13 @@ TEST_CASE("a cell with the convention reports both electrodes; one without metal
 
     const HalfCell o2 = parse_half_reaction(db, "O2(g) + 4 H+ + 4 e- = 2 H2O", here);
     CHECK(electrode_metal(o2).empty());
+    // An oxide or hydroxide electrode: its one metal. A solid of a nonmetal is no metal electrode.
+    CHECK(electrode_metal(parse_half_reaction(db, "Fe(OH)3(s) + 3 H+ + e- = Fe^2+ + 3 H2O", here)) == "Fe");
+    CHECK(electrode_metal(parse_half_reaction(db, "Cu2O(s) + 2 H+ + 2 e- = 2 Cu(s) + H2O", here)) == "Cu");
+    HalfCell sulfur;  // SO4^2- + 8 H+ + 6 e- = S(s) + 4 H2O, as terms (the core has no S(s))
+    sulfur.terms = {{"SO4^2-", -1.0, HalfTerm::Kind::aqueous}, {"H+", -8.0, HalfTerm::Kind::aqueous},
+                    {"S(s)", 1.0, HalfTerm::Kind::solid}, {"H2O", 4.0, HalfTerm::Kind::water}};
+    CHECK(electrode_metal(sulfur).empty());
     ElectrodeActivities air(Activities{{"H+", 1e-7}, {"O2(g)", 0.21}});
     air.metal_ion_activity = 1e-6;
     const CellResult a = cell(CellSide{o2, air, 25.0}, CellSide{o2, air, 25.0});

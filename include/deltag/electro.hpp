@@ -71,8 +71,8 @@ struct ElectrodeActivities {
     Activities values;                              // name -> activity (gas: fugacity in atm)
     std::map<std::string, ActivityOrigin> origins;  // per entry of values; an entry not listed is given
     std::string water;                              // the water whose speciation gave the `water` values
-    // Every dissolved species of the electrode's metal (the element of a pure-metal solid of
-    // the half-reaction, e.g. Fe^2+ for "Fe^2+ + 2 e- = Fe(s)") at this activity instead of
+    // Every dissolved species of the electrode's metal (electrode_metal: e.g. Fe^2+ for
+    // "Fe^2+ + 2 e- = Fe(s)" or "Fe(OH)3(s) + 3 H+ + e- = Fe^2+ + 3 H2O") at this activity instead of
     // the water's; a value given for the species still wins. Unset: the activities as they are.
     std::optional<double> metal_ion_activity;
 
@@ -110,8 +110,9 @@ struct ElectrodePotential {
     std::string convention() const;
 };
 
-// The electrode's metal: the element of a solid term made of that one element alone
-// ("Fe(s)"); "" when the half-reaction has none.
+// The electrode's metal: the element of a solid term made of that one metal alone ("Fe(s)"),
+// else the one metal of a solid oxide or hydroxide ("Fe(OH)3(s)", "Cu2O(s)"); "" when the
+// half-reaction has neither.
 std::string electrode_metal(const HalfCell& h);
 
 // The potential of one electrode, with the provenance of every activity. Throws InputError

@@ -44,7 +44,8 @@ CellResult cell(const CellSide& cathode, const CellSide& anode) {
     const bool asked = cathode.activities.metal_ion_activity || anode.activities.metal_ion_activity;
     if (asked && c.cathode_electrode.convention_applied_to.empty() && c.anode_electrode.convention_applied_to.empty())
         c.warnings.push_back("a metal-ion activity was asked for, but neither half-reaction has a dissolved species of "
-                             "its electrode's metal (a metal written as a solid, such as Fe(s)): no activity was set by it");
+                             "its electrode's metal (a metal, oxide or hydroxide written as a solid, such as Fe(s)): no activity "
+                             "was set by it");
     return c;
 }
 

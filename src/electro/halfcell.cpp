@@ -5,6 +5,7 @@
 #include <cstdio>
 #include <utility>
 #include <map>
+#include <set>
 #include <sstream>
 
 #include "deltag/constants.hpp"
@@ -201,12 +202,30 @@ std::string convention_words(const std::string& metal, double a) {
 
 }  // namespace
 
+namespace {
+// The elements that are not metals (metalloids counted with them): a solid of one of these
+// alone, such as S(s) or C(s), is not a metal electrode.
+bool is_metal(std::string_view element) {
+    static const std::set<std::string_view> nonmetals = {"H",  "He", "B",  "C",  "N",  "O",  "F",  "Ne",
+                                                         "Si", "P",  "S",  "Cl", "Ar", "As", "Se", "Br",
+                                                         "Kr", "Te", "I",  "Xe", "At", "Rn"};
+    return nonmetals.count(element) == 0;
+}
+}  // namespace
+
 std::string electrode_metal(const HalfCell& h) {
-    for (const auto& t : h.terms) {
-        if (t.kind != HalfTerm::Kind::solid) continue;
-        const chem::Formula f = chem::parse_formula(t.name);
-        if (f.elements.size() == 1 && f.charge == 0) return f.elements.begin()->first;
-    }
+    // A metal written as a solid first (Fe(s)); else the one metal of an oxide or hydroxide
+    // (Fe(OH)3(s), Cu2O(s)).
+    for (const bool oxide : {false, true})
+        for (const auto& t : h.terms) {
+            if (t.kind != HalfTerm::Kind::solid) continue;
+            const chem::Formula f = chem::parse_formula(t.name);
+            if (f.charge != 0) continue;
+            std::vector<std::string> rest;
+            for (const auto& [element, count] : f.elements)
+                if (!oxide || (element != "O" && element != "H")) rest.push_back(element);
+            if (rest.size() == 1 && is_metal(rest.front()) && (oxide || f.elements.size() == 1)) return rest.front();
+        }
     return {};
 }
 
