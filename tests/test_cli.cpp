@@ -823,7 +823,10 @@ metal_ion_activity = 1e-6
     // The text report names the sources and carries the caution.
     const Run t = deltag("run '" + p.string() + "'");
     REQUIRE(t.code == 0);
-    CHECK(has(t.out, "a(Fe^2+) = 1e-06      dissolved Fe species at activity 1e-06 (the customary convention of corrosion work, common practice)"));
+    CHECK(has(t.out, "a(Fe^2+) = 1e-06      metal-ion convention (1e-06, customary in corrosion work)"));
+    CHECK(has(t.out, "            activities: dissolved Fe species at activity 1e-06 (the customary\n"
+                     "                convention of corrosion work, common practice); the others from\n"
+                     "                the speciation of water 'oxic'\n"));
     CHECK(has(t.out, "a(Fe(s)) = 1          pure solid"));
     CHECK(has(t.out, "activities: the speciation of water 'oxic'"));
     CHECK(has(t.out, "Caution: corrosion and cathodic-protection decisions"));

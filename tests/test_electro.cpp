@@ -437,12 +437,13 @@ TEST_CASE("the metal-ion convention: Fe^2+/Fe at a(Fe^2+) = 1e-6 is E° - 0.1775
     CHECK(p.quotient[0].species == "Fe^2+");
     CHECK(p.quotient[0].activity == 1e-6);
     CHECK(p.quotient[0].origin == ActivityOrigin::convention);
-    CHECK(p.quotient[0].detail.find("customary convention of corrosion work, common practice") != std::string::npos);
+    CHECK(p.quotient[0].detail == "metal-ion convention (1e-06, customary in corrosion work)");
     CHECK(p.quotient[1].species == "Fe(s)");
     CHECK(p.quotient[1].origin == ActivityOrigin::unit);
     CHECK(p.quotient[1].detail == "pure solid");
     CHECK(p.convention_applied_to == std::vector<std::string>{"Fe^2+"});
-    CHECK(p.convention().find("dissolved Fe species at activity 1e-06") != std::string::npos);
+    CHECK(p.convention().find("dissolved Fe species at activity 1e-06 (the customary convention of corrosion work, "
+                              "common practice)") != std::string::npos);
     CHECK(p.convention().find("water 'oxic'") != std::string::npos);
 
     // Without the convention the water's value stands, and says so.

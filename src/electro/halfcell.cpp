@@ -274,7 +274,8 @@ ElectrodePotential electrode_potential(const HalfCell& h, double temperature_c, 
         } else if (metal_species) {
             q.activity = *a.metal_ion_activity;
             q.origin = ActivityOrigin::convention;
-            q.detail = convention_words(p.metal, *a.metal_ion_activity);
+            q.detail = "metal-ion convention (" + short_number(*a.metal_ion_activity) +
+                       (is_customary(*a.metal_ion_activity) ? ", customary in corrosion work)" : ", metal_ion_activity)");
             p.convention_applied_to.push_back(t.name);
         } else if (found) {
             q.activity = it->second;

@@ -369,8 +369,10 @@ std::string cell_text(const electro::CellResult& c) {
         const bool cathode = e == &c.cathode_electrode;
         out += fmt::format("  {:<10}{}\n", cathode ? "cathode" : "anode", cathode ? c.cathode : c.anode);
         out += fmt::format("  {:<10}E° = {:+.4f} V from {}\n", "", e->e0_v, cathode ? c.cathode_origin : c.anode_origin);
-        out += fmt::format("  {:<10}E  = {:+.4f} V at {:.1f} °C; activities: {}\n", "", e->e_v, e->temperature_c,
-                           e->convention());
+        out += fmt::format("  {:<10}E  = {:+.4f} V at {:.1f} °C\n", "", e->e_v, e->temperature_c);
+        // Where the activities came from, wrapped to the report's width.
+        const auto lines = text::wrap("activities: " + e->convention(), 66);
+        for (std::size_t i = 0; i < lines.size(); ++i) out += std::string(i ? 16 : 12, ' ') + lines[i] + "\n";
         std::size_t width = 0;
         for (const auto& q : e->quotient) width = std::max(width, text::code_points(q.species));
         for (const auto& q : e->quotient)
