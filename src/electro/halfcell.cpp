@@ -3,10 +3,11 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
-#include <utility>
 #include <map>
 #include <set>
 #include <sstream>
+#include <string_view>
+#include <utility>
 
 #include "deltag/constants.hpp"
 #include "deltag/electro.hpp"
@@ -200,9 +201,6 @@ std::string convention_words(const std::string& metal, double a) {
            (is_customary(a) ? " (the customary convention of corrosion work, common practice)" : " (metal_ion_activity)");
 }
 
-}  // namespace
-
-namespace {
 // The elements that are not metals (metalloids counted with them): a solid of one of these
 // alone, such as S(s) or C(s), is not a metal electrode.
 bool is_metal(std::string_view element) {
@@ -211,6 +209,7 @@ bool is_metal(std::string_view element) {
                                                          "Kr", "Te", "I",  "Xe", "At", "Rn"};
     return nonmetals.count(element) == 0;
 }
+
 }  // namespace
 
 std::string electrode_metal(const HalfCell& h) {

@@ -6,8 +6,9 @@
 // Okabe-Ito colours; neighbours of one kind alternate between shades), each named inside
 // itself with a white halo; boundaries solid near-black; the two water-stability lines
 // dashed blue with their labels written along them; water points as black dots with a white
-// ring. With shading the three corrosion classes get their own tint and hatching: plain blue
-// (immunity), green hatched one way (passivation), vermillion hatched the other way
+// ring, their labels beside them where no two overlap (else further out, with a thin
+// leader). With shading the three corrosion classes get their own tint and hatching: plain
+// blue (immunity), green hatched one way (passivation), vermillion hatched the other way
 // (corrosion). Legend in a box right of the pe scale; a small grey note at the bottom.
 #include "deltag/diagram_io.hpp"
 
@@ -433,8 +434,12 @@ std::string diagram_svg(const DiagramResult& d) {
                                           minus(fixed(drawn[i]->eh_v, 2)) + " V)");
                 continue;
             }
-            if (l.leader)
+            if (l.leader) {
                 leaders_svg += line_svg(l.leader_x0, l.leader_y0, l.leader_x1, l.leader_y1);
+                // Region and water-line labels keep off the leader too.
+                taken.push_back(Obstacle{std::min(l.leader_x0, l.leader_x1) - 1.0, std::min(l.leader_y0, l.leader_y1) - 1.0,
+                                         std::max(l.leader_x0, l.leader_x1) + 1.0, std::max(l.leader_y0, l.leader_y1) + 1.0});
+            }
             points_svg += text_svg(l.box.x0 + 2.0, 0.5 * (l.box.y0 + l.box.y1) + 4.0, "start", kPointLabelSize,
                                    "font-weight=\"bold\" fill=\"#000000\" stroke=\"#FFFFFF\" stroke-width=\"3\" "
                                    "stroke-linejoin=\"round\" paint-order=\"stroke\"",
