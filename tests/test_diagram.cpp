@@ -393,6 +393,10 @@ TEST_CASE("partition over other ranges and with forms left out") {
     CHECK(d.find("Ferrihydrite") == nullptr);
     CHECK(d.find("Fe(OH)4-") != nullptr);
     check_partition(d);
+    // The result, its warnings and the picture's note say what was left out.
+    CHECK(d.left_out == std::vector<std::string>{"Ferrihydrite"});
+    CHECK(has_warning(d, "left out as asked (leave_out): Ferrihydrite"));
+    CHECK(deltag::io::diagram_svg(d).find("Left out as asked: Ferrihydrite.") != std::string::npos);
 }
 
 TEST_CASE("boundaries join neighbours and lie on both regions") {

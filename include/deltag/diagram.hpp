@@ -130,6 +130,7 @@ struct DiagramResult {
     std::vector<WaterLine> water_lines;        // H2/H2O, then O2/H2O when the database has O2(g)
     std::vector<WaterPoint> points;            // the spec's points, then the water (if it has a pe)
     bool shading = false;
+    std::vector<std::string> left_out;        // the spec's leave_out, so pictures and reports can say so
     std::vector<std::string> warnings;
 
     const Region* find(std::string_view name) const;

@@ -326,6 +326,7 @@ DiagramResult eh_ph_diagram(const thermo::Database& db, const DiagramSpec& spec)
     res.eh_min_v = spec.eh_min_v;
     res.eh_max_v = spec.eh_max_v;
     res.shading = spec.shading;
+    res.left_out = spec.leave_out;
     const double slope = constants::nernst_slope_v(temperature_c + constants::zero_celsius_k);
     res.nernst_slope_v = slope;
     const double log_aw = water ? std::log10(water->water_activity) : 0.0;
@@ -562,6 +563,9 @@ DiagramResult eh_ph_diagram(const thermo::Database& db, const DiagramSpec& spec)
                                    " V) lies outside the diagram");
 
     // ---- warnings
+    if (!spec.leave_out.empty())
+        res.warnings.push_back("left out as asked (leave_out): " + join(spec.leave_out) +
+                               "; the regions drawn are those of the remaining forms");
     if (!need_ligands.empty()) {
         std::string why = !water ? std::string("give a water and set ligands = true to include them")
                                  : !spec.ligands ? std::string("set ligands = true to include them at the water's activities")

@@ -709,6 +709,11 @@ std::string diagram_svg(const DiagramResult& d) {
                        "', component " + chem::pretty(d.component) + "). Dashed: H₂/H₂O and O₂/H₂O at 1 atm";
     if (d.o2_e0_v) note += ", E°(O₂/H₂O) = " + fixed(*d.o2_e0_v, 3) + " V at this temperature";
     note += ".";
+    if (!d.left_out.empty()) {
+        note += " Left out as asked:";
+        for (std::size_t i = 0; i < d.left_out.size(); ++i) note += (i ? ", " : " ") + d.left_out[i];
+        note += ".";
+    }
     std::vector<std::string> outside;
     for (const auto& p : d.points)
         if (p.ph < d.ph_min || p.ph > d.ph_max || p.eh_v < d.eh_min_v || p.eh_v > d.eh_max_v) outside.push_back(p.label);
