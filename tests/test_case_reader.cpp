@@ -2099,6 +2099,39 @@ TEST_CASE("errors: cells") {
                     "cell[1].activities.\"Cu2+\"", cl + 3, "'Cu2+' takes part in neither half-reaction of the cell",
                     "Cu^2+");
     }
+    SUBCASE("a metal-ion activity of zero") {
+        check_error(cell_with(copper + iron + "metal_ion_activity = 0\n"), "cell[1].metal_ion_activity", cl + 2,
+                    "expected the activity of the dissolved species of the electrode's metal, above 0 and at most 1 "
+                    "(1e-6 is the customary corrosion convention), found 0");
+    }
+    SUBCASE("an electrode's metal-ion activity above 1") {
+        check_error(cell_with(copper + "anode = { half_reaction = \"Fe^2+ + 2 e- = Fe(s)\", metal_ion_activity = 2 }\n"),
+                    "cell[1].anode.metal_ion_activity", cl + 1,
+                    "expected the activity of the dissolved species of the electrode's metal, above 0 and at most 1");
+    }
+    SUBCASE("a metal-ion activity that is not a number") {
+        check_error(cell_with(copper + iron + "metal_ion_activity = \"1e-6\"\n"), "cell[1].metal_ion_activity", cl + 2,
+                    "expected a number, found a string");
+    }
+    SUBCASE("a misspelt metal-ion key, the valid one suggested") {
+        check_error(cell_with(copper + iron + "metal_ion_activities = 1e-6\n"), "cell[1].metal_ion_activities", cl + 2,
+                    "unknown key", "metal_ion_activity");
+    }
+}
+
+TEST_CASE("cells: the metal-ion convention goes to each electrode without its own") {
+    const auto c = parse_case(cell_with(copper + "anode = { half_reaction = \"Fe^2+ + 2 e- = Fe(s)\", "
+                                                 "metal_ion_activity = 1e-5 }\nmetal_ion_activity = 1e-6\nwater = \"loop\"\n"),
+                              "test.toml");
+    REQUIRE(c.cells.size() == 1);
+    REQUIRE(c.cells[0].cathode.metal_ion_activity.has_value());
+    CHECK(*c.cells[0].cathode.metal_ion_activity == 1e-6);
+    REQUIRE(c.cells[0].anode.metal_ion_activity.has_value());
+    CHECK(*c.cells[0].anode.metal_ion_activity == 1e-5);
+    // None given: none set (the water's activities stand).
+    const auto plain = parse_case(cell_with(copper + iron), "test.toml");
+    CHECK_FALSE(plain.cells[0].cathode.metal_ion_activity.has_value());
+    CHECK_FALSE(plain.cells[0].anode.metal_ion_activity.has_value());
 }
 
 // --- diagrams ------------------------------------------------------------------------------
@@ -2217,7 +2250,7 @@ TEST_CASE("errors: diagrams") {
     SUBCASE("an unknown key, nearest suggested") {
         check_error(diagram_with(iron_element + "ph_rang = [2, 12]\n"), "diagram[1].ph_rang", dl + 1,
                     "unknown key; expected one of: label, element, temperature_c, log_activity, activity, water, "
-                    "points, ph_range, eh_range_v, shading, svg, csv",
+                    "points, ph_range, eh_range_v, shading, ligands, leave_out, svg, csv",
                     "ph_range");
     }
     SUBCASE("no element") {
@@ -2335,6 +2368,50 @@ TEST_CASE("errors: diagrams") {
     SUBCASE("csv of the wrong type") {
         check_error(diagram_with(iron_element + "csv = 1\n"), "diagram[1].csv", dl + 1, "expected a string, found an integer");
     }
+    SUBCASE("ligands not a boolean") {
+        check_error(diagram_with(iron_element + "water = \"loop\"\nligands = \"carbonate\"\n"), "diagram[1].ligands",
+                    dl + 2, "expected true or false, found a string");
+    }
+    SUBCASE("ligands without a water") {
+        check_error(diagram_with(iron_element + "ligands = true\n"), "diagram[1].ligands", dl + 1,
+                    "ligands = true takes the free activities of the other components (carbonate, sulfate, chloride, ...) "
+                    "from a water: name it in the diagram's water");
+    }
+    SUBCASE("leave_out not an array") {
+        check_error(diagram_with(iron_element + "leave_out = \"Hematite\"\n"), "diagram[1].leave_out", dl + 1,
+                    "expected an array, found a string");
+    }
+    SUBCASE("leave_out with a number in it, at its own line") {
+        check_error(diagram_with(iron_element + "leave_out = [\n  \"Hematite\",\n  2,\n]\n"), "diagram[1].leave_out",
+                    dl + 3,
+                    "expected names of species or minerals of the database (strings) such as \"Hematite\", found an "
+                    "integer in the list");
+    }
+    SUBCASE("leave_out with an empty name") {
+        check_error(diagram_with(iron_element + "leave_out = [\"\"]\n"), "diagram[1].leave_out", dl + 1,
+                    "expected the name of a species or a mineral, found an empty string");
+    }
+    SUBCASE("leave_out with a name twice") {
+        check_error(diagram_with(iron_element + "leave_out = [\"Hematite\", \"Goethite\", \"Hematite\"]\n"),
+                    "diagram[1].leave_out", dl + 1, "'Hematite' is listed twice");
+    }
+}
+
+TEST_CASE("diagrams: ligands and leave_out") {
+    const auto c = parse_case(diagram_with(iron_element + "water = \"loop\"\nligands = true\n"
+                                                          "leave_out = [\"Hematite\",\n  \"Goethite\"]\n"),
+                              "test.toml");
+    REQUIRE(c.diagrams.size() == 1);
+    const auto& d = c.diagrams[0];
+    CHECK(d.ligands);
+    CHECK(d.leave_out == std::vector<std::string>{"Hematite", "Goethite"});
+    REQUIRE(d.leave_out_where.size() == 2);
+    CHECK(d.leave_out_where[0].line == dl + 3);
+    CHECK(d.leave_out_where[1].line == dl + 4);
+    // Defaults: no ligands, nothing left out; ligands = false needs no water.
+    const auto plain = parse_case(diagram_with(iron_element + "ligands = false\n"), "test.toml");
+    CHECK_FALSE(plain.diagrams[0].ligands);
+    CHECK(plain.diagrams[0].leave_out.empty());
 }
 
 TEST_CASE("measured dissolved solids and conductance in the water block") {

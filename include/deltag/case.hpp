@@ -23,6 +23,9 @@ struct CellElectrode {
     std::vector<std::pair<std::string, double>> activities;  // overrides: species -> activity (gas: atm)
     std::vector<SourceLocation> activity_where;
     std::optional<double> temperature_c;           // default: the water's, else 25
+    // Dissolved species of the electrode's metal at this activity (metal_ion_activity; 1e-6
+    // is the customary corrosion convention); unset: from the water or given.
+    std::optional<double> metal_ion_activity;
 };
 
 struct CellSpec {
@@ -45,6 +48,9 @@ struct DiagramCase {
     double ph_min = 0.0, ph_max = 14.0;
     double eh_min_v = -1.5, eh_max_v = 1.5;
     bool shading = true;                           // immunity / passivation / corrosion
+    bool ligands = false;                          // forms with other components at the water's activities
+    std::vector<std::string> leave_out;            // species or minerals not to draw
+    std::vector<SourceLocation> leave_out_where;
     std::string svg_path, csv_path;                // relative to the case file; "" = default names
     SourceLocation where;
 };

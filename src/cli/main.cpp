@@ -106,7 +106,7 @@ Computed compute_case(const std::string& case_path, const std::string& db_overri
 electro::CellResult run_cell(const Computed& k, const io::CellSpec& spec) {
     struct Side {
         electro::HalfCell h;
-        electro::Activities a;
+        electro::ElectrodeActivities a;
         double t = 25.0;
     };
     auto side = [&](const io::CellElectrode& e) {
@@ -117,17 +117,19 @@ electro::CellResult run_cell(const Computed& k, const io::CellSpec& spec) {
             if (!w)
                 throw InputError(e.water_where, "water", "no water or step is called '" + e.water + "'",
                                  nearest_name(e.water, k.labels()));
-            s.a = electro::activities_of(*k.l.db, w->result);
+            s.a = electro::electrode_activities_of(*k.l.db, w->result);
+            s.a.water = e.water;
             s.t = w->result.temperature_c;
         }
-        for (std::size_t i = 0; i < e.activities.size(); ++i) s.a[e.activities[i].first] = e.activities[i].second;
+        for (const auto& [name, value] : e.activities) s.a.set(name, value, electro::ActivityOrigin::given);
+        s.a.metal_ion_activity = e.metal_ion_activity;
         if (e.temperature_c) s.t = *e.temperature_c;
         return s;
     };
     const Side c = side(spec.cathode), a = side(spec.anode);
     electro::CellResult r;
     try {
-        r = electro::cell(c.h, c.a, c.t, a.h, a.a, a.t);
+        r = electro::cell(electro::CellSide{c.h, c.a, c.t}, electro::CellSide{a.h, a.a, a.t});
     } catch (const InputError& e) {
         // A missing activity: point at the cell in the case file.
         throw InputError(spec.where, e.key(), e.message(), e.suggestion());
@@ -186,6 +188,9 @@ int cmd_run(const std::string& case_path, const std::string& format, const std::
         spec.eh_min_v = d.eh_min_v;
         spec.eh_max_v = d.eh_max_v;
         spec.shading = d.shading;
+        spec.ligands = d.ligands;
+        spec.leave_out = d.leave_out;
+        spec.leave_out_where = d.leave_out_where;
         spec.where = d.where;
         if (!d.water.empty()) {
             const process::WaterState* w = k.find(d.water);
@@ -247,12 +252,13 @@ std::vector<std::pair<std::string, double>> parse_activities(const std::vector<s
 
 int cmd_cell(const std::string& cathode, const std::string& anode, const std::vector<std::string>& activity_args,
              std::optional<double> ph, std::optional<double> temperature_c, const std::string& water_ref,
-             const std::string& format, const std::string& db_path) {
+             std::optional<double> metal_ion_activity, const std::string& format, const std::string& db_path) {
     const SourceLocation cmd{"command line", 0, 0};
     std::optional<Computed> k;
     const thermo::Database* db = nullptr;
     Loaded l;
-    electro::Activities acts;
+    electro::ElectrodeActivities acts;
+    acts.metal_ion_activity = metal_ion_activity;
     double t = temperature_c.value_or(25.0);
     if (!water_ref.empty()) {
         const auto colon = water_ref.rfind(':');
@@ -265,7 +271,9 @@ int cmd_cell(const std::string& cathode, const std::string& anode, const std::ve
         if (temperature_c)
             throw InputError(cmd, "--temperature-c", "the water sets the temperature; leave out --temperature-c with --water");
         if (ph) throw InputError(cmd, "--ph", "the water sets the pH; leave out --ph with --water (or give --activity H+=...)");
-        acts = electro::activities_of(*k->l.db, w->result);
+        acts = electro::electrode_activities_of(*k->l.db, w->result);
+        acts.metal_ion_activity = metal_ion_activity;
+        acts.water = name;
         t = w->result.temperature_c;
         db = k->l.db;
     } else {
@@ -275,13 +283,15 @@ int cmd_cell(const std::string& cathode, const std::string& anode, const std::ve
     if (!(t >= 0.0 && t <= 100.0)) throw InputError(cmd, "--temperature-c", "expected a temperature within 0-100 degC");
     if (ph) {
         if (!(*ph >= 0.0 && *ph <= 14.0)) throw InputError(cmd, "--ph", "expected a pH within 0-14");
-        acts["H+"] = std::pow(10.0, -*ph);
+        acts.set("H+", std::pow(10.0, -*ph), electro::ActivityOrigin::given);
     }
-    for (const auto& [name, v] : parse_activities(activity_args)) acts[name] = v;
+    for (const auto& [name, v] : parse_activities(activity_args)) acts.set(name, v, electro::ActivityOrigin::given);
+    if (metal_ion_activity && !(*metal_ion_activity > 0.0 && *metal_ion_activity <= 1.0))
+        throw InputError(cmd, "--metal-ion-activity", "expected an activity above 0 and at most 1 (1e-6 is the customary value)");
     SourceLocation c_at{"--cathode", 0, 0}, a_at{"--anode", 0, 0};
     const electro::HalfCell hc = electro::parse_half_reaction(*db, cathode, c_at);
     const electro::HalfCell ha = electro::parse_half_reaction(*db, anode, a_at);
-    electro::CellResult r = electro::cell(hc, acts, t, ha, acts, t);
+    electro::CellResult r = electro::cell(electro::CellSide{hc, acts, t}, electro::CellSide{ha, acts, t});
     r.label = "cell";
     if (format == "json") std::cout << io::cells_json({r});
     else std::cout << io::cell_text(r) << "\n" << io::electro_caution_text() << "\n";
@@ -496,7 +506,7 @@ int main(int argc, char** argv) {
 
     std::string cathode, anode, water_ref, cell_format = "text", cell_db;
     std::vector<std::string> activity_args;
-    std::optional<double> cell_ph, cell_t;
+    std::optional<double> cell_ph, cell_t, cell_metal_ions;
     CLI::App* cellc = app.add_subcommand("cell", "Cell potential, n, ΔG = -nFE and K of two half-reactions at real activities");
     cellc->add_option("--cathode", cathode, "half-reaction of the cathode, e.g. \"Cu^2+ + 2 e- = Cu(s)\"")->required();
     cellc->add_option("--anode", anode, "half-reaction of the anode, e.g. \"Zn^2+ + 2 e- = Zn(s)\"")->required();
@@ -504,6 +514,8 @@ int main(int argc, char** argv) {
     cellc->add_option("--ph", cell_ph, "sets a(H+) = 10^-pH");
     cellc->add_option("--temperature-c", cell_t, "temperature (default 25)");
     cellc->add_option("--water", water_ref, "CASE.toml:WATER: take the activities and temperature from that water");
+    cellc->add_option("--metal-ion-activity", cell_metal_ions,
+                      "dissolved species of each electrode's metal at this activity (1e-6: the customary corrosion convention)");
     cellc->add_option("--format", cell_format, "text | json")->check(CLI::IsMember({"text", "json"}));
     cellc->add_option("--database", cell_db, "database file (default: the embedded core)");
 
@@ -536,7 +548,7 @@ int main(int argc, char** argv) {
         if (*run) return cmd_run(case_path, format, output, db_path, verbose);
         if (*check) return cmd_database_check(check_path);
         if (*show) return cmd_database_show(show_name, show_db);
-        if (*cellc) return cmd_cell(cathode, anode, activity_args, cell_ph, cell_t, water_ref, cell_format, cell_db);
+        if (*cellc) return cmd_cell(cathode, anode, activity_args, cell_ph, cell_t, water_ref, cell_metal_ions, cell_format, cell_db);
         if (*pot) return cmd_potential(pot_value, pot_from, pot_to, pot_t, pot_dg, pot_n, pot_format);
         return exit_bug;
     } catch (const InputError& e) {

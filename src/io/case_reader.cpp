@@ -1161,11 +1161,14 @@ process::Sweep read_sweep(const std::string& file, std::size_t n, const toml::ta
 
 // --- cells and diagrams -------------------------------------------------------------------
 
-const std::vector<std::string> cell_keys = {"label", "cathode", "anode", "water", "temperature_c", "activities"};
-const std::vector<std::string> electrode_keys = {"half_reaction", "water", "temperature_c", "activities"};
-const std::vector<std::string> diagram_keys = {"label",  "element",  "temperature_c", "log_activity",
-                                               "activity", "water",  "points",        "ph_range",
-                                               "eh_range_v", "shading", "svg",        "csv"};
+const std::vector<std::string> cell_keys = {"label",         "cathode",    "anode",
+                                            "water",         "temperature_c", "activities",
+                                            "metal_ion_activity"};
+const std::vector<std::string> electrode_keys = {"half_reaction", "water", "temperature_c", "activities",
+                                                 "metal_ion_activity"};
+const std::vector<std::string> diagram_keys = {"label",      "element", "temperature_c", "log_activity", "activity",
+                                               "water",      "points",  "ph_range",      "eh_range_v",   "shading",
+                                               "ligands",    "leave_out", "svg",         "csv"};
 const std::string half_reaction_example = "\"Cu^2+ + 2 e- = Cu(s)\"";
 
 // A water or step label named by a cell or a diagram. They are evaluated once every step has
@@ -1241,6 +1244,17 @@ std::vector<ActivityEntry> read_activities(tomlu::TableReader& r) {
     return out;
 }
 
+// The activity at which the dissolved species of an electrode's metal are taken (the
+// customary corrosion convention is 1e-6).
+std::optional<double> read_metal_ion_activity(tomlu::TableReader& r) {
+    auto v = r.number("metal_ion_activity");
+    if (v && !(*v > 0.0 && *v <= 1.0))
+        r.fail("metal_ion_activity",
+               "expected the activity of the dissolved species of the electrode's metal, above 0 and at most 1 "
+               "(1e-6 is the customary corrosion convention), found " + message_number(*v));
+    return v;
+}
+
 // One electrode of a cell: a half-reaction string, or a table with its own water, temperature
 // and activities. `reaction` receives the parsed half-reaction.
 CellElectrode read_electrode(tomlu::TableReader& r, const std::string& which, const Case& c,
@@ -1275,6 +1289,7 @@ CellElectrode read_electrode(tomlu::TableReader& r, const std::string& which, co
     }
     e.temperature_c = ranged(er, "temperature_c", 0.0, 100.0, "a temperature", " °C",
                              " (the range of the water-property correlations)");
+    e.metal_ion_activity = read_metal_ion_activity(er);
     const auto species = species_of(reaction);
     for (const auto& a : read_activities(er)) {
         if (!among(a.species, species))
@@ -1317,6 +1332,7 @@ CellSpec read_cell(const std::string& file, const Case& c, std::size_t n, const 
     }
     const auto temperature_c = ranged(r, "temperature_c", 0.0, 100.0, "a temperature", " °C",
                                       " (the range of the water-property correlations)");
+    const auto metal_ion_activity = read_metal_ion_activity(r);
 
     chem::Reaction cathode_reaction, anode_reaction;
     SourceLocation cathode_where, anode_where;
@@ -1346,6 +1362,7 @@ CellSpec read_cell(const std::string& file, const Case& c, std::size_t n, const 
             e->water_where = is_cathode ? cathode_where : anode_where;
         }
         if (!e->temperature_c) e->temperature_c = temperature_c;
+        if (!e->metal_ion_activity) e->metal_ion_activity = metal_ion_activity;
         for (const auto& a : shared) {
             const bool own = std::any_of(e->activities.begin(), e->activities.end(),
                                          [&](const auto& given) { return same_species(given.first, a.species); });
@@ -1434,6 +1451,31 @@ DiagramCase read_diagram(const std::string& file, const Case& c, std::size_t n, 
     if (auto ph = read_range(r, "ph_range", 0.0, 14.0, "a pH range")) std::tie(d.ph_min, d.ph_max) = *ph;
     if (auto eh = read_range(r, "eh_range_v", -3.0, 3.0, "an Eh range in V")) std::tie(d.eh_min_v, d.eh_max_v) = *eh;
     if (auto shading = r.boolean("shading")) d.shading = *shading;
+    if (auto ligands = r.boolean("ligands")) {
+        // The forms with other components (carbonate, sulfate, chloride, ...) take those
+        // components' free activities from the diagram's water.
+        if (*ligands && d.water.empty())
+            r.fail("ligands", "ligands = true takes the free activities of the other components (carbonate, sulfate, "
+                              "chloride, ...) from a water: name it in the diagram's water");
+        d.ligands = *ligands;
+    }
+    if (const toml::array* names = r.array("leave_out")) {
+        // Whether the database knows the names is checked when the diagram is drawn.
+        for (const auto& el : *names) {
+            const SourceLocation at = tomlu::where(el.source(), r.file());
+            if (!el.is_string())
+                throw InputError(at, r.dotted("leave_out"),
+                                 "expected names of species or minerals of the database (strings) such as \"Hematite\", "
+                                 "found " + tomlu::type_name(el) + " in the list");
+            const std::string name = el.as_string()->get();
+            if (name.empty())
+                throw InputError(at, r.dotted("leave_out"), "expected the name of a species or a mineral, found an empty string");
+            if (is_one_of(name, d.leave_out))
+                throw InputError(at, r.dotted("leave_out"), "'" + name + "' is listed twice");
+            d.leave_out.push_back(name);
+            d.leave_out_where.push_back(at);
+        }
+    }
     for (const char* key : {"svg", "csv"}) {
         if (auto path = r.string(key)) {
             if (path->empty()) r.fail(key, "expected the path of the file to write, found an empty string");
