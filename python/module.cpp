@@ -119,20 +119,24 @@ Water speciate_text(const std::string& toml_text, const std::string& origin, con
 }
 
 electro::CellResult run_cell(const std::string& cathode, const std::string& anode, const electro::Activities& activities,
-                             double temperature_c, std::optional<double> ph, const std::string& database) {
+                             double temperature_c, std::optional<double> ph, std::optional<double> metal_ion_activity,
+                             const std::string& database) {
     const SourceLocation at{"deltag.cell", 0, 0};
     check_temperature(temperature_c, at);
     const Loaded l = load_database(database, at);
-    electro::Activities acts;
+    electro::ElectrodeActivities acts;
+    acts.metal_ion_activity = metal_ion_activity;
     if (ph) {
         if (!(*ph >= 0.0 && *ph <= 14.0)) throw InputError(at, "pH", "expected a pH within 0-14");
-        acts["H+"] = std::pow(10.0, -*ph);
+        acts.set("H+", std::pow(10.0, -*ph), electro::ActivityOrigin::given);
     }
     for (const auto& [name, v] : activities) {
         if (!(v > 0) || !std::isfinite(v))
             throw InputError(at, "activities", "the activity of '" + name + "' must be a positive number, found " + message_number(v));
-        acts[name] = v;
+        acts.set(name, v, electro::ActivityOrigin::given);
     }
+    if (metal_ion_activity && !(*metal_ion_activity > 0.0 && *metal_ion_activity <= 1.0))
+        throw InputError(at, "metal_ion_activity", "expected an activity above 0 and at most 1 (1e-6 is the customary value)");
     auto side = [&](const std::string& text, const char* key) {
         try {
             return electro::parse_half_reaction(*l.db, text, at);
@@ -143,7 +147,7 @@ electro::CellResult run_cell(const std::string& cathode, const std::string& anod
     const electro::HalfCell hc = side(cathode, "cathode"), ha = side(anode, "anode");
     electro::CellResult r;
     try {
-        r = electro::cell(hc, acts, temperature_c, ha, acts, temperature_c);
+        r = electro::cell(electro::CellSide{hc, acts, temperature_c}, electro::CellSide{ha, acts, temperature_c});
     } catch (const InputError& e) {
         // A missing activity: point at the function, as the command line points at the cell.
         throw InputError(at, e.key(), e.message(), e.suggestion());
@@ -242,13 +246,14 @@ PYBIND11_MODULE(_core, m) {
     m.def(
         "cell",
         [](const std::string& cathode, const std::string& anode, const std::map<std::string, double>& activities,
-           double temperature_c, std::optional<double> ph, const std::string& database) {
+           double temperature_c, std::optional<double> ph, std::optional<double> metal_ion_activity,
+           const std::string& database) {
             const electro::Activities acts(activities.begin(), activities.end());
             py::gil_scoped_release unlocked;
-            return run_cell(cathode, anode, acts, temperature_c, ph, database);
+            return run_cell(cathode, anode, acts, temperature_c, ph, metal_ion_activity, database);
         },
         py::arg("cathode"), py::arg("anode"), py::arg("activities"), py::arg("temperature_c"), py::arg("pH"),
-        py::arg("database"));
+        py::arg("metal_ion_activity"), py::arg("database"));
 
     m.def(
         "convert_potential",

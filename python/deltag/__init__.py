@@ -198,6 +198,8 @@ class Cell:
         spontaneous: E > 0, the cell runs as written (the cathode is reduced).
         cathode_origin, anode_origin: where each E° came from (electrode and source).
         warnings: notes on the calculation.
+
+    ``to_dict()`` adds each electrode's potential and where each activity came from.
     """
 
     __slots__ = ("cathode", "anode", "temperature_c", "n", "e0_v", "e_v", "delta_g0_kj_per_mol",
@@ -218,7 +220,8 @@ class Cell:
         return f"<deltag.Cell E° {self.e0_v:+.4f} V, E {self.e_v:+.4f} V, n {self.n:g}>"
 
 
-def cell(cathode, anode, activities=None, temperature_c=25.0, pH=None, database="core"):
+def cell(cathode, anode, activities=None, temperature_c=25.0, pH=None, metal_ion_activity=None,
+         database="core"):
     """An electrochemical cell from two half-reactions; returns a :class:`Cell`.
 
     Args:
@@ -230,6 +233,8 @@ def cell(cathode, anode, activities=None, temperature_c=25.0, pH=None, database=
             of the two reactions needs one.
         temperature_c: degC (0-100).
         pH: sets the activity of H+ (10^-pH); an "H+" in activities takes precedence.
+        metal_ion_activity: every dissolved species of an electrode's metal at this activity
+            (the corrosion convention: 1e-6, common practice); a value in activities wins.
         database: "core" or the path of a database file.
 
     Raises:
@@ -238,7 +243,8 @@ def cell(cathode, anode, activities=None, temperature_c=25.0, pH=None, database=
     """
     acts = {} if activities is None else dict(activities)
     return Cell(_core.cell(cathode, anode, acts, float(temperature_c),
-                           None if pH is None else float(pH), database))
+                           None if pH is None else float(pH),
+                           None if metal_ion_activity is None else float(metal_ion_activity), database))
 
 
 def convert_potential(value_v, from_electrode, to_electrode, temperature_c=25.0):

@@ -311,3 +311,16 @@ def test_a_database_that_fails_its_lint_is_refused(tmp_path):
     assert e.value.key == "sources.x"
     assert e.value.file == str(db) and e.value.line == 1
     assert "too short" in e.value.message and "deltag database check" in e.value.message
+
+
+def test_cell_metal_ion_convention():
+    # a = 1e-6 for the dissolved ions of each electrode's metal (common practice in corrosion
+    # work); a given activity wins. Cu^2+ given 1, Zn^2+ at 1e-6: Nernst gives
+    # E = E° - (RT ln10 / 2F) log10(1e-6 / 1) = E° + 3 x 0.05916 V (CODATA 2018 constants).
+    c = deltag.cell("Cu^2+ + 2 e- = Cu(s)", "Zn^2+ + 2 e- = Zn(s)", activities={"Cu^2+": 1},
+                    metal_ion_activity=1e-6)
+    slope = 8.314462618 * 298.15 * math.log(10) / FARADAY
+    assert c.e_v - c.e0_v == pytest.approx(3 * slope, rel=1e-9)
+    with pytest.raises(deltag.InputError) as e:
+        deltag.cell("Cu^2+ + 2 e- = Cu(s)", "Zn^2+ + 2 e- = Zn(s)", metal_ion_activity=2.0)
+    assert e.value.key == "metal_ion_activity" and "at most 1" in e.value.message
