@@ -267,4 +267,14 @@ PYBIND11_MODULE(_core, m) {
         py::arg("value_v"), py::arg("from_electrode"), py::arg("to_electrode"), py::arg("temperature_c"));
 
     m.def("reference_electrodes", [] { return electro::reference_names(); });
+
+    // For the tests of the exception translator: throws the library error named by `kind`,
+    // as the library would (a ConvergenceError cannot be provoked from valid input on demand).
+    m.def("_throw_library_error", [](const std::string& kind) {
+        const SourceLocation where{"case.toml", 12, 3};
+        if (kind == "input") throw InputError(where, "water.tap.analytes.Ca", "expected a number", "Cl");
+        if (kind == "no_solution") throw NoSolutionError(where, "charge_balance", "would need a negative amount");
+        if (kind == "convergence") throw ConvergenceError("water 'tap'", 0.25, "line search failed", "give a pH");
+        throw std::logic_error("unknown kind '" + kind + "'");
+    });
 }

@@ -231,12 +231,27 @@ def test_cell_and_potential_errors():
     assert e.value.key == "value_v"
 
 
-def test_convergence_error_class():
-    # The class the library's ConvergenceError becomes, with its parts as attributes.
-    e = deltag.ConvergenceError("w: did not converge", subject="w", residual_norm=0.5,
-                                reason="line search failed", hint="try another start")
-    assert isinstance(e, RuntimeError) and isinstance(e, deltag.Error)
-    assert (e.subject, e.residual_norm, e.reason, e.hint) == ("w", 0.5, "line search failed", "try another start")
+def test_each_library_error_becomes_its_class_with_its_parts():
+    # The translator, fed each C++ error kind: the text is the library's what(), as the
+    # command line prints it, and the parts are attributes.
+    from deltag import _core
+    with pytest.raises(deltag.InputError) as e:
+        _core._throw_library_error("input")
+    assert type(e.value) is deltag.InputError
+    assert str(e.value) == "case.toml:12:3: 'water.tap.analytes.Ca': expected a number (did you mean 'Cl'?)"
+    assert (e.value.file, e.value.line, e.value.column) == ("case.toml", 12, 3)
+    assert (e.value.key, e.value.message, e.value.suggestion) == ("water.tap.analytes.Ca", "expected a number", "Cl")
+    with pytest.raises(deltag.NoSolutionError) as e:
+        _core._throw_library_error("no_solution")
+    assert e.value.key == "charge_balance" and e.value.suggestion == ""
+    with pytest.raises(deltag.ConvergenceError) as e:
+        _core._throw_library_error("convergence")
+    err = e.value
+    assert isinstance(err, RuntimeError) and isinstance(err, deltag.Error)
+    assert (err.subject, err.residual_norm, err.reason, err.hint) == ("water 'tap'", 0.25, "line search failed", "give a pH")
+    assert str(err) == "water 'tap': did not converge (line search failed; scaled residual 0.25); give a pH"
+    with pytest.raises(RuntimeError, match="unknown kind"):  # any other C++ error: a RuntimeError
+        _core._throw_library_error("other")
 
 
 # --- documentation and threads ----------------------------------------------------------------
