@@ -339,3 +339,17 @@ def test_cell_metal_ion_convention():
     with pytest.raises(deltag.InputError) as e:
         deltag.cell("Cu^2+ + 2 e- = Cu(s)", "Zn^2+ + 2 e- = Zn(s)", metal_ion_activity=2.0)
     assert e.value.key == "metal_ion_activity" and "at most 1" in e.value.message
+
+
+def test_results_and_errors_pickle():
+    # Results and errors cross process boundaries (multiprocessing, a cluster) intact.
+    import pickle
+    w = deltag.speciate(HARD, pH=7.4)
+    w2 = pickle.loads(pickle.dumps(w))
+    assert (w2.pH, w2.species, w2.saturation, w2.indices, w2.to_dict()) == (w.pH, w.species, w.saturation, w.indices, w.to_dict())
+    c = deltag.cell("Cu^2+ + 2 e- = Cu(s)", "Zn^2+ + 2 e- = Zn(s)", activities={"Cu^2+": 1, "Zn^2+": 1})
+    assert pickle.loads(pickle.dumps(c)).to_dict() == c.to_dict()
+    with pytest.raises(deltag.InputError) as e:
+        deltag.speciate({"Mgg": 1})
+    e2 = pickle.loads(pickle.dumps(e.value))
+    assert (str(e2), e2.key, e2.file, e2.suggestion) == (str(e.value), "analytes.Mgg", "deltag.speciate", "Mg")
