@@ -5,11 +5,17 @@
 # tests/consumer is such a project; tests/CMakeLists.txt builds it against an install.
 include(CMakePackageConfigHelpers)
 
+# deltag_core is deltag::deltag, installed and within a parent project alike.
+set_target_properties(deltag_core PROPERTIES EXPORT_NAME deltag)
+add_library(deltag::deltag ALIAS deltag_core)
+# Every layer library (deltag_layer in CMakeLists.txt records them), so a new layer is
+# installed and exported without a change here.
+get_property(deltag_layers GLOBAL PROPERTY DELTAG_LAYERS)
+
 set(DELTAG_INSTALL_CMAKEDIR ${CMAKE_INSTALL_LIBDIR}/cmake/deltag)
 
 install(DIRECTORY include/deltag DESTINATION ${CMAKE_INSTALL_INCLUDEDIR})
-install(TARGETS deltag_chem deltag_water deltag_thermo deltag_activity deltag_equilibrium deltag_process
-                deltag_electro deltag_io deltag_core
+install(TARGETS ${deltag_layers} deltag_core
         EXPORT deltagTargets
         ARCHIVE DESTINATION ${CMAKE_INSTALL_LIBDIR}
         LIBRARY DESTINATION ${CMAKE_INSTALL_LIBDIR}
