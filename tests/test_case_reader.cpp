@@ -2175,14 +2175,14 @@ points = [
     REQUIRE(c.diagrams.size() == 3);
 
     const auto& a = c.diagrams[0];  // lines 11-22
-    CHECK(a.label == "iron in the loop");
-    CHECK(a.where.line == 11);
-    CHECK(a.element == "Fe");
+    CHECK(a.spec.label == "iron in the loop");
+    CHECK(a.spec.where.line == 11);
+    CHECK(a.spec.element == "Fe");
     CHECK(a.element_where.line == 13);
     CHECK(a.element_where.column == 1);
-    REQUIRE(a.temperature_c.has_value());
-    CHECK(*a.temperature_c == 45.0);
-    CHECK(a.log_activity == -6.0);
+    REQUIRE(a.spec.temperature_c.has_value());
+    CHECK(*a.spec.temperature_c == 45.0);
+    CHECK(a.spec.log_activity == -6.0);
     CHECK(a.water == "loop");
     CHECK(a.water_where.line == 16);
     REQUIRE(a.points.size() == 2);
@@ -2192,36 +2192,36 @@ points = [
     CHECK(a.point_where[0].line == 17);
     CHECK(a.point_where[0].column == 11);
     CHECK(a.point_where[1].column == 19);
-    CHECK(a.ph_min == 2.0);
-    CHECK(a.ph_max == 12.0);
-    CHECK(a.eh_min_v == -1.2);
-    CHECK(a.eh_max_v == 1.2);
-    CHECK(a.shading);
+    CHECK(a.spec.ph_min == 2.0);
+    CHECK(a.spec.ph_max == 12.0);
+    CHECK(a.spec.eh_min_v == -1.2);
+    CHECK(a.spec.eh_max_v == 1.2);
+    CHECK(a.spec.shading);
     CHECK(a.svg_path == "fe-loop.svg");
     CHECK(a.csv_path == "fe-loop.csv");
 
     const auto& b = c.diagrams[1];  // lines 24-25: every default
-    CHECK(b.label == "diagram 2");
-    CHECK(b.where.line == 24);
-    CHECK(b.element == "Cu");
+    CHECK(b.spec.label == "diagram 2");
+    CHECK(b.spec.where.line == 24);
+    CHECK(b.spec.element == "Cu");
     CHECK(b.element_where.line == 25);
-    CHECK_FALSE(b.temperature_c.has_value());
-    CHECK(b.log_activity == -6.0);
+    CHECK_FALSE(b.spec.temperature_c.has_value());
+    CHECK(b.spec.log_activity == -6.0);
     CHECK(b.water.empty());
     CHECK(b.water_where.line == 24);  // absent: the diagram's table
     CHECK(b.points.empty());
-    CHECK(b.ph_min == 0.0);
-    CHECK(b.ph_max == 14.0);
-    CHECK(b.eh_min_v == -1.5);
-    CHECK(b.eh_max_v == 1.5);
-    CHECK(b.shading);
+    CHECK(b.spec.ph_min == 0.0);
+    CHECK(b.spec.ph_max == 14.0);
+    CHECK(b.spec.eh_min_v == -1.5);
+    CHECK(b.spec.eh_max_v == 1.5);
+    CHECK(b.spec.shading);
     CHECK(b.svg_path.empty());
     CHECK(b.csv_path.empty());
 
     const auto& k = c.diagrams[2];  // lines 27-33
-    CHECK(k.label == "diagram 3");
-    CHECK(k.log_activity == doctest::Approx(-4.0));  // log10(1e-4)
-    CHECK_FALSE(k.shading);
+    CHECK(k.spec.label == "diagram 3");
+    CHECK(k.spec.log_activity == doctest::Approx(-4.0));  // log10(1e-4)
+    CHECK_FALSE(k.spec.shading);
     REQUIRE(k.points.size() == 1);
     CHECK(k.point_where[0].line == 32);  // the entry's own line
 }
@@ -2232,15 +2232,15 @@ TEST_CASE("the limits of a diagram's ranges are accepted") {
                                   "[[diagram]]\nelement = \"Cr\"\nactivity = 1e-12\n[[diagram]]\nelement = \"Ni\"\nactivity = 1\n",
                               "test.toml");
     REQUIRE(c.diagrams.size() == 4);
-    CHECK(c.diagrams[0].ph_min == 0.0);
-    CHECK(c.diagrams[0].ph_max == 14.0);
-    CHECK(c.diagrams[0].eh_min_v == -3.0);
-    CHECK(c.diagrams[0].eh_max_v == 3.0);
-    CHECK(c.diagrams[0].log_activity == -12.0);
-    CHECK(c.diagrams[1].log_activity == 0.0);
-    CHECK(*c.diagrams[1].temperature_c == 100.0);
-    CHECK(c.diagrams[2].log_activity == doctest::Approx(-12.0));
-    CHECK(c.diagrams[3].log_activity == 0.0);
+    CHECK(c.diagrams[0].spec.ph_min == 0.0);
+    CHECK(c.diagrams[0].spec.ph_max == 14.0);
+    CHECK(c.diagrams[0].spec.eh_min_v == -3.0);
+    CHECK(c.diagrams[0].spec.eh_max_v == 3.0);
+    CHECK(c.diagrams[0].spec.log_activity == -12.0);
+    CHECK(c.diagrams[1].spec.log_activity == 0.0);
+    CHECK(*c.diagrams[1].spec.temperature_c == 100.0);
+    CHECK(c.diagrams[2].spec.log_activity == doctest::Approx(-12.0));
+    CHECK(c.diagrams[3].spec.log_activity == 0.0);
 }
 
 TEST_CASE("errors: diagrams") {
@@ -2403,15 +2403,15 @@ TEST_CASE("diagrams: ligands and leave_out") {
                               "test.toml");
     REQUIRE(c.diagrams.size() == 1);
     const auto& d = c.diagrams[0];
-    CHECK(d.ligands);
-    CHECK(d.leave_out == std::vector<std::string>{"Hematite", "Goethite"});
-    REQUIRE(d.leave_out_where.size() == 2);
-    CHECK(d.leave_out_where[0].line == dl + 3);
-    CHECK(d.leave_out_where[1].line == dl + 4);
+    CHECK(d.spec.ligands);
+    CHECK(d.spec.leave_out == std::vector<std::string>{"Hematite", "Goethite"});
+    REQUIRE(d.spec.leave_out_where.size() == 2);
+    CHECK(d.spec.leave_out_where[0].line == dl + 3);
+    CHECK(d.spec.leave_out_where[1].line == dl + 4);
     // Defaults: no ligands, nothing left out; ligands = false needs no water.
     const auto plain = parse_case(diagram_with(iron_element + "ligands = false\n"), "test.toml");
-    CHECK_FALSE(plain.diagrams[0].ligands);
-    CHECK(plain.diagrams[0].leave_out.empty());
+    CHECK_FALSE(plain.diagrams[0].spec.ligands);
+    CHECK(plain.diagrams[0].spec.leave_out.empty());
 }
 
 TEST_CASE("measured dissolved solids and conductance in the water block") {

@@ -858,8 +858,8 @@ metal_ion_activity = 1e-6
     REQUIRE(t.code == 0);
     CHECK(has(t.out, "a(Fe^2+) = 1e-06      metal-ion convention (1e-06, customary in corrosion work)"));
     CHECK(has(t.out, "            activities: dissolved Fe species at activity 1e-06 (the customary\n"
-                     "                convention of corrosion work, common practice); the others from\n"
-                     "                the speciation of water 'oxic'\n"));
+                     "                convention of corrosion work, common practice); pure phases at\n"
+                     "                unit activity\n"));
     CHECK(has(t.out, "a(Fe(s)) = 1          pure solid"));
     CHECK(has(t.out, "activities: the speciation of water 'oxic'"));
     CHECK(has(t.out, "Caution: corrosion and cathodic-protection decisions"));

@@ -444,7 +444,7 @@ TEST_CASE("the metal-ion convention: Fe^2+/Fe at a(Fe^2+) = 1e-6 is E° - 0.1775
     CHECK(p.convention_applied_to == std::vector<std::string>{"Fe^2+"});
     CHECK(p.convention().find("dissolved Fe species at activity 1e-06 (the customary convention of corrosion work, "
                               "common practice)") != std::string::npos);
-    CHECK(p.convention().find("water 'oxic'") != std::string::npos);
+    CHECK(p.convention().find("; pure phases at unit activity") != std::string::npos);
 
     // Without the convention the water's value stands, and says so.
     a.metal_ion_activity.reset();
@@ -462,6 +462,25 @@ TEST_CASE("the metal-ion convention: Fe^2+/Fe at a(Fe^2+) = 1e-6 is E° - 0.1775
     CHECK(g.quotient[0].activity == 1e-4);
     CHECK(g.quotient[0].origin == ActivityOrigin::given);
     CHECK(g.convention_applied_to.empty());
+    CHECK(g.convention_given_instead == std::vector<std::string>{"Fe^2+"});
+    CHECK(g.convention() == "values given (the value given for Fe^2+ wins over the metal-ion convention)");
+    // Given over a water's other values: both named.
+    a.set("Fe^2+", 1e-15, ActivityOrigin::water);
+    const HalfCell fe3 = parse_half_reaction(db, "Fe^3+ + e- = Fe^2+", here);
+    a.set("Fe^3+", 1e-9, ActivityOrigin::given);
+    CHECK(electrode_potential(fe3, 25.0, a, here).convention() == "the speciation of water 'oxic' and values given");
+    // A metal electrode without dissolved species of its metal: said so.
+    const HalfCell cuprite = parse_half_reaction(db, "Cu2O(s) + 2 H+ + 2 e- = 2 Cu(s) + H2O", here);
+    ElectrodeActivities acid(Activities{{"H+", 1e-7}});
+    acid.metal_ion_activity = 1e-6;
+    CHECK(electrode_potential(cuprite, 25.0, acid, here).convention() ==
+          "values given (a metal-ion activity was asked for, but the half-reaction has no dissolved species of Cu)");
+    // The convention with nothing else to take from a water: the rest are pure phases.
+    ElectrodeActivities only;
+    only.metal_ion_activity = 1e-6;
+    CHECK(electrode_potential(fe, 25.0, only, here).convention() ==
+          "dissolved Fe species at activity 1e-06 (the customary convention of corrosion work, common practice); pure "
+          "phases at unit activity");
 }
 
 TEST_CASE("provenance of a water's activities: species, water activity, a gas's partial pressure") {
@@ -490,7 +509,7 @@ TEST_CASE("provenance of a water's activities: species, water activity, a gas's 
     CHECK(u.quotient[2].origin == ActivityOrigin::unit);
     CHECK(u.quotient[2].detail == "pure liquid water");
     CHECK(u.quotient[0].origin == ActivityOrigin::given);
-    CHECK(u.convention() == "given activities");
+    CHECK(u.convention() == "values given");
     CHECK(activity_origin_name(ActivityOrigin::water) == "water");
     CHECK(activity_origin_name(ActivityOrigin::given) == "given");
     CHECK(activity_origin_name(ActivityOrigin::convention) == "convention");
@@ -525,7 +544,7 @@ TEST_CASE("a cell with the convention reports both electrodes; one without metal
     const CellResult a = cell(CellSide{o2, air, 25.0}, CellSide{o2, air, 25.0});
     REQUIRE(a.warnings.size() == 1);
     CHECK(a.warnings[0].find("neither half-reaction has a dissolved species of its electrode's metal") != std::string::npos);
-    CHECK(a.cathode_electrode.convention().find("no dissolved species of a metal electrode") != std::string::npos);
+    CHECK(a.cathode_electrode.convention() == "values given");
 }
 
 TEST_CASE("a metal-ion activity outside (0, 1] is refused") {

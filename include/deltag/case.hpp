@@ -8,6 +8,7 @@
 #include <vector>
 
 #include "deltag/activity.hpp"
+#include "deltag/diagram.hpp"
 #include "deltag/process.hpp"
 #include "deltag/water.hpp"
 
@@ -34,25 +35,18 @@ struct CellSpec {
     SourceLocation where;
 };
 
-// A [[diagram]]: an Eh-pH diagram of one element.
+// A [[diagram]]: an Eh-pH diagram of one element. The diagram itself is described once, by
+// electro::DiagramSpec (one set of defaults); the case adds what names other parts of the
+// case (the water and the points, by label) and where the files go. The spec's water and
+// points are filled in when the case runs (deltag::run_case).
 struct DiagramCase {
-    std::string label;                             // default "diagram N"
-    std::string element;                           // "Fe"
+    electro::DiagramSpec spec;                     // label (default "diagram N"), element, ranges, ...
     SourceLocation element_where;
-    std::optional<double> temperature_c;           // default: the water's, else 25
-    double log_activity = -6.0;                    // of the dissolved species
     std::string water;                             // activity coefficients, T and ligands from this water
     SourceLocation water_where;
     std::vector<std::string> points;               // waters (or steps) drawn as points
     std::vector<SourceLocation> point_where;
-    double ph_min = 0.0, ph_max = 14.0;
-    double eh_min_v = -1.5, eh_max_v = 1.5;
-    bool shading = true;                           // immunity / passivation / corrosion
-    bool ligands = false;                          // forms with other components at the water's activities
-    std::vector<std::string> leave_out;            // species or minerals not to draw
-    std::vector<SourceLocation> leave_out_where;
     std::string svg_path, csv_path;                // relative to the case file; "" = default names
-    SourceLocation where;
 };
 
 struct Case {

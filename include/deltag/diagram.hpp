@@ -50,7 +50,7 @@ struct DiagramSpec {
     // water it is a log10 molality (mol/kgw): a = gamma * m with the water's gamma.
     double log_activity = -6.0;
     double ph_min = 0.0, ph_max = 14.0;
-    double eh_min_v = -1.5, eh_max_v = 2.0;
+    double eh_min_v = -1.5, eh_max_v = 1.5;
     // A speciated water: its activity coefficients, water activity and temperature apply.
     // Not owned; must outlive the call. If the water has a pe it is drawn as a point.
     const equilibrium::SpeciationResult* water = nullptr;
@@ -65,7 +65,7 @@ struct DiagramSpec {
     // Drawn as marked dots with their labels. The water's own point is not added again when
     // a point of the same label is listed here.
     std::vector<WaterPoint> points;
-    bool shading = false;            // pictures: immunity / passivation / corrosion classes
+    bool shading = true;             // pictures: immunity / passivation / corrosion classes
     SourceLocation where;            // where the request came from, for error messages
 };
 

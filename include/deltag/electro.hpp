@@ -103,10 +103,12 @@ struct ElectrodePotential {
     std::string metal;                     // the electrode's metal ("" none)
     std::optional<double> metal_ion_activity;  // the convention, when one was asked for
     std::vector<std::string> convention_applied_to;  // the species it set
+    std::vector<std::string> convention_given_instead;  // species of the metal whose given value won
     std::vector<QuotientTerm> quotient;    // every term but the electrons, in the half-reaction's order
 
-    // In words: "speciation of water 'loop'", "dissolved Fe species at 1e-06 (customary
-    // corrosion convention, common practice), the rest from ...", "given activities".
+    // In words: "the speciation of water 'loop'", "values given", "dissolved Fe species at
+    // activity 1e-06 (the customary convention of corrosion work, common practice); the
+    // others from the speciation of water 'loop'", and why a convention asked for set nothing.
     std::string convention() const;
 };
 

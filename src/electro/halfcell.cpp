@@ -229,12 +229,28 @@ std::string electrode_metal(const HalfCell& h) {
 }
 
 std::string ElectrodePotential::convention() const {
-    std::string rest = !water.empty() ? "the speciation of water '" + water + "'" : std::string("given activities");
+    bool from_water = false, from_given = false;
+    for (const auto& q : quotient) {
+        from_water = from_water || q.origin == ActivityOrigin::water;
+        from_given = from_given || q.origin == ActivityOrigin::given;
+    }
+    std::string rest;
+    if (from_water) rest = "the speciation of water '" + water + "'";
+    if (from_given) rest += std::string(rest.empty() ? "" : " and ") + "values given";
     if (metal_ion_activity && !convention_applied_to.empty())
-        return convention_words(metal, *metal_ion_activity) + "; the others from " + rest;
-    if (metal_ion_activity)
+        return convention_words(metal, *metal_ion_activity) +
+               (rest.empty() ? std::string("; pure phases at unit activity") : "; the others from " + rest);
+    if (rest.empty()) rest = "pure phases at unit activity";
+    if (metal_ion_activity && !convention_given_instead.empty()) {
+        std::string names;
+        for (const auto& n : convention_given_instead) names += (names.empty() ? "" : ", ") + n;
+        return rest + " (the value given for " + names + " wins over the metal-ion convention)";
+    }
+    // A half-reaction with no metal (O2/H2O on the other electrode of a cell) has nothing to
+    // say about the convention; a metal without dissolved species (Cu2O/Cu) says so.
+    if (metal_ion_activity && !metal.empty())
         return rest + " (a metal-ion activity was asked for, but the half-reaction has no dissolved species of " +
-               (metal.empty() ? std::string("a metal electrode") : "the electrode's metal " + metal) + ")";
+               metal + ")";
     return rest;
 }
 
@@ -267,6 +283,7 @@ ElectrodePotential electrode_potential(const HalfCell& h, double temperature_c, 
                                    chem::parse_formula(t.name).elements.count(p.metal) > 0;
         if (found && origin != ActivityOrigin::water) {
             // Given (or set by the caller): wins over the convention and the water.
+            if (metal_species) p.convention_given_instead.push_back(t.name);
             q.activity = it->second;
             q.origin = origin;
             q.detail = origin == ActivityOrigin::given ? std::string("given") : std::string(activity_origin_name(origin));

@@ -1391,39 +1391,39 @@ DiagramCase read_diagram(const std::string& file, const Case& c, std::size_t n, 
     tomlu::TableReader r(t, file, "diagram[" + std::to_string(n) + "]");
     reject_unknown_keys(t, diagram_keys, r.file(), r.prefix());
     DiagramCase d;
-    d.where = r.table_location();
+    d.spec.where = r.table_location();
 
     if (auto label = r.string("label")) {
         if (label->empty()) r.fail("label", "expected a label for the diagram, found an empty string");
-        d.label = *label;
+        d.spec.label = *label;
     } else {
-        d.label = "diagram " + std::to_string(n);
+        d.spec.label = "diagram " + std::to_string(n);
     }
     for (std::size_t i = 0; i < c.diagrams.size(); ++i)
-        if (c.diagrams[i].label == d.label)
-            r.fail("label", std::string(r.has("label") ? "the label '" : "the default label '") + d.label +
+        if (c.diagrams[i].spec.label == d.spec.label)
+            r.fail("label", std::string(r.has("label") ? "the label '" : "the default label '") + d.spec.label +
                                 "' is already the label of diagram " + std::to_string(i + 1) + " (line " +
-                                std::to_string(c.diagrams[i].where.line) + "); give each diagram its own label");
+                                std::to_string(c.diagrams[i].spec.where.line) + "); give each diagram its own label");
 
-    d.element = r.require_string("element", "the element of the diagram, a symbol such as \"Fe\"");
+    d.spec.element = r.require_string("element", "the element of the diagram, a symbol such as \"Fe\"");
     d.element_where = key_where(t, "element", r.file());
-    if (d.element.empty())
+    if (d.spec.element.empty())
         r.fail("element", "expected an element symbol such as \"Fe\", found an empty string");
-    if (!chem::atomic_weight(d.element))
+    if (!chem::atomic_weight(d.spec.element))
         // Only short names are matched to a symbol: "Iron" is not a misspelt "Ir".
-        r.fail("element", "unknown element '" + d.element + "'; expected an element symbol such as Fe, Cu or Mn",
-               d.element.size() <= 3 ? nearest_name(d.element, chem::element_symbols()) : std::string());
+        r.fail("element", "unknown element '" + d.spec.element + "'; expected an element symbol such as Fe, Cu or Mn",
+               d.spec.element.size() <= 3 ? nearest_name(d.spec.element, chem::element_symbols()) : std::string());
 
-    d.temperature_c = ranged(r, "temperature_c", 0.0, 100.0, "a temperature", " °C",
+    d.spec.temperature_c = ranged(r, "temperature_c", 0.0, 100.0, "a temperature", " °C",
                              " (the range of the water-property correlations)");
     at_most_one(r, {"log_activity", "activity"},
                 "give the activity of the dissolved species once, as log_activity or activity");
-    if (auto la = ranged(r, "log_activity", -12.0, 0.0, "a log10 activity of the dissolved species")) d.log_activity = *la;
+    if (auto la = ranged(r, "log_activity", -12.0, 0.0, "a log10 activity of the dissolved species")) d.spec.log_activity = *la;
     if (auto a = r.number("activity")) {
         if (!(*a >= 1e-12 && *a <= 1.0))
             r.fail("activity", "expected an activity of the dissolved species from 1e-12 to 1 (log_activity from -12 "
                                "to 0), found " + message_number(*a));
-        d.log_activity = std::log10(*a);
+        d.spec.log_activity = std::log10(*a);
     }
 
     if (auto w = r.string("water")) {
@@ -1431,7 +1431,7 @@ DiagramCase read_diagram(const std::string& file, const Case& c, std::size_t n, 
         d.water_where = key_where(t, "water", r.file());
         check_result_name(c.waters, c.steps, d.water, d.water_where, r.dotted("water"));
     } else {
-        d.water_where = d.where;
+        d.water_where = d.spec.where;
     }
 
     if (const toml::array* points = r.array("points")) {
@@ -1448,16 +1448,16 @@ DiagramCase read_diagram(const std::string& file, const Case& c, std::size_t n, 
         }
     }
 
-    if (auto ph = read_range(r, "ph_range", 0.0, 14.0, "a pH range")) std::tie(d.ph_min, d.ph_max) = *ph;
-    if (auto eh = read_range(r, "eh_range_v", -3.0, 3.0, "an Eh range in V")) std::tie(d.eh_min_v, d.eh_max_v) = *eh;
-    if (auto shading = r.boolean("shading")) d.shading = *shading;
+    if (auto ph = read_range(r, "ph_range", 0.0, 14.0, "a pH range")) std::tie(d.spec.ph_min, d.spec.ph_max) = *ph;
+    if (auto eh = read_range(r, "eh_range_v", -3.0, 3.0, "an Eh range in V")) std::tie(d.spec.eh_min_v, d.spec.eh_max_v) = *eh;
+    if (auto shading = r.boolean("shading")) d.spec.shading = *shading;
     if (auto ligands = r.boolean("ligands")) {
         // The forms with other components (carbonate, sulfate, chloride, ...) take those
         // components' free activities from the diagram's water.
         if (*ligands && d.water.empty())
             r.fail("ligands", "ligands = true takes the free activities of the other components (carbonate, sulfate, "
                               "chloride, ...) from a water: name it in the diagram's water");
-        d.ligands = *ligands;
+        d.spec.ligands = *ligands;
     }
     if (const toml::array* names = r.array("leave_out")) {
         // Whether the database knows the names is checked when the diagram is drawn.
@@ -1470,10 +1470,10 @@ DiagramCase read_diagram(const std::string& file, const Case& c, std::size_t n, 
             const std::string name = el.as_string()->get();
             if (name.empty())
                 throw InputError(at, r.dotted("leave_out"), "expected the name of a species or a mineral, found an empty string");
-            if (is_one_of(name, d.leave_out))
+            if (is_one_of(name, d.spec.leave_out))
                 throw InputError(at, r.dotted("leave_out"), "'" + name + "' is listed twice");
-            d.leave_out.push_back(name);
-            d.leave_out_where.push_back(at);
+            d.spec.leave_out.push_back(name);
+            d.spec.leave_out_where.push_back(at);
         }
     }
     for (const char* key : {"svg", "csv"}) {
