@@ -15,16 +15,13 @@
 #include <utility>
 #include <vector>
 
-#include "deltag/case.hpp"
 #include "deltag/database.hpp"
 #include "deltag/electro.hpp"
 #include "deltag/error.hpp"
-#include "deltag/outlook.hpp"
 #include "deltag/process.hpp"
 #include "deltag/reference_electrodes.hpp"
 #include "deltag/report.hpp"
-#include "deltag/speciation.hpp"
-#include "deltag/water.hpp"
+#include "deltag/run.hpp"
 
 namespace py = pybind11;
 using namespace deltag;
@@ -37,39 +34,6 @@ constexpr double min_temperature_c = 0.0, max_temperature_c = 100.0;
 void check_temperature(double t, const SourceLocation& where) {
     if (!(t >= min_temperature_c && t <= max_temperature_c))
         throw InputError(where, "temperature_c", "expected a temperature within 0-100 degC");
-}
-
-// A database by choice ("core" or a path), refused when its lint finds an error, as the
-// command line does.
-struct Loaded {
-    std::shared_ptr<const thermo::Database> owned;
-    const thermo::Database* db = nullptr;
-    std::string name;
-};
-
-Loaded load_database(const std::string& path_or_core, const SourceLocation& where) {
-    Loaded l;
-    if (path_or_core.empty() || path_or_core == "core") {
-        l.db = &thermo::Database::embedded();
-        l.name = "core (embedded)";
-    } else {
-        std::error_code ec;
-        if (!std::filesystem::exists(path_or_core, ec))
-            throw InputError(where, "database",
-                             "no database file at '" + path_or_core + "'" + (ec ? " (" + ec.message() + ")" : std::string()) +
-                                 "; expected \"core\" or a path");
-        l.owned = std::make_shared<const thermo::Database>(thermo::Database::load_file(path_or_core));
-        l.db = l.owned.get();
-        l.name = path_or_core;
-    }
-    // The embedded database never changes: its lint runs once (it costs about as much as a
-    // solve), a file's at every load.
-    static const std::vector<thermo::LintFinding> embedded_findings = thermo::Database::embedded().lint();
-    const std::vector<thermo::LintFinding> file_findings = l.owned ? l.db->lint() : std::vector<thermo::LintFinding>{};
-    for (const auto& f : l.owned ? file_findings : embedded_findings)
-        if (f.level == thermo::LintFinding::Level::error)
-            throw InputError(f.where, f.key, f.message + " (run 'deltag database check' for the full list)");
-    return l;
 }
 
 // One speciated water: what deltag.speciate returns (wrapped by deltag.Water in Python).
@@ -97,25 +61,27 @@ struct Water {
 
 Water speciate_text(const std::string& toml_text, const std::string& origin, const std::string& water_name) {
     try {
-        const io::Case c = io::parse_case(toml_text, origin);
-        if (c.waters.size() != 1)
-            throw InputError(SourceLocation{origin, 0, 0}, "water", "expected exactly one water");
-        const Loaded l = load_database(c.database, c.database_where);
-        const thermo::Database& db = *l.db;
-        const WaterAnalysis& w = c.waters.front();
-        const equilibrium::SpeciationInput in = to_speciation_input(w, db, c.activity_model);
-        equilibrium::SpeciationResult r = equilibrium::speciate(db, in);
-        describe_lab_input(in, r, db);
+        const CaseRun run = run_case_text(toml_text, origin, std::filesystem::current_path().string());
         Water out;
-        out.state = process::state_from_result(r, in, db);
-        out.database = l.name;
-        const io::ReportItem item{"water", out.state.result, out.state.indices, std::nullopt,
-                                  process::mineral_outlook(db, out.state), w.measured};
-        out.json = io::json_report(db, io::ReportContext{"", "", l.name, DELTAG_VERSION, false}, {item});
+        out.state = run.waters.at(0);
+        out.database = run.database.name;
+        out.json = report(run, "json");
         return out;
     } catch (const InputError& e) {
         rethrow_for_arguments(e, water_name, origin);
     }
+}
+
+// The JSON of `deltag run --format json` for a case file or a case's text; with
+// write_files, the files the case asks for are written as the command writes them.
+std::string run_case_json(const std::string& path_or_text, bool is_text, const std::string& database, bool write_files) {
+    RunOptions options;
+    options.database = database;
+    const CaseRun run = is_text ? run_case_text(path_or_text, "deltag.run_case", std::filesystem::current_path().string(), options)
+                                : run_case(path_or_text, options);
+    std::string json = report(run, "json");
+    if (write_files) io::write_files_atomically(run.files);
+    return json;
 }
 
 electro::CellResult run_cell(const std::string& cathode, const std::string& anode, const electro::Activities& activities,
@@ -123,7 +89,7 @@ electro::CellResult run_cell(const std::string& cathode, const std::string& anod
                              const std::string& database) {
     const SourceLocation at{"deltag.cell", 0, 0};
     check_temperature(temperature_c, at);
-    const Loaded l = load_database(database, at);
+    const DatabaseChoice l = choose_database(database, at);
     electro::ElectrodeActivities acts;
     acts.metal_ion_activity = metal_ion_activity;
     if (ph) {
@@ -169,7 +135,7 @@ void raise_input(const char* cls, const InputError& e) {
 
 PYBIND11_MODULE(_core, m) {
     m.doc() = "The compiled part of deltag; use the package deltag, which documents every function.";
-    m.attr("__version__") = DELTAG_VERSION;
+    m.attr("__version__") = std::string(deltag::version());
     m.attr("caution") = std::string(io::caution_text());
     m.attr("electro_caution") = std::string(io::electro_caution_text());
 
@@ -218,6 +184,14 @@ PYBIND11_MODULE(_core, m) {
                                })
         .def_property_readonly("warnings", [](const Water& w) { return w.state.result.warnings; })
         .def_property_readonly("json", [](const Water& w) { return w.json; });
+
+    m.def(
+        "run_case_json",
+        [](const std::string& path_or_text, bool is_text, const std::string& database, bool write_files) {
+            py::gil_scoped_release unlocked;
+            return run_case_json(path_or_text, is_text, database, write_files);
+        },
+        py::arg("path_or_text"), py::arg("is_text"), py::arg("database"), py::arg("write_files"));
 
     m.def(
         "speciate_text",

@@ -18,5 +18,6 @@ endif()
 if(TARGET deltag_python)
   add_test(NAME test_python
            COMMAND ${Python3_EXECUTABLE} -m pytest -q -p no:cacheprovider ${CMAKE_CURRENT_SOURCE_DIR}/python)
-  set_tests_properties(test_python PROPERTIES ENVIRONMENT "PYTHONPATH=${PROJECT_BINARY_DIR}/python;PYTHONDONTWRITEBYTECODE=1")
+  set_tests_properties(test_python PROPERTIES ENVIRONMENT "PYTHONPATH=${PROJECT_BINARY_DIR}/python;PYTHONDONTWRITEBYTECODE=1;DELTAG_BINARY=$<TARGET_FILE:deltag>")
+  add_dependencies(deltag_python deltag)  # the tests compare with the command
 endif()

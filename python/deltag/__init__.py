@@ -38,8 +38,31 @@ __version__ = _core.__version__
 caution = _core.caution
 electro_caution = _core.electro_caution
 
-__all__ = ["speciate", "Water", "cell", "Cell", "convert_potential", "reference_electrodes",
+__all__ = ["run_case", "speciate", "Water", "cell", "Cell", "convert_potential", "reference_electrodes",
            "Error", "InputError", "NoSolutionError", "ConvergenceError"]
+
+
+# --- a whole case ----------------------------------------------------------------------------
+
+def run_case(path_or_toml_text, database=None, write_files=False):
+    """Runs a case and returns its report as Python objects: exactly the JSON of
+    ``deltag run CASE --format json`` (``"results"``: the waters then the steps; ``"cells"``,
+    ``"diagrams"``, ``"sweeps"``; ``"caution"``).
+
+    Args:
+        path_or_toml_text: the path of a case file, or the case itself as TOML text (a string
+            with a line break is taken as text; paths in it are taken from the current
+            directory, and messages name it "deltag.run_case").
+        database: replaces the case's database choice ("core" or a path), as ``--database``.
+        write_files: also write the files the case asks for (sweep tables and plots,
+            diagrams), all or none, as the command does; by default nothing is written.
+
+    Raises:
+        deltag.InputError: bad input, with the file, line, column and key the command prints.
+        deltag.NoSolutionError, deltag.ConvergenceError: as for :func:`speciate`.
+    """
+    text = str(path_or_toml_text)
+    return _json.loads(_core.run_case_json(text, "\n" in text, database or "", bool(write_files)))
 
 
 # --- the case text deltag.speciate builds from its arguments --------------------------------
@@ -139,7 +162,8 @@ def speciate(analytes=None, units="mg/L", temperature_c=25.0, pH=None, *, pe=Non
     """Speciates one water from a lab analysis and returns a :class:`Water`.
 
     The arguments are the keys of a water in a case file, with the same meaning, defaults
-    and checks:
+    and checks: the function writes them as a case with one water and runs it as
+    :func:`run_case` does.
 
     Args:
         analytes: dict of analyte -> value, as a case file's analytes table takes them: a

@@ -31,7 +31,12 @@ DatabaseChoice choose_database(const std::string& path_or_core, const SourceLoca
         l.db = l.owned.get();
         l.name = path_or_core;
     }
-    for (const auto& f : l.db->lint())
+    // The embedded database never changes: its lint runs once per process (it costs about as
+    // much as a solve, which matters to a program calling this per sample), a file's at every load.
+    static const std::vector<thermo::LintFinding> embedded_findings = thermo::Database::embedded().lint();
+    std::vector<thermo::LintFinding> file_findings;
+    if (l.owned) file_findings = l.db->lint();
+    for (const auto& f : l.owned ? file_findings : embedded_findings)
         if (f.level == thermo::LintFinding::Level::error)
             throw InputError(f.where, f.key, f.message + " (run 'deltag database check' for the full list)");
     return l;

@@ -353,3 +353,66 @@ def test_results_and_errors_pickle():
         deltag.speciate({"Mgg": 1})
     e2 = pickle.loads(pickle.dumps(e.value))
     assert (str(e2), e2.key, e2.file, e2.suggestion) == (str(e.value), "analytes.Mgg", "deltag.speciate", "Mg")
+
+
+# --- a whole case ---------------------------------------------------------------------------
+
+import json
+import os
+import pathlib
+import shutil
+import subprocess
+
+REPO = pathlib.Path(__file__).resolve().parents[2]
+CLI = os.environ.get("DELTAG_BINARY", str(REPO / "build" / "deltag"))
+
+
+def _cli(args, cwd):
+    return subprocess.run([CLI] + args, cwd=cwd, capture_output=True, text=True)
+
+
+@pytest.mark.parametrize("case", ["hard-well.toml", "cooling-tower.toml", "loop-corrosion.toml"])
+def test_run_case_is_the_commands_json(case, tmp_path, monkeypatch):
+    # The same case through the command and through Python: the same JSON, value for value
+    # (steps, a sweep, cells and diagrams among the three cases).
+    path = tmp_path / case
+    shutil.copy(REPO / "cases" / case, path)
+    monkeypatch.chdir(tmp_path)
+    ours = deltag.run_case(str(path))
+    assert sorted(p.name for p in tmp_path.iterdir()) == [case]  # nothing written by default
+    cli = _cli(["run", str(path), "--format", "json"], tmp_path)
+    assert cli.returncode == 0, cli.stderr
+    assert ours == json.loads(cli.stdout)
+
+
+def test_run_case_text_and_files(tmp_path, monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    text = (REPO / "cases" / "hard-well.toml").read_text(encoding="utf-8")
+    assert deltag.run_case(text) == deltag.run_case(str(REPO / "cases" / "hard-well.toml"))
+    # With write_files, the files the case asks for are written, as by the command.
+    case = tmp_path / "loop.toml"
+    shutil.copy(REPO / "cases" / "loop-corrosion.toml", case)
+    report = deltag.run_case(str(case), write_files=True)
+    written = [d[k] for d in report["diagrams"] for k in ("svg", "csv")]
+    assert written and all(pathlib.Path(f).is_file() for f in written)
+
+
+def test_run_case_errors_are_the_commands(tmp_path):
+    # The message, file, line and key the command prints for a bad case.
+    case = tmp_path / "bad.toml"
+    case.write_text('title = "invented for a test"\n[water.tap]\npH = 7.2\n'
+                    '[water.tap.analytes]\nCa = 40\nMgg = 10\n', encoding="utf-8")
+    with pytest.raises(deltag.InputError) as e:
+        deltag.run_case(str(case))
+    assert (e.value.file, e.value.line, e.value.key) == (str(case), 6, "water.tap.analytes.Mgg")
+    cli = _cli(["run", str(case)], tmp_path)
+    assert cli.returncode == 2
+    assert cli.stderr.strip() == "deltag: error: " + str(e.value)
+    with pytest.raises(deltag.InputError) as e:
+        deltag.run_case(str(tmp_path / "missing.toml"))
+    cli = _cli(["run", str(tmp_path / "missing.toml")], tmp_path)
+    assert cli.stderr.strip() == "deltag: error: " + str(e.value)
+    # As text: messages name "deltag.run_case" and the line in the text.
+    with pytest.raises(deltag.InputError) as e:
+        deltag.run_case(case.read_text(encoding="utf-8"))
+    assert (e.value.file, e.value.line, e.value.key) == ("deltag.run_case", 6, "water.tap.analytes.Mgg")
