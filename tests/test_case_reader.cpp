@@ -2112,6 +2112,39 @@ TEST_CASE("errors: cells") {
                     "cell[1].activities.\"Cu2+\"", cl + 3, "'Cu2+' takes part in neither half-reaction of the cell",
                     "Cu^2+");
     }
+    SUBCASE("a metal-ion activity of zero") {
+        check_error(cell_with(copper + iron + "metal_ion_activity = 0\n"), "cell[1].metal_ion_activity", cl + 2,
+                    "expected the activity of the dissolved species of the electrode's metal, above 0 and at most 1 "
+                    "(1e-6 is the customary corrosion convention), found 0");
+    }
+    SUBCASE("an electrode's metal-ion activity above 1") {
+        check_error(cell_with(copper + "anode = { half_reaction = \"Fe^2+ + 2 e- = Fe(s)\", metal_ion_activity = 2 }\n"),
+                    "cell[1].anode.metal_ion_activity", cl + 1,
+                    "expected the activity of the dissolved species of the electrode's metal, above 0 and at most 1");
+    }
+    SUBCASE("a metal-ion activity that is not a number") {
+        check_error(cell_with(copper + iron + "metal_ion_activity = \"1e-6\"\n"), "cell[1].metal_ion_activity", cl + 2,
+                    "expected a number, found a string");
+    }
+    SUBCASE("a misspelt metal-ion key, the valid one suggested") {
+        check_error(cell_with(copper + iron + "metal_ion_activities = 1e-6\n"), "cell[1].metal_ion_activities", cl + 2,
+                    "unknown key", "metal_ion_activity");
+    }
+}
+
+TEST_CASE("cells: the metal-ion convention goes to each electrode without its own") {
+    const auto c = parse_case(cell_with(copper + "anode = { half_reaction = \"Fe^2+ + 2 e- = Fe(s)\", "
+                                                 "metal_ion_activity = 1e-5 }\nmetal_ion_activity = 1e-6\nwater = \"loop\"\n"),
+                              "test.toml");
+    REQUIRE(c.cells.size() == 1);
+    REQUIRE(c.cells[0].cathode.metal_ion_activity.has_value());
+    CHECK(*c.cells[0].cathode.metal_ion_activity == 1e-6);
+    REQUIRE(c.cells[0].anode.metal_ion_activity.has_value());
+    CHECK(*c.cells[0].anode.metal_ion_activity == 1e-5);
+    // None given: none set (the water's activities stand).
+    const auto plain = parse_case(cell_with(copper + iron), "test.toml");
+    CHECK_FALSE(plain.cells[0].cathode.metal_ion_activity.has_value());
+    CHECK_FALSE(plain.cells[0].anode.metal_ion_activity.has_value());
 }
 
 // --- diagrams ------------------------------------------------------------------------------
@@ -2155,14 +2188,14 @@ points = [
     REQUIRE(c.diagrams.size() == 3);
 
     const auto& a = c.diagrams[0];  // lines 11-22
-    CHECK(a.label == "iron in the loop");
-    CHECK(a.where.line == 11);
-    CHECK(a.element == "Fe");
+    CHECK(a.spec.label == "iron in the loop");
+    CHECK(a.spec.where.line == 11);
+    CHECK(a.spec.element == "Fe");
     CHECK(a.element_where.line == 13);
     CHECK(a.element_where.column == 1);
-    REQUIRE(a.temperature_c.has_value());
-    CHECK(*a.temperature_c == 45.0);
-    CHECK(a.log_activity == -6.0);
+    REQUIRE(a.spec.temperature_c.has_value());
+    CHECK(*a.spec.temperature_c == 45.0);
+    CHECK(a.spec.log_activity == -6.0);
     CHECK(a.water == "loop");
     CHECK(a.water_where.line == 16);
     REQUIRE(a.points.size() == 2);
@@ -2172,36 +2205,36 @@ points = [
     CHECK(a.point_where[0].line == 17);
     CHECK(a.point_where[0].column == 11);
     CHECK(a.point_where[1].column == 19);
-    CHECK(a.ph_min == 2.0);
-    CHECK(a.ph_max == 12.0);
-    CHECK(a.eh_min_v == -1.2);
-    CHECK(a.eh_max_v == 1.2);
-    CHECK(a.shading);
+    CHECK(a.spec.ph_min == 2.0);
+    CHECK(a.spec.ph_max == 12.0);
+    CHECK(a.spec.eh_min_v == -1.2);
+    CHECK(a.spec.eh_max_v == 1.2);
+    CHECK(a.spec.shading);
     CHECK(a.svg_path == "fe-loop.svg");
     CHECK(a.csv_path == "fe-loop.csv");
 
     const auto& b = c.diagrams[1];  // lines 24-25: every default
-    CHECK(b.label == "diagram 2");
-    CHECK(b.where.line == 24);
-    CHECK(b.element == "Cu");
+    CHECK(b.spec.label == "diagram 2");
+    CHECK(b.spec.where.line == 24);
+    CHECK(b.spec.element == "Cu");
     CHECK(b.element_where.line == 25);
-    CHECK_FALSE(b.temperature_c.has_value());
-    CHECK(b.log_activity == -6.0);
+    CHECK_FALSE(b.spec.temperature_c.has_value());
+    CHECK(b.spec.log_activity == -6.0);
     CHECK(b.water.empty());
     CHECK(b.water_where.line == 24);  // absent: the diagram's table
     CHECK(b.points.empty());
-    CHECK(b.ph_min == 0.0);
-    CHECK(b.ph_max == 14.0);
-    CHECK(b.eh_min_v == -1.5);
-    CHECK(b.eh_max_v == 1.5);
-    CHECK(b.shading);
+    CHECK(b.spec.ph_min == 0.0);
+    CHECK(b.spec.ph_max == 14.0);
+    CHECK(b.spec.eh_min_v == -1.5);
+    CHECK(b.spec.eh_max_v == 1.5);
+    CHECK(b.spec.shading);
     CHECK(b.svg_path.empty());
     CHECK(b.csv_path.empty());
 
     const auto& k = c.diagrams[2];  // lines 27-33
-    CHECK(k.label == "diagram 3");
-    CHECK(k.log_activity == doctest::Approx(-4.0));  // log10(1e-4)
-    CHECK_FALSE(k.shading);
+    CHECK(k.spec.label == "diagram 3");
+    CHECK(k.spec.log_activity == doctest::Approx(-4.0));  // log10(1e-4)
+    CHECK_FALSE(k.spec.shading);
     REQUIRE(k.points.size() == 1);
     CHECK(k.point_where[0].line == 32);  // the entry's own line
 }
@@ -2212,15 +2245,15 @@ TEST_CASE("the limits of a diagram's ranges are accepted") {
                                   "[[diagram]]\nelement = \"Cr\"\nactivity = 1e-12\n[[diagram]]\nelement = \"Ni\"\nactivity = 1\n",
                               "test.toml");
     REQUIRE(c.diagrams.size() == 4);
-    CHECK(c.diagrams[0].ph_min == 0.0);
-    CHECK(c.diagrams[0].ph_max == 14.0);
-    CHECK(c.diagrams[0].eh_min_v == -3.0);
-    CHECK(c.diagrams[0].eh_max_v == 3.0);
-    CHECK(c.diagrams[0].log_activity == -12.0);
-    CHECK(c.diagrams[1].log_activity == 0.0);
-    CHECK(*c.diagrams[1].temperature_c == 100.0);
-    CHECK(c.diagrams[2].log_activity == doctest::Approx(-12.0));
-    CHECK(c.diagrams[3].log_activity == 0.0);
+    CHECK(c.diagrams[0].spec.ph_min == 0.0);
+    CHECK(c.diagrams[0].spec.ph_max == 14.0);
+    CHECK(c.diagrams[0].spec.eh_min_v == -3.0);
+    CHECK(c.diagrams[0].spec.eh_max_v == 3.0);
+    CHECK(c.diagrams[0].spec.log_activity == -12.0);
+    CHECK(c.diagrams[1].spec.log_activity == 0.0);
+    CHECK(*c.diagrams[1].spec.temperature_c == 100.0);
+    CHECK(c.diagrams[2].spec.log_activity == doctest::Approx(-12.0));
+    CHECK(c.diagrams[3].spec.log_activity == 0.0);
 }
 
 TEST_CASE("errors: diagrams") {
@@ -2230,7 +2263,7 @@ TEST_CASE("errors: diagrams") {
     SUBCASE("an unknown key, nearest suggested") {
         check_error(diagram_with(iron_element + "ph_rang = [2, 12]\n"), "diagram[1].ph_rang", dl + 1,
                     "unknown key; expected one of: label, element, temperature_c, log_activity, activity, water, "
-                    "points, ph_range, eh_range_v, shading, svg, csv",
+                    "points, ph_range, eh_range_v, shading, ligands, leave_out, svg, csv",
                     "ph_range");
     }
     SUBCASE("no element") {
@@ -2348,6 +2381,50 @@ TEST_CASE("errors: diagrams") {
     SUBCASE("csv of the wrong type") {
         check_error(diagram_with(iron_element + "csv = 1\n"), "diagram[1].csv", dl + 1, "expected a string, found an integer");
     }
+    SUBCASE("ligands not a boolean") {
+        check_error(diagram_with(iron_element + "water = \"loop\"\nligands = \"carbonate\"\n"), "diagram[1].ligands",
+                    dl + 2, "expected true or false, found a string");
+    }
+    SUBCASE("ligands without a water") {
+        check_error(diagram_with(iron_element + "ligands = true\n"), "diagram[1].ligands", dl + 1,
+                    "ligands = true takes the free activities of the other components (carbonate, sulfate, chloride, ...) "
+                    "from a water: name it in the diagram's water");
+    }
+    SUBCASE("leave_out not an array") {
+        check_error(diagram_with(iron_element + "leave_out = \"Hematite\"\n"), "diagram[1].leave_out", dl + 1,
+                    "expected an array, found a string");
+    }
+    SUBCASE("leave_out with a number in it, at its own line") {
+        check_error(diagram_with(iron_element + "leave_out = [\n  \"Hematite\",\n  2,\n]\n"), "diagram[1].leave_out",
+                    dl + 3,
+                    "expected names of species or minerals of the database (strings) such as \"Hematite\", found an "
+                    "integer in the list");
+    }
+    SUBCASE("leave_out with an empty name") {
+        check_error(diagram_with(iron_element + "leave_out = [\"\"]\n"), "diagram[1].leave_out", dl + 1,
+                    "expected the name of a species or a mineral, found an empty string");
+    }
+    SUBCASE("leave_out with a name twice") {
+        check_error(diagram_with(iron_element + "leave_out = [\"Hematite\", \"Goethite\", \"Hematite\"]\n"),
+                    "diagram[1].leave_out", dl + 1, "'Hematite' is listed twice");
+    }
+}
+
+TEST_CASE("diagrams: ligands and leave_out") {
+    const auto c = parse_case(diagram_with(iron_element + "water = \"loop\"\nligands = true\n"
+                                                          "leave_out = [\"Hematite\",\n  \"Goethite\"]\n"),
+                              "test.toml");
+    REQUIRE(c.diagrams.size() == 1);
+    const auto& d = c.diagrams[0];
+    CHECK(d.spec.ligands);
+    CHECK(d.spec.leave_out == std::vector<std::string>{"Hematite", "Goethite"});
+    REQUIRE(d.spec.leave_out_where.size() == 2);
+    CHECK(d.spec.leave_out_where[0].line == dl + 3);
+    CHECK(d.spec.leave_out_where[1].line == dl + 4);
+    // Defaults: no ligands, nothing left out; ligands = false needs no water.
+    const auto plain = parse_case(diagram_with(iron_element + "ligands = false\n"), "test.toml");
+    CHECK_FALSE(plain.diagrams[0].spec.ligands);
+    CHECK(plain.diagrams[0].spec.leave_out.empty());
 }
 
 TEST_CASE("measured dissolved solids and conductance in the water block") {

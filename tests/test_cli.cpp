@@ -765,3 +765,174 @@ temperature_c = 40
     CHECK(step["tds_measured_mg_per_l"].is_null());
     CHECK(step["standard_methods_1030e_checks"].empty());
 }
+
+namespace {
+
+// An invented oxic water with iron and carbonate, for the cells and diagrams below.
+const std::string oxic_case = R"toml(title = "oxic loop (invented)"
+[water.oxic]
+pH = 7.8
+dissolved_oxygen_mg_per_l = 8
+units = "mg/L"
+[water.oxic.analytes]
+Na = 20
+Cl = 30
+Fe = 0.05
+Cu = 0.02
+Alkalinity = { value = 80, as = "CaCO3" }
+)toml";
+
+const nlohmann::json* quotient_term(const nlohmann::json& electrode, const std::string& species) {
+    for (const auto& q : electrode["quotient"])
+        if (q["species"] == species) return &q;
+    return nullptr;
+}
+
+}  // namespace
+
+TEST_CASE("run: a cell says where each activity came from, with and without the metal-ion convention") {
+    const fs::path p = write("provenance.toml", oxic_case + R"toml(
+[[cell]]
+label = "as the water has it"
+cathode = "O2(g) + 4 H+ + 4 e- = 2 H2O"
+anode = "Fe^2+ + 2 e- = Fe(s)"
+water = "oxic"
+
+[[cell]]
+label = "corrosion convention"
+cathode = "O2(g) + 4 H+ + 4 e- = 2 H2O"
+anode = "Fe^2+ + 2 e- = Fe(s)"
+water = "oxic"
+metal_ion_activity = 1e-6
+)toml");
+    const Run r = deltag("run '" + p.string() + "' --format json");
+    REQUIRE(r.code == 0);
+    const auto doc = nlohmann::json::parse(r.out);
+    REQUIRE(doc["cells"].size() == 2);
+    // Cells feed cathodic-protection decisions: the JSON carries that caution.
+    CHECK(has(doc["electrochemistry_caution"].get<std::string>(), "cathodic-protection"));
+
+    const auto& plain = doc["cells"][0]["electrodes"];
+    REQUIRE(plain.size() == 2);
+    CHECK(plain[0]["role"] == "cathode");
+    CHECK(plain[1]["role"] == "anode");
+    CHECK(plain[1]["water"] == "oxic");
+    CHECK(plain[1]["metal_ion_convention"].is_null());
+    CHECK(plain[1]["activities_from"] == "the speciation of water 'oxic'");
+    const auto* fe_water = quotient_term(plain[1], "Fe^2+");
+    REQUIRE(fe_water != nullptr);
+    CHECK((*fe_water)["origin"] == "water");
+    CHECK((*fe_water)["detail"] == "speciation of water 'oxic'");
+    // Oxic water at pH 7.8: ferrous iron is scarce (thermodynamically right, far below 1e-6).
+    CHECK((*fe_water)["activity"].get<double>() < 1e-10);
+    const auto* fe_metal = quotient_term(plain[1], "Fe(s)");
+    REQUIRE(fe_metal != nullptr);
+    CHECK((*fe_metal)["origin"] == "unit");
+    const auto* o2 = quotient_term(plain[0], "O2(g)");
+    REQUIRE(o2 != nullptr);
+    CHECK((*o2)["origin"] == "water");
+    CHECK((*o2)["detail"] == "partial pressure in equilibrium with water 'oxic'");
+    CHECK((*quotient_term(plain[0], "H+"))["origin"] == "water");
+    CHECK((*quotient_term(plain[0], "H2O"))["origin"] == "water");
+
+    const auto& conv = doc["cells"][1]["electrodes"];
+    const auto* fe_conv = quotient_term(conv[1], "Fe^2+");
+    REQUIRE(fe_conv != nullptr);
+    CHECK((*fe_conv)["origin"] == "convention");
+    CHECK((*fe_conv)["activity"].get<double>() == 1e-6);
+    CHECK(conv[1]["metal_ion_convention"]["metal"] == "Fe");
+    CHECK(conv[1]["metal_ion_convention"]["customary"] == true);
+    CHECK(conv[1]["metal_ion_convention"]["applied_to"] == nlohmann::json::array({"Fe^2+"}));
+    // The cathode (oxygen) has no metal: the convention touches none of its terms.
+    CHECK(conv[0]["metal_ion_convention"]["metal"].is_null());
+    CHECK(conv[0]["metal_ion_convention"]["applied_to"].empty());
+    // The anode's Nernst term moves from the water's activity to 1e-6:
+    // dE(anode) = -(RT/2F) ln(1e-6 / a_water), at the water's 25 degC.
+    const double slope = 8.314462618 * 298.15 * std::log(10.0) / 96485.33212;
+    const double shift = -slope / 2.0 * std::log10(1e-6 / (*fe_water)["activity"].get<double>());
+    CHECK(conv[1]["e_v"].get<double>() - plain[1]["e_v"].get<double>() == doctest::Approx(-shift).epsilon(1e-9));
+    CHECK(conv[1]["e_v"].get<double>() == doctest::Approx(conv[1]["e0_v"].get<double>() - slope * 3.0).epsilon(1e-9));
+
+    // The text report names the sources and carries the caution.
+    const Run t = deltag("run '" + p.string() + "'");
+    REQUIRE(t.code == 0);
+    CHECK(has(t.out, "a(Fe^2+) = 1e-06      metal-ion convention (1e-06, customary in corrosion work)"));
+    CHECK(has(t.out, "            activities: dissolved Fe species at activity 1e-06 (the customary\n"
+                     "                convention of corrosion work, common practice); pure phases at\n"
+                     "                unit activity\n"));
+    CHECK(has(t.out, "a(Fe(s)) = 1          pure solid"));
+    CHECK(has(t.out, "activities: the speciation of water 'oxic'"));
+    CHECK(has(t.out, "Caution: corrosion and cathodic-protection decisions"));
+}
+
+TEST_CASE("cell --metal-ion-activity: the convention on the command line") {
+    // Fe^2+/Fe against the hydrogen electrode at pH 0: E(anode) = E° + (RT/2F) ln 1e-6 =
+    // -0.447 - 0.1775 V (E° of the core database, Bard, Parsons & Jordan 1985).
+    const Run r = deltag("cell --cathode '2 H+ + 2 e- = H2(g)' --anode 'Fe^2+ + 2 e- = Fe(s)' --ph 0 "
+                         "--activity 'H2(g)=1' --metal-ion-activity 1e-6 --format json");
+    REQUIRE(r.code == 0);
+    const auto doc = nlohmann::json::parse(r.out);
+    const auto& anode = doc["cells"][0]["electrodes"][1];
+    CHECK(anode["e_v"].get<double>() == doctest::Approx(-0.447 - 0.17748).epsilon(0.00002 / 0.6245));
+    CHECK((*quotient_term(anode, "Fe^2+"))["origin"] == "convention");
+    CHECK((*quotient_term(doc["cells"][0]["electrodes"][0], "H+"))["origin"] == "given");
+    CHECK(has(doc["caution"].get<std::string>(), "cathodic-protection"));
+    const Run bad = deltag("cell --cathode '2 H+ + 2 e- = H2(g)' --anode 'Fe^2+ + 2 e- = Fe(s)' --ph 0 "
+                           "--activity 'H2(g)=1' --metal-ion-activity 2");
+    CHECK(bad.code == 2);
+    CHECK(has(bad.err, "expected an activity above 0 and at most 1 (1e-6 is the customary value)"));
+}
+
+TEST_CASE("run: a diagram leaves out the solids named in leave_out; an unknown name is refused with the nearest") {
+    const std::string diagram = R"toml(
+[[diagram]]
+label = "fe"
+element = "Fe"
+svg = "leave-fe.svg"
+csv = "leave-fe.csv"
+)toml";
+    // Without leave_out the aged oxides are the stable iron solids; ferrihydrite has no region.
+    const fs::path p = write("leave0.toml", oxic_case + diagram);
+    REQUIRE(deltag("run '" + p.string() + "'").code == 0);
+    const std::string with_oxides = slurp(scratch() / "leave-fe.csv");
+    CHECK(has(with_oxides, "Hematite"));
+    CHECK_FALSE(has(with_oxides, "Ferrihydrite"));
+    // With hematite and goethite left out, fresh ferrihydrite takes their place.
+    const fs::path q = write("leave1.toml", oxic_case + diagram + "leave_out = [\"Hematite\", \"Goethite\"]\n");
+    REQUIRE(deltag("run '" + q.string() + "'").code == 0);
+    const std::string fresh = slurp(scratch() / "leave-fe.csv");
+    CHECK(has(fresh, "Ferrihydrite"));
+    CHECK_FALSE(has(fresh, "Hematite"));
+    CHECK_FALSE(has(fresh, "Goethite"));
+    // A misspelt name: exit 2, its line, the nearest name.
+    const fs::path b = write("leave2.toml", oxic_case + diagram + "leave_out = [\"Goethite\",\n  \"Hematit\"]\n");
+    const Run bad = deltag("run '" + b.string() + "'");
+    CHECK(bad.code == 2);
+    CHECK(bad.out.empty());
+    CHECK(has(bad.err, "leave2.toml:19:3:"));
+    CHECK(has(bad.err, "'Hematit' is neither a species nor a mineral of database"));
+    CHECK(has(bad.err, "did you mean 'Hematite'"));
+}
+
+TEST_CASE("run: ligands = true brings in the forms with the water's other components, as the warning asks") {
+    const std::string diagram = R"toml(
+[[diagram]]
+label = "fe"
+element = "Fe"
+water = "oxic"
+svg = "ligands-fe.svg"
+csv = "ligands-fe.csv"
+)toml";
+    const fs::path p = write("lig0.toml", oxic_case + diagram);
+    const Run r = deltag("run '" + p.string() + "' --format json");
+    REQUIRE(r.code == 0);
+    const auto without = nlohmann::json::parse(r.out)["diagrams"][0]["warnings"].dump();
+    CHECK(has(without, "set ligands = true to include them at the water's activities"));
+    const fs::path q = write("lig1.toml", oxic_case + diagram + "ligands = true\n");
+    const Run l = deltag("run '" + q.string() + "' --format json");
+    REQUIRE(l.code == 0);
+    const auto with = nlohmann::json::parse(l.out)["diagrams"][0]["warnings"].dump();
+    CHECK_FALSE(has(with, "set ligands = true"));
+    CHECK(has(with, "ligand activities held at the values of water 'oxic'"));
+    CHECK(has(with, "HCO3-"));
+}

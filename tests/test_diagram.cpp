@@ -21,6 +21,8 @@
 #include "deltag/diagram_io.hpp"
 #include "deltag/error.hpp"
 #include "deltag/speciation.hpp"
+#include "io/label_layout.hpp"
+#include "io/text_format.hpp"
 
 using deltag::InputError;
 using deltag::electro::Boundary;
@@ -391,6 +393,10 @@ TEST_CASE("partition over other ranges and with forms left out") {
     CHECK(d.find("Ferrihydrite") == nullptr);
     CHECK(d.find("Fe(OH)4-") != nullptr);
     check_partition(d);
+    // The result, its warnings and the picture's note say what was left out.
+    CHECK(d.left_out == std::vector<std::string>{"Ferrihydrite"});
+    CHECK(has_warning(d, "left out as asked (leave_out): Ferrihydrite"));
+    CHECK(deltag::io::diagram_svg(d).find("Left out as asked: Ferrihydrite.") != std::string::npos);
 }
 
 TEST_CASE("boundaries join neighbours and lie on both regions") {
@@ -840,4 +846,176 @@ TEST_CASE("CSV table of the boundaries and water lines") {
     DiagramResult broken = d;
     broken.boundaries.front().to.ph = std::numeric_limits<double>::infinity();
     CHECK_THROWS_AS(deltag::io::diagram_csv(broken), std::logic_error);
+}
+
+// --- labels of the water points: no overlaps ---------------------------------------------------
+
+namespace {
+
+namespace layout = deltag::io::layout;
+
+// Every placed label lies in the frame and meets no other label and no dot; a displaced one
+// has a leader from its dot's edge to its box's edge.
+void check_layout(const std::vector<layout::LabelRequest>& req, const std::vector<layout::PlacedLabel>& out,
+                  const layout::Box& frame, double r) {
+    REQUIRE(out.size() == req.size());
+    for (std::size_t i = 0; i < out.size(); ++i) {
+        if (!out[i].placed) continue;
+        const layout::Box& b = out[i].box;
+        CAPTURE(i);
+        CHECK(b.x0 >= frame.x0);
+        CHECK(b.x1 <= frame.x1);
+        CHECK(b.y0 >= frame.y0);
+        CHECK(b.y1 <= frame.y1);
+        CHECK(b.x1 - b.x0 == doctest::Approx(req[i].width));
+        CHECK(b.y1 - b.y0 == doctest::Approx(req[i].height));
+        for (std::size_t j = 0; j < out.size(); ++j) {
+            const layout::Box dot{req[j].x - r, req[j].y - r, req[j].x + r, req[j].y + r};
+            CHECK_FALSE(layout::overlap(b, dot));
+            if (j != i && out[j].placed) CHECK_FALSE(layout::overlap(b, out[j].box));
+        }
+        if (out[i].leader) {
+            CHECK(std::hypot(out[i].leader_x0 - req[i].x, out[i].leader_y0 - req[i].y) == doctest::Approx(r));
+            const bool on_edge = std::abs(out[i].leader_x1 - b.x0) < 1e-9 || std::abs(out[i].leader_x1 - b.x1) < 1e-9 ||
+                                 std::abs(out[i].leader_y1 - b.y0) < 1e-9 || std::abs(out[i].leader_y1 - b.y1) < 1e-9;
+            CHECK(on_edge);
+        }
+    }
+}
+
+}  // namespace
+
+TEST_CASE("point labels: the helpers' geometry") {
+    const layout::Box a{0, 0, 10, 10};
+    CHECK(layout::overlap(a, layout::Box{5, 5, 15, 15}));
+    CHECK_FALSE(layout::overlap(a, layout::Box{10, 0, 20, 10}));  // touching edges only
+    CHECK(layout::overlap(a, layout::Box{2, 2, 3, 3}));            // one inside the other
+    CHECK(layout::segment_crosses(-5, 5, 15, 5, a));
+    CHECK_FALSE(layout::segment_crosses(-5, 15, 15, 15, a));
+    CHECK_FALSE(layout::segment_crosses(-5, 0, 15, 0, a));          // along an edge
+    CHECK_FALSE(layout::segment_crosses(-5, -5, 0, 0, a));          // ends at a corner
+}
+
+TEST_CASE("point labels: waters close together get labels that do not overlap") {
+    const layout::Box frame{80, 80, 578, 578};
+    const double r = 6.0;
+    // Eight waters within a few pixels of each other: labelled in place, each would cover
+    // the others, and the places next to the dots do not suffice.
+    std::vector<layout::LabelRequest> req;
+    for (int i = 0; i < 8; ++i) req.push_back({300.0 + 2.0 * i, 300.0 + 3.0 * i, 60.0, 15.0});
+    const auto out = layout::place_point_labels(req, frame, r);
+    check_layout(req, out, frame, r);
+    CHECK(std::all_of(out.begin(), out.end(), [](const layout::PlacedLabel& l) { return l.placed; }));
+    CHECK(std::any_of(out.begin(), out.end(), [](const layout::PlacedLabel& l) { return l.leader; }));
+    // The first label sits next to its dot, undisplaced.
+    CHECK_FALSE(out[0].leader);
+
+    // Two waters at the very same place: one right, one left.
+    const std::vector<layout::LabelRequest> same = {{300, 300, 50, 15}, {300, 300, 50, 15}};
+    const auto two = layout::place_point_labels(same, frame, r);
+    check_layout(same, two, frame, r);
+    CHECK(two[0].box.x0 > 300.0);
+    CHECK(two[1].box.x1 < 300.0);
+    CHECK_FALSE(two[1].leader);
+
+    // Near the right edge of the frame the label goes left; in the top right corner, below-left.
+    const std::vector<layout::LabelRequest> edge = {{570, 300, 80, 15}, {572, 84, 80, 15}};
+    const auto e = layout::place_point_labels(edge, frame, r);
+    check_layout(edge, e, frame, r);
+    CHECK(e[0].placed);
+    CHECK(e[0].box.x1 < 570.0);
+    CHECK(e[1].placed);
+
+    // Boxes to avoid (a legend, say) are avoided.
+    const std::vector<layout::Box> avoid = {{306, 280, 400, 320}};
+    const auto v = layout::place_point_labels({{300, 300, 50, 15}}, frame, r, avoid);
+    REQUIRE(v[0].placed);
+    CHECK_FALSE(layout::overlap(v[0].box, avoid[0]));
+}
+
+TEST_CASE("point labels: a crowd with no room left leaves the rest unplaced, never overlapping") {
+    const layout::Box frame{0, 0, 200, 200};
+    std::vector<layout::LabelRequest> req(80, layout::LabelRequest{100, 100, 70, 15});
+    const auto out = layout::place_point_labels(req, frame, 6.0);
+    check_layout(req, out, frame, 6.0);
+    const auto placed = std::count_if(out.begin(), out.end(), [](const layout::PlacedLabel& l) { return l.placed; });
+    CHECK(placed >= 8);  // the eight places around the dot at least
+    CHECK(placed < 80);
+}
+
+namespace {
+
+struct DrawnLabel {
+    double x, y;
+    std::string text;
+};
+
+// The labels of the water-points group of a diagram's SVG (text-anchor start).
+std::vector<DrawnLabel> point_labels(const std::string& svg) {
+    std::vector<DrawnLabel> out;
+    const auto g = svg.find("<g class=\"water-points\">");
+    if (g == std::string::npos) return out;
+    const auto end = svg.find("</g>", g);
+    std::size_t at = g;
+    auto attr = [&](std::size_t from, const std::string& name) {
+        const auto k = svg.find(" " + name + "=\"", from) + name.size() + 3;
+        return std::stod(svg.substr(k, svg.find('"', k) - k));
+    };
+    while ((at = svg.find("<text ", at)) != std::string::npos && at < end) {
+        const auto open_end = svg.find('>', at);
+        const auto close = svg.find("</text>", open_end);
+        out.push_back({attr(at, "x"), attr(at, "y"), svg.substr(open_end + 1, close - open_end - 1)});
+        at = close;
+    }
+    return out;
+}
+
+}  // namespace
+
+TEST_CASE("SVG picture: the labels of waters close together do not overlap, and a listed water is drawn once") {
+    DiagramSpec s = fe_spec();
+    // Four waters within 0.02 pH and 10 mV: labelled to the right of each dot, as before, each
+    // label would sit on top of the next.
+    s.points = {{"loop", 7.00, 0.300}, {"dead_leg", 7.01, 0.305}, {"return", 7.02, 0.298}, {"make-up", 7.00, 0.31}};
+    const DiagramResult d = eh_ph_diagram(iron_db(), s);
+    const std::string svg = deltag::io::diagram_svg(d);
+    const auto labels = point_labels(svg);
+    REQUIRE(labels.size() == 4);
+    // The writer's label box: text from x (anchor start), 11 px bold, a 2 px halo each side,
+    // 15 px tall about the baseline minus 4 px.
+    std::vector<layout::Box> boxes;
+    for (const auto& l : labels) {
+        const double w = deltag::io::text::text_width(l.text, 11.0, true) + 4.0;
+        boxes.push_back({l.x - 2.0, l.y - 4.0 - 7.5, l.x - 2.0 + w, l.y - 4.0 + 7.5});
+    }
+    for (std::size_t i = 0; i < boxes.size(); ++i)
+        for (std::size_t j = i + 1; j < boxes.size(); ++j) {
+            CAPTURE(labels[i].text);
+            CAPTURE(labels[j].text);
+            CHECK_FALSE(layout::overlap(boxes[i], boxes[j]));
+        }
+    // The plot frame: x 78-578, y 78-578 (shifted down by the title block when it wraps; one
+    // line here).
+    for (const auto& b : boxes) {
+        CHECK(b.x0 >= 78.0);
+        CHECK(b.x1 <= 578.0);
+    }
+
+    // A water listed in points is not drawn a second time as the diagram's water (the points
+    // of the CLI carry the water's label).
+    const auto w = test_water(iron_db(), 25.0);
+    s.water = &w;
+    s.points = {{"test water", 7.2, 2.0 * slope_at(25.0)}};
+    CHECK(eh_ph_diagram(iron_db(), s).points.size() == 1);
+    s.points = {{"other", 7.0, 0.2}};
+    CHECK(eh_ph_diagram(iron_db(), s).points.size() == 2);
+}
+
+TEST_CASE("SVG picture: a point whose label finds no room is named in the note") {
+    DiagramSpec s = fe_spec();
+    for (int i = 0; i < 400; ++i) s.points.push_back({"water number " + std::to_string(i), 7.0, 0.3});
+    const std::string svg = deltag::io::diagram_svg(eh_ph_diagram(iron_db(), s));
+    // (The note wraps, so look for a short piece.)
+    CHECK(svg.find("No room to name") != std::string::npos);
+    CHECK(svg.find("water number 399") != std::string::npos);
 }

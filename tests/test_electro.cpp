@@ -406,3 +406,155 @@ TEST_CASE("Ag/AgCl reference electrodes in KCl: consistent with Bates & Bower (1
     const double line_90 = 0.210 + slope("Ag/AgCl(3 M KCl)") * 65.0;
     CHECK(reference_v("Ag/AgCl(3 M KCl)", 90.0, here) < line_90 - 0.008);
 }
+
+// --- where each activity of a Nernst quotient comes from; the metal-ion convention ----------
+
+namespace {
+// RT ln10 / F at 25 degC from the CODATA 2018 constants: 0.0591597 V.
+const double slope25 = constants::gas_constant * 298.15 * std::log(10.0) / constants::faraday;
+}  // namespace
+
+TEST_CASE("the metal-ion convention: Fe^2+/Fe at a(Fe^2+) = 1e-6 is E° - 0.1775 V at 25 degC") {
+    // E = E° + (RT/2F) ln a(Fe^2+) = E° + (0.0591597/2) log10(1e-6) = E° - 0.177479 V (CODATA
+    // 2018 constants). E° of the core database's Fe^2+/Fe electrode: -0.447 V (Bard, Parsons &
+    // Jordan 1985, as the database states). a = 1e-6 for the metal's dissolved ions is the
+    // customary convention of corrosion work (common practice).
+    const thermo::Database& db = thermo::Database::embedded();
+    const HalfCell fe = parse_half_reaction(db, "Fe^2+ + 2 e- = Fe(s)", here);
+    REQUIRE(fe.e0_origin.find("bard-parsons-jordan-1985") != std::string::npos);
+    CHECK(fe.e0_v(25.0) == doctest::Approx(-0.447).epsilon(1e-9));
+    CHECK(electrode_metal(fe) == "Fe");
+
+    // An oxic water's speciation would give 1e-15; the convention replaces it.
+    ElectrodeActivities a;
+    a.set("Fe^2+", 1e-15, ActivityOrigin::water);
+    a.water = "oxic";
+    a.metal_ion_activity = customary_metal_ion_activity;
+    const ElectrodePotential p = electrode_potential(fe, 25.0, a, here);
+    CHECK(p.e_v - p.e0_v == doctest::Approx(-0.1775).epsilon(0.0001 / 0.1775));
+    CHECK(p.e_v == doctest::Approx(-0.447 - slope25 / 2.0 * 6.0).epsilon(1e-6));
+    REQUIRE(p.quotient.size() == 2);
+    CHECK(p.quotient[0].species == "Fe^2+");
+    CHECK(p.quotient[0].activity == 1e-6);
+    CHECK(p.quotient[0].origin == ActivityOrigin::convention);
+    CHECK(p.quotient[0].detail == "metal-ion convention (1e-06, customary in corrosion work)");
+    CHECK(p.quotient[1].species == "Fe(s)");
+    CHECK(p.quotient[1].origin == ActivityOrigin::unit);
+    CHECK(p.quotient[1].detail == "pure solid");
+    CHECK(p.convention_applied_to == std::vector<std::string>{"Fe^2+"});
+    CHECK(p.convention().find("dissolved Fe species at activity 1e-06 (the customary convention of corrosion work, "
+                              "common practice)") != std::string::npos);
+    CHECK(p.convention().find("; pure phases at unit activity") != std::string::npos);
+
+    // Without the convention the water's value stands, and says so.
+    a.metal_ion_activity.reset();
+    const ElectrodePotential w = electrode_potential(fe, 25.0, a, here);
+    CHECK(w.quotient[0].activity == 1e-15);
+    CHECK(w.quotient[0].origin == ActivityOrigin::water);
+    CHECK(w.quotient[0].detail == "speciation of water 'oxic'");
+    CHECK(w.e_v == doctest::Approx(-0.447 - slope25 / 2.0 * 15.0).epsilon(1e-6));
+    CHECK(w.convention() == "the speciation of water 'oxic'");
+
+    // A value given for the species wins over the convention.
+    a.metal_ion_activity = customary_metal_ion_activity;
+    a.set("Fe^2+", 1e-4, ActivityOrigin::given);
+    const ElectrodePotential g = electrode_potential(fe, 25.0, a, here);
+    CHECK(g.quotient[0].activity == 1e-4);
+    CHECK(g.quotient[0].origin == ActivityOrigin::given);
+    CHECK(g.convention_applied_to.empty());
+    CHECK(g.convention_given_instead == std::vector<std::string>{"Fe^2+"});
+    CHECK(g.convention() == "values given (the value given for Fe^2+ wins over the metal-ion convention)");
+    // Given over a water's other values: both named.
+    a.set("Fe^2+", 1e-15, ActivityOrigin::water);
+    const HalfCell fe3 = parse_half_reaction(db, "Fe^3+ + e- = Fe^2+", here);
+    a.set("Fe^3+", 1e-9, ActivityOrigin::given);
+    CHECK(electrode_potential(fe3, 25.0, a, here).convention() == "the speciation of water 'oxic' and values given");
+    // A metal electrode without dissolved species of its metal: said so.
+    const HalfCell cuprite = parse_half_reaction(db, "Cu2O(s) + 2 H+ + 2 e- = 2 Cu(s) + H2O", here);
+    ElectrodeActivities acid(Activities{{"H+", 1e-7}});
+    acid.metal_ion_activity = 1e-6;
+    CHECK(electrode_potential(cuprite, 25.0, acid, here).convention() ==
+          "values given (a metal-ion activity was asked for, but the half-reaction has no dissolved species of Cu)");
+    // The convention with nothing else to take from a water: the rest are pure phases.
+    ElectrodeActivities only;
+    only.metal_ion_activity = 1e-6;
+    CHECK(electrode_potential(fe, 25.0, only, here).convention() ==
+          "dissolved Fe species at activity 1e-06 (the customary convention of corrosion work, common practice); pure "
+          "phases at unit activity");
+}
+
+TEST_CASE("provenance of a water's activities: species, water activity, a gas's partial pressure") {
+    const thermo::Database& db = thermo::Database::embedded();
+    equilibrium::SpeciationResult r;
+    r.label = "tank";
+    r.water_activity = 0.9995;
+    const HalfCell o2 = parse_half_reaction(db, "O2(g) + 4 H+ + 4 e- = 2 H2O", here);
+    ElectrodeActivities a = electrode_activities_of(db, r);
+    CHECK(a.water == "tank");
+    a.set("H+", 1e-7, ActivityOrigin::water);
+    a.set("O2(g)", 0.21, ActivityOrigin::water);
+    const ElectrodePotential p = electrode_potential(o2, 25.0, a, here);
+    REQUIRE(p.quotient.size() == 3);
+    for (const auto& q : p.quotient) CHECK(q.origin == ActivityOrigin::water);
+    CHECK(p.quotient[0].detail == "partial pressure in equilibrium with water 'tank'");
+    CHECK(p.quotient[1].detail == "speciation of water 'tank'");
+    CHECK(p.quotient[2].detail == "water activity of water 'tank'");
+    CHECK(p.quotient[2].activity == 0.9995);
+    // Nernst with these: E = E° - (slope25/4) log10(a_w^2 / (p_O2 a_H+^4)).
+    const double expected = p.e0_v - slope25 / 4.0 * std::log10(0.9995 * 0.9995 / (0.21 * 1e-28));
+    CHECK(p.e_v == doctest::Approx(expected).epsilon(1e-6));
+    // Without a water, liquid water is pure, at unit activity.
+    const ElectrodePotential u =
+        electrode_potential(o2, 25.0, ElectrodeActivities(Activities{{"H+", 1e-7}, {"O2(g)", 0.21}}), here);
+    CHECK(u.quotient[2].origin == ActivityOrigin::unit);
+    CHECK(u.quotient[2].detail == "pure liquid water");
+    CHECK(u.quotient[0].origin == ActivityOrigin::given);
+    CHECK(u.convention() == "values given");
+    CHECK(activity_origin_name(ActivityOrigin::water) == "water");
+    CHECK(activity_origin_name(ActivityOrigin::given) == "given");
+    CHECK(activity_origin_name(ActivityOrigin::convention) == "convention");
+    CHECK(activity_origin_name(ActivityOrigin::unit) == "unit");
+}
+
+TEST_CASE("a cell with the convention reports both electrodes; one without metal ions is warned about") {
+    const thermo::Database& db = thermo::Database::embedded();
+    const HalfCell cu = parse_half_reaction(db, "Cu^2+ + 2 e- = Cu(s)", here);
+    const HalfCell fe = parse_half_reaction(db, "Fe^2+ + 2 e- = Fe(s)", here);
+    ElectrodeActivities conv;
+    conv.metal_ion_activity = 1e-6;
+    const CellResult c = cell(CellSide{cu, conv, 25.0}, CellSide{fe, conv, 25.0});
+    // Both at 1e-6 and n equal: the Nernst terms cancel, E = E°.
+    CHECK(c.e_v == doctest::Approx(c.e0_v).epsilon(1e-12));
+    CHECK(c.cathode_electrode.convention_applied_to == std::vector<std::string>{"Cu^2+"});
+    CHECK(c.anode_electrode.convention_applied_to == std::vector<std::string>{"Fe^2+"});
+    CHECK(c.anode_electrode.e_v == doctest::Approx(-0.447 - slope25 * 3.0).epsilon(1e-6));
+    CHECK(c.warnings.empty());
+
+    const HalfCell o2 = parse_half_reaction(db, "O2(g) + 4 H+ + 4 e- = 2 H2O", here);
+    CHECK(electrode_metal(o2).empty());
+    // An oxide or hydroxide electrode: its one metal. A solid of a nonmetal is no metal electrode.
+    CHECK(electrode_metal(parse_half_reaction(db, "Fe(OH)3(s) + 3 H+ + e- = Fe^2+ + 3 H2O", here)) == "Fe");
+    CHECK(electrode_metal(parse_half_reaction(db, "Cu2O(s) + 2 H+ + 2 e- = 2 Cu(s) + H2O", here)) == "Cu");
+    HalfCell sulfur;  // SO4^2- + 8 H+ + 6 e- = S(s) + 4 H2O, as terms (the core has no S(s))
+    sulfur.terms = {{"SO4^2-", -1.0, HalfTerm::Kind::aqueous}, {"H+", -8.0, HalfTerm::Kind::aqueous},
+                    {"S(s)", 1.0, HalfTerm::Kind::solid}, {"H2O", 4.0, HalfTerm::Kind::water}};
+    CHECK(electrode_metal(sulfur).empty());
+    ElectrodeActivities air(Activities{{"H+", 1e-7}, {"O2(g)", 0.21}});
+    air.metal_ion_activity = 1e-6;
+    const CellResult a = cell(CellSide{o2, air, 25.0}, CellSide{o2, air, 25.0});
+    REQUIRE(a.warnings.size() == 1);
+    CHECK(a.warnings[0].find("neither half-reaction has a dissolved species of its electrode's metal") != std::string::npos);
+    CHECK(a.cathode_electrode.convention() == "values given");
+}
+
+TEST_CASE("a metal-ion activity outside (0, 1] is refused") {
+    const HalfCell fe = parse_half_reaction(thermo::Database::embedded(), "Fe^2+ + 2 e- = Fe(s)", here);
+    for (double bad : {0.0, -1e-6, 2.0, std::nan("")}) {
+        ElectrodeActivities a;
+        a.metal_ion_activity = bad;
+        CAPTURE(bad);
+        CHECK_THROWS_WITH_AS(electrode_potential(fe, 25.0, a, here),
+                             doctest::Contains("expected an activity of the metal's dissolved species above 0 and at most 1"),
+                             InputError);
+    }
+}

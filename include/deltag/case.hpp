@@ -8,6 +8,7 @@
 #include <vector>
 
 #include "deltag/activity.hpp"
+#include "deltag/diagram.hpp"
 #include "deltag/process.hpp"
 #include "deltag/water.hpp"
 
@@ -23,6 +24,9 @@ struct CellElectrode {
     std::vector<std::pair<std::string, double>> activities;  // overrides: species -> activity (gas: atm)
     std::vector<SourceLocation> activity_where;
     std::optional<double> temperature_c;           // default: the water's, else 25
+    // Dissolved species of the electrode's metal at this activity (metal_ion_activity; 1e-6
+    // is the customary corrosion convention); unset: from the water or given.
+    std::optional<double> metal_ion_activity;
 };
 
 struct CellSpec {
@@ -31,22 +35,18 @@ struct CellSpec {
     SourceLocation where;
 };
 
-// A [[diagram]]: an Eh-pH diagram of one element.
+// A [[diagram]]: an Eh-pH diagram of one element. The diagram itself is described once, by
+// electro::DiagramSpec (one set of defaults); the case adds what names other parts of the
+// case (the water and the points, by label) and where the files go. The spec's water and
+// points are filled in when the case runs (deltag::run_case).
 struct DiagramCase {
-    std::string label;                             // default "diagram N"
-    std::string element;                           // "Fe"
+    electro::DiagramSpec spec;                     // label (default "diagram N"), element, ranges, ...
     SourceLocation element_where;
-    std::optional<double> temperature_c;           // default: the water's, else 25
-    double log_activity = -6.0;                    // of the dissolved species
     std::string water;                             // activity coefficients, T and ligands from this water
     SourceLocation water_where;
     std::vector<std::string> points;               // waters (or steps) drawn as points
     std::vector<SourceLocation> point_where;
-    double ph_min = 0.0, ph_max = 14.0;
-    double eh_min_v = -1.5, eh_max_v = 1.5;
-    bool shading = true;                           // immunity / passivation / corrosion
     std::string svg_path, csv_path;                // relative to the case file; "" = default names
-    SourceLocation where;
 };
 
 struct Case {

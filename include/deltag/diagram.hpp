@@ -50,7 +50,7 @@ struct DiagramSpec {
     // water it is a log10 molality (mol/kgw): a = gamma * m with the water's gamma.
     double log_activity = -6.0;
     double ph_min = 0.0, ph_max = 14.0;
-    double eh_min_v = -1.5, eh_max_v = 2.0;
+    double eh_min_v = -1.5, eh_max_v = 1.5;
     // A speciated water: its activity coefficients, water activity and temperature apply.
     // Not owned; must outlive the call. If the water has a pe it is drawn as a point.
     const equilibrium::SpeciationResult* water = nullptr;
@@ -61,8 +61,11 @@ struct DiagramSpec {
     // Species or minerals (database names) not to consider, e.g. to draw a diagram with a
     // fresh hydroxide instead of the aged oxide.
     std::vector<std::string> leave_out;
-    std::vector<WaterPoint> points;  // drawn as marked dots with their labels
-    bool shading = false;            // pictures: immunity / passivation / corrosion classes
+    std::vector<SourceLocation> leave_out_where;  // per name of leave_out, for errors (else `where`)
+    // Drawn as marked dots with their labels. The water's own point is not added again when
+    // a point of the same label is listed here.
+    std::vector<WaterPoint> points;
+    bool shading = true;             // pictures: immunity / passivation / corrosion classes
     SourceLocation where;            // where the request came from, for error messages
 };
 
@@ -127,6 +130,7 @@ struct DiagramResult {
     std::vector<WaterLine> water_lines;        // H2/H2O, then O2/H2O when the database has O2(g)
     std::vector<WaterPoint> points;            // the spec's points, then the water (if it has a pe)
     bool shading = false;
+    std::vector<std::string> left_out;        // the spec's leave_out, so pictures and reports can say so
     std::vector<std::string> warnings;
 
     const Region* find(std::string_view name) const;

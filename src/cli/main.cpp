@@ -18,6 +18,7 @@
 #include "deltag/output_files.hpp"
 #include "deltag/process.hpp"
 #include "deltag/report.hpp"
+#include "deltag/run.hpp"
 #include "deltag/speciation.hpp"
 #include "deltag/water.hpp"
 #include "deltag/water_properties.hpp"
@@ -30,194 +31,13 @@ namespace {
 
 constexpr int exit_ok = 0, exit_bug = 1, exit_input = 2, exit_convergence = 3;
 
-struct Loaded {
-    std::unique_ptr<thermo::Database> owned;
-    const thermo::Database* db = nullptr;
-    std::string name;
-};
-
-// Loads a database and refuses one that fails the lint.
-Loaded load_database(const std::string& path_or_core, const SourceLocation& where) {
-    Loaded l;
-    if (path_or_core.empty() || path_or_core == "core") {
-        l.db = &thermo::Database::embedded();
-        l.name = "core (embedded)";
-    } else {
-        // With an error code: a path the system refuses (too long, a file where a directory
-        // should be) is bad input like a missing file, not an exception from the library.
-        std::error_code ec;
-        if (!fs::exists(path_or_core, ec))
-            throw InputError(where, "database",
-                             "no database file at '" + path_or_core + "'" + (ec ? " (" + ec.message() + ")" : std::string()) +
-                                 "; expected \"core\" or a path");
-        l.owned = std::make_unique<thermo::Database>(thermo::Database::load_file(path_or_core));
-        l.db = l.owned.get();
-        l.name = path_or_core;
-    }
-    for (const auto& f : l.db->lint())
-        if (f.level == thermo::LintFinding::Level::error)
-            throw InputError(f.where, f.key, f.message + " (run 'deltag database check' for the full list)");
-    return l;
-}
-
-// A case computed: its database, the speciated waters and the steps.
-struct Computed {
-    io::Case c;
-    Loaded l;
-    std::vector<process::WaterState> waters;
-    std::vector<process::StepOutcome> steps;
-
-    // A water or step by label.
-    const process::WaterState* find(const std::string& label) const {
-        for (const auto& s : steps)
-            if (s.label == label) return &s.state;
-        for (const auto& w : waters)
-            if (w.label == label) return &w;
-        return nullptr;
-    }
-    std::vector<std::string> labels() const {
-        std::vector<std::string> v;
-        for (const auto& w : waters) v.push_back(w.label);
-        for (const auto& s : steps) v.push_back(s.label);
-        return v;
-    }
-};
-
-Computed compute_case(const std::string& case_path, const std::string& db_override) {
-    Computed k;
-    k.c = io::read_case(case_path);
-    std::string db_choice = k.c.database;
-    SourceLocation db_where = k.c.database_where;
-    if (!db_override.empty()) {
-        db_choice = db_override;
-        db_where = SourceLocation{"command line", 0, 0};
-    } else if (db_choice != "core" && fs::path(db_choice).is_relative()) {
-        db_choice = (fs::path(case_path).parent_path() / db_choice).string();
-    }
-    k.l = load_database(db_choice, db_where);
-    for (const auto& w : k.c.waters) {
-        const equilibrium::SpeciationInput in = to_speciation_input(w, *k.l.db, k.c.activity_model);
-        equilibrium::SpeciationResult r = equilibrium::speciate(*k.l.db, in);
-        describe_lab_input(in, r, *k.l.db);
-        k.waters.push_back(process::state_from_result(r, in, *k.l.db));
-    }
-    k.steps = process::run_steps(*k.l.db, k.waters, k.c.steps);
-    return k;
-}
-
-electro::CellResult run_cell(const Computed& k, const io::CellSpec& spec) {
-    struct Side {
-        electro::HalfCell h;
-        electro::Activities a;
-        double t = 25.0;
-    };
-    auto side = [&](const io::CellElectrode& e) {
-        Side s;
-        s.h = electro::parse_half_reaction(*k.l.db, e.half_reaction, e.half_reaction_where);
-        if (!e.water.empty()) {
-            const process::WaterState* w = k.find(e.water);
-            if (!w)
-                throw InputError(e.water_where, "water", "no water or step is called '" + e.water + "'",
-                                 nearest_name(e.water, k.labels()));
-            s.a = electro::activities_of(*k.l.db, w->result);
-            s.t = w->result.temperature_c;
-        }
-        for (std::size_t i = 0; i < e.activities.size(); ++i) s.a[e.activities[i].first] = e.activities[i].second;
-        if (e.temperature_c) s.t = *e.temperature_c;
-        return s;
-    };
-    const Side c = side(spec.cathode), a = side(spec.anode);
-    electro::CellResult r;
-    try {
-        r = electro::cell(c.h, c.a, c.t, a.h, a.a, a.t);
-    } catch (const InputError& e) {
-        // A missing activity: point at the cell in the case file.
-        throw InputError(spec.where, e.key(), e.message(), e.suggestion());
-    }
-    r.label = spec.label;
-    return r;
-}
-
 int cmd_run(const std::string& case_path, const std::string& format, const std::string& output,
             const std::string& db_override, bool verbose) {
-    const Computed k = compute_case(case_path, db_override);
-    const io::Case& c = k.c;
-    const thermo::Database& db = *k.l.db;
-    // The waters, then the steps, sweeps, cells and diagrams; every file is written only
-    // after all of them succeeded, so a failure leaves no partial output.
-    std::vector<io::ReportItem> items;
-    // The lab's measured values go with the waters as analysed (k.waters follows c.waters).
-    for (std::size_t i = 0; i < k.waters.size(); ++i)
-        items.push_back(io::ReportItem{"water", k.waters[i].result, k.waters[i].indices, std::nullopt,
-                                       process::mineral_outlook(db, k.waters[i]), c.waters[i].measured});
-    for (const auto& o : k.steps)
-        items.push_back(
-            io::ReportItem{o.kind, o.state.result, o.state.indices, o.dose, process::mineral_outlook(db, o.state), {}});
-    std::vector<io::SweepReport> sweeps;
-    std::vector<io::OutputFile> files;
-    const fs::path case_dir = fs::path(case_path).parent_path();
-    const std::string stem = fs::path(case_path).stem().string();
-    // A path given in the case is relative to the case file; without one, files go to the
-    // current directory as CASE.LABEL.csv / .svg.
-    auto place = [&](const std::string& given, const std::string& label, const char* ext) {
-        if (given.empty()) return stem + "." + label + ext;
-        const fs::path p(given);
-        return (p.is_relative() ? case_dir / p : p).string();
-    };
-    for (std::size_t i = 0; i < c.sweeps.size(); ++i) {
-        const process::Sweep& sw = c.sweeps[i];
-        io::SweepReport rep{process::run_sweep(db, k.waters, c.steps, sw), "", ""};
-        rep.csv_path = place(sw.csv_path, sw.label, ".csv");
-        rep.svg_path = place(sw.svg_path, sw.label, ".svg");
-        const std::string key = "sweep[" + std::to_string(i + 1) + "].";
-        files.push_back({rep.csv_path, io::sweep_csv(rep.sweep), key + "csv"});
-        files.push_back({rep.svg_path, io::sweep_svg(rep.sweep, (c.title.empty() ? stem : c.title) + ": " + sw.label), key + "svg"});
-        sweeps.push_back(std::move(rep));
-    }
-    std::vector<electro::CellResult> cells;
-    for (const auto& spec : c.cells) cells.push_back(run_cell(k, spec));
-    std::vector<io::DiagramReport> diagrams;
-    for (std::size_t di = 0; di < c.diagrams.size(); ++di) {
-        const io::DiagramCase& d = c.diagrams[di];
-        electro::DiagramSpec spec;
-        spec.label = d.label;
-        spec.element = d.element;
-        spec.log_activity = d.log_activity;
-        spec.ph_min = d.ph_min;
-        spec.ph_max = d.ph_max;
-        spec.eh_min_v = d.eh_min_v;
-        spec.eh_max_v = d.eh_max_v;
-        spec.shading = d.shading;
-        spec.where = d.where;
-        if (!d.water.empty()) {
-            const process::WaterState* w = k.find(d.water);
-            if (!w) throw InputError(d.water_where, "water", "no water or step is called '" + d.water + "'", nearest_name(d.water, k.labels()));
-            spec.water = &w->result;
-            // The diagram is at the water's temperature; a different one given is refused by the module.
-            if (d.temperature_c && std::abs(*d.temperature_c - w->result.temperature_c) > 1e-9) spec.temperature_c = d.temperature_c;
-        } else {
-            spec.temperature_c = d.temperature_c;
-        }
-        for (std::size_t i = 0; i < d.points.size(); ++i) {
-            const process::WaterState* w = k.find(d.points[i]);
-            const SourceLocation at = i < d.point_where.size() ? d.point_where[i] : d.where;
-            if (!w) throw InputError(at, "points", "no water or step is called '" + d.points[i] + "'", nearest_name(d.points[i], k.labels()));
-            if (!w->result.pe)
-                throw InputError(at, "points", "'" + d.points[i] + "' has no redox level (pe, eh_mv or dissolved oxygen) to place it on the diagram");
-            spec.points.push_back({d.points[i], w->result.ph, electro::eh_from_pe(*w->result.pe, w->result.temperature_c)});
-        }
-        const electro::DiagramResult result = electro::eh_ph_diagram(db, spec);
-        io::DiagramReport rep{d.label, place(d.svg_path, d.label, ".svg"), place(d.csv_path, d.label, ".csv"), result.warnings};
-        const std::string key = "diagram[" + std::to_string(di + 1) + "].";
-        files.push_back({rep.svg_path, io::diagram_svg(result), key + "svg"});
-        files.push_back({rep.csv_path, io::diagram_csv(result), key + "csv"});
-        diagrams.push_back(std::move(rep));
-    }
-    io::ReportContext ctx{c.title, case_path, k.l.name, DELTAG_VERSION, verbose};
-    std::string text;
-    if (format == "text") text = io::text_report(db, ctx, items, sweeps, cells, diagrams);
-    else if (format == "json") text = io::json_report(db, ctx, items, sweeps, cells, diagrams);
-    else if (format == "csv") text = io::csv_report(db, ctx, items);
+    RunOptions options;
+    options.database = db_override;
+    const CaseRun k = run_case(case_path, options);
+    std::vector<io::OutputFile> files = k.files;
+    std::string text = report(k, format, verbose);
     // Every file, the report's included, goes to a temporary name first and replaces its
     // target only when all were written: a failure leaves the existing files as they were.
     if (!output.empty()) files.push_back({output, std::move(text), "--output"});
@@ -249,41 +69,49 @@ std::vector<std::pair<std::string, double>> parse_activities(const std::vector<s
 
 int cmd_cell(const std::string& cathode, const std::string& anode, const std::vector<std::string>& activity_args,
              std::optional<double> ph, std::optional<double> temperature_c, const std::string& water_ref,
-             const std::string& format, const std::string& db_path) {
+             std::optional<double> metal_ion_activity, const std::string& format, const std::string& db_path) {
     const SourceLocation cmd{"command line", 0, 0};
-    std::optional<Computed> k;
+    std::optional<CaseRun> k;
     const thermo::Database* db = nullptr;
-    Loaded l;
-    electro::Activities acts;
+    DatabaseChoice l;
+    electro::ElectrodeActivities acts;
+    acts.metal_ion_activity = metal_ion_activity;
     double t = temperature_c.value_or(25.0);
     if (!water_ref.empty()) {
         const auto colon = water_ref.rfind(':');
         if (colon == std::string::npos || colon == 0 || colon + 1 == water_ref.size())
             throw InputError(cmd, "--water", "expected CASE.toml:WATER, found '" + water_ref + "'");
-        k = compute_case(water_ref.substr(0, colon), db_path);
+        RunOptions options;
+        options.database = db_path;
+        options.waters_and_steps_only = true;
+        k = run_case(water_ref.substr(0, colon), options);
         const std::string name = water_ref.substr(colon + 1);
         const process::WaterState* w = k->find(name);
         if (!w) throw InputError(cmd, "--water", "the case has no water or step called '" + name + "'", nearest_name(name, k->labels()));
         if (temperature_c)
             throw InputError(cmd, "--temperature-c", "the water sets the temperature; leave out --temperature-c with --water");
         if (ph) throw InputError(cmd, "--ph", "the water sets the pH; leave out --ph with --water (or give --activity H+=...)");
-        acts = electro::activities_of(*k->l.db, w->result);
+        acts = electro::electrode_activities_of(*k->database.db, w->result);
+        acts.metal_ion_activity = metal_ion_activity;
+        acts.water = name;
         t = w->result.temperature_c;
-        db = k->l.db;
+        db = k->database.db;
     } else {
-        l = load_database(db_path, cmd);
+        l = choose_database(db_path, cmd);
         db = l.db;
     }
     if (const std::string p = thermo::temperature_problem(t); !p.empty()) throw InputError(cmd, "--temperature-c", p);
     if (ph) {
         if (!(*ph >= 0.0 && *ph <= 14.0)) throw InputError(cmd, "--ph", "expected a pH within 0-14");
-        acts["H+"] = std::pow(10.0, -*ph);
+        acts.set("H+", std::pow(10.0, -*ph), electro::ActivityOrigin::given);
     }
-    for (const auto& [name, v] : parse_activities(activity_args)) acts[name] = v;
+    for (const auto& [name, v] : parse_activities(activity_args)) acts.set(name, v, electro::ActivityOrigin::given);
+    if (metal_ion_activity && !(*metal_ion_activity > 0.0 && *metal_ion_activity <= 1.0))
+        throw InputError(cmd, "--metal-ion-activity", "expected an activity above 0 and at most 1 (1e-6 is the customary value)");
     SourceLocation c_at{"--cathode", 0, 0}, a_at{"--anode", 0, 0};
     const electro::HalfCell hc = electro::parse_half_reaction(*db, cathode, c_at);
     const electro::HalfCell ha = electro::parse_half_reaction(*db, anode, a_at);
-    electro::CellResult r = electro::cell(hc, acts, t, ha, acts, t);
+    electro::CellResult r = electro::cell(electro::CellSide{hc, acts, t}, electro::CellSide{ha, acts, t});
     r.label = "cell";
     if (format == "json") std::cout << io::cells_json({r});
     else std::cout << io::cell_text(r) << "\n" << io::electro_caution_text() << "\n";
@@ -371,7 +199,7 @@ std::string formation_text(const thermo::Database& db, const thermo::Stoichiomet
 }
 
 int cmd_database_show(const std::string& name, const std::string& db_path) {
-    Loaded l = load_database(db_path, SourceLocation{"command line", 0, 0});
+    DatabaseChoice l = choose_database(db_path, SourceLocation{"command line", 0, 0});
     const thermo::Database& db = *l.db;
     const thermo::Entry* e = nullptr;
     const thermo::LogKFunction* fn = nullptr;
@@ -476,7 +304,7 @@ int cmd_database_show(const std::string& name, const std::string& db_path) {
 
 int main(int argc, char** argv) {
     CLI::App app{"deltag: water speciation, saturation and the Gibbs energy of reactions at real conditions"};
-    app.set_version_flag("--version", std::string("deltag ") + DELTAG_VERSION);
+    app.set_version_flag("--version", std::string("deltag ") + std::string(version()));
     app.require_subcommand(1);
 
     std::string case_path, format = "text", output, db_path, show_name, check_path, show_db;
@@ -498,7 +326,7 @@ int main(int argc, char** argv) {
 
     std::string cathode, anode, water_ref, cell_format = "text", cell_db;
     std::vector<std::string> activity_args;
-    std::optional<double> cell_ph, cell_t;
+    std::optional<double> cell_ph, cell_t, cell_metal_ions;
     CLI::App* cellc = app.add_subcommand("cell", "Cell potential, n, ΔG = -nFE and K of two half-reactions at real activities");
     cellc->add_option("--cathode", cathode, "half-reaction of the cathode, e.g. \"Cu^2+ + 2 e- = Cu(s)\"")->required();
     cellc->add_option("--anode", anode, "half-reaction of the anode, e.g. \"Zn^2+ + 2 e- = Zn(s)\"")->required();
@@ -506,6 +334,8 @@ int main(int argc, char** argv) {
     cellc->add_option("--ph", cell_ph, "sets a(H+) = 10^-pH");
     cellc->add_option("--temperature-c", cell_t, "temperature (default 25)");
     cellc->add_option("--water", water_ref, "CASE.toml:WATER: take the activities and temperature from that water");
+    cellc->add_option("--metal-ion-activity", cell_metal_ions,
+                      "dissolved species of each electrode's metal at this activity (1e-6: the customary corrosion convention)");
     cellc->add_option("--format", cell_format, "text | json")->check(CLI::IsMember({"text", "json"}));
     cellc->add_option("--database", cell_db, "database file (default: the embedded core)");
 
@@ -538,7 +368,7 @@ int main(int argc, char** argv) {
         if (*run) return cmd_run(case_path, format, output, db_path, verbose);
         if (*check) return cmd_database_check(check_path);
         if (*show) return cmd_database_show(show_name, show_db);
-        if (*cellc) return cmd_cell(cathode, anode, activity_args, cell_ph, cell_t, water_ref, cell_format, cell_db);
+        if (*cellc) return cmd_cell(cathode, anode, activity_args, cell_ph, cell_t, water_ref, cell_metal_ions, cell_format, cell_db);
         if (*pot) return cmd_potential(pot_value, pot_from, pot_to, pot_t, pot_dg, pot_n, pot_format);
         return exit_bug;
     } catch (const InputError& e) {

@@ -298,9 +298,10 @@ DiagramResult eh_ph_diagram(const thermo::Database& db, const DiagramSpec& spec)
     {
         std::vector<std::string> names = db.species_names();
         for (const auto& n : db.mineral_names()) names.push_back(n);
-        for (const auto& n : spec.leave_out) {
+        for (std::size_t i = 0; i < spec.leave_out.size(); ++i) {
+            const std::string& n = spec.leave_out[i];
             if (!db.find_species(n) && !db.find_mineral(n))
-                throw InputError(where, key_of(spec, "leave_out"),
+                throw InputError(i < spec.leave_out_where.size() ? spec.leave_out_where[i] : where, key_of(spec, "leave_out"),
                                  "'" + n + "' is neither a species nor a mineral of database '" + db.name() + "'",
                                  nearest_name(n, names));
             leave_out.insert(n);
@@ -326,6 +327,7 @@ DiagramResult eh_ph_diagram(const thermo::Database& db, const DiagramSpec& spec)
     res.eh_min_v = spec.eh_min_v;
     res.eh_max_v = spec.eh_max_v;
     res.shading = spec.shading;
+    res.left_out = spec.leave_out;
     const double slope = constants::nernst_slope_v(temperature_c + constants::zero_celsius_k);
     res.nernst_slope_v = slope;
     const double log_aw = water ? std::log10(water->water_activity) : 0.0;
@@ -551,8 +553,10 @@ DiagramResult eh_ph_diagram(const thermo::Database& db, const DiagramSpec& spec)
 
     // ---- points
     res.points = spec.points;
-    if (water && water->pe)
-        res.points.push_back(WaterPoint{water->label.empty() ? std::string("water") : water->label, water->ph,
+    const std::string water_point = water && !water->label.empty() ? water->label : std::string("water");
+    if (water && water->pe &&
+        std::none_of(res.points.begin(), res.points.end(), [&](const WaterPoint& p) { return p.label == water_point; }))
+        res.points.push_back(WaterPoint{water_point, water->ph,
                                         *water->pe * slope});
     for (const auto& p : res.points)
         if (p.ph < spec.ph_min || p.ph > spec.ph_max || p.eh_v < spec.eh_min_v || p.eh_v > spec.eh_max_v)
@@ -560,9 +564,12 @@ DiagramResult eh_ph_diagram(const thermo::Database& db, const DiagramSpec& spec)
                                    " V) lies outside the diagram");
 
     // ---- warnings
+    if (!spec.leave_out.empty())
+        res.warnings.push_back("left out as asked (leave_out): " + join(spec.leave_out) +
+                               "; the regions drawn are those of the remaining forms");
     if (!need_ligands.empty()) {
-        std::string why = !water ? std::string("give a water and set ligands to include them")
-                                 : !spec.ligands ? std::string("set ligands to include them at the water's activities")
+        std::string why = !water ? std::string("give a water and set ligands = true to include them")
+                                 : !spec.ligands ? std::string("set ligands = true to include them at the water's activities")
                                                  : std::string("their other components are not in water '" + water->label + "'");
         res.warnings.push_back("left out " + std::to_string(need_ligands.size()) + " form(s) of " + spec.element +
                                " that need other components (" + join(need_ligands) + "): " + why);

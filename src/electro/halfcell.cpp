@@ -2,8 +2,12 @@
 // species), the Nernst potential, and the activities of a speciated water.
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <map>
+#include <set>
 #include <sstream>
+#include <string_view>
+#include <utility>
 
 #include "deltag/constants.hpp"
 #include "deltag/electro.hpp"
@@ -165,25 +169,158 @@ HalfCell parse_half_reaction(const thermo::Database& db, const std::string& text
     return h;
 }
 
-double nernst_v(const HalfCell& h, double temperature_c, const Activities& a, const SourceLocation& where) {
+std::string_view activity_origin_name(ActivityOrigin o) {
+    switch (o) {
+        case ActivityOrigin::water: return "water";
+        case ActivityOrigin::given: return "given";
+        case ActivityOrigin::convention: return "convention";
+        case ActivityOrigin::unit: return "unit";
+    }
+    return "given";
+}
+
+void ElectrodeActivities::set(const std::string& name, double activity, ActivityOrigin origin) {
+    values[name] = activity;
+    origins[name] = origin;
+}
+
+namespace {
+
+// A short number for messages: 1e-06, 0.21, 1.
+std::string short_number(double v) {
+    char buf[32];
+    std::snprintf(buf, sizeof buf, "%g", v);
+    return buf;
+}
+
+std::string water_words(const std::string& water) { return water.empty() ? std::string("the water") : "water '" + water + "'"; }
+
+bool is_customary(double a) { return std::abs(a - customary_metal_ion_activity) <= 1e-12 * customary_metal_ion_activity; }
+
+std::string convention_words(const std::string& metal, double a) {
+    return "dissolved " + metal + " species at activity " + short_number(a) +
+           (is_customary(a) ? " (the customary convention of corrosion work, common practice)" : " (metal_ion_activity)");
+}
+
+// The elements that are not metals (metalloids counted with them): a solid of one of these
+// alone, such as S(s) or C(s), is not a metal electrode.
+bool is_metal(std::string_view element) {
+    static const std::set<std::string_view> nonmetals = {"H",  "He", "B",  "C",  "N",  "O",  "F",  "Ne",
+                                                         "Si", "P",  "S",  "Cl", "Ar", "As", "Se", "Br",
+                                                         "Kr", "Te", "I",  "Xe", "At", "Rn"};
+    return nonmetals.count(element) == 0;
+}
+
+}  // namespace
+
+std::string electrode_metal(const HalfCell& h) {
+    // A metal written as a solid first (Fe(s)); else the one metal of an oxide or hydroxide
+    // (Fe(OH)3(s), Cu2O(s)).
+    for (const bool oxide : {false, true})
+        for (const auto& t : h.terms) {
+            if (t.kind != HalfTerm::Kind::solid) continue;
+            const chem::Formula f = chem::parse_formula(t.name);
+            if (f.charge != 0) continue;
+            std::vector<std::string> rest;
+            for (const auto& [element, count] : f.elements)
+                if (!oxide || (element != "O" && element != "H")) rest.push_back(element);
+            if (rest.size() == 1 && is_metal(rest.front()) && (oxide || f.elements.size() == 1)) return rest.front();
+        }
+    return {};
+}
+
+std::string ElectrodePotential::convention() const {
+    bool from_water = false, from_given = false;
+    for (const auto& q : quotient) {
+        from_water = from_water || q.origin == ActivityOrigin::water;
+        from_given = from_given || q.origin == ActivityOrigin::given;
+    }
+    std::string rest;
+    if (from_water) rest = "the speciation of water '" + water + "'";
+    if (from_given) rest += std::string(rest.empty() ? "" : " and ") + "values given";
+    if (metal_ion_activity && !convention_applied_to.empty())
+        return convention_words(metal, *metal_ion_activity) +
+               (rest.empty() ? std::string("; pure phases at unit activity") : "; the others from " + rest);
+    if (rest.empty()) rest = "pure phases at unit activity";
+    if (metal_ion_activity && !convention_given_instead.empty()) {
+        std::string names;
+        for (const auto& n : convention_given_instead) names += (names.empty() ? "" : ", ") + n;
+        return rest + " (the value given for " + names + " wins over the metal-ion convention)";
+    }
+    // A half-reaction with no metal (O2/H2O on the other electrode of a cell) has nothing to
+    // say about the convention; a metal without dissolved species (Cu2O/Cu) says so.
+    if (metal_ion_activity && !metal.empty())
+        return rest + " (a metal-ion activity was asked for, but the half-reaction has no dissolved species of " +
+               metal + ")";
+    return rest;
+}
+
+ElectrodePotential electrode_potential(const HalfCell& h, double temperature_c, const ElectrodeActivities& a,
+                                       const SourceLocation& where) {
+    ElectrodePotential p;
+    p.half_reaction = h.text;
+    p.temperature_c = temperature_c;
+    p.e0_v = h.e0_v(temperature_c);
+    p.e0_origin = h.e0_origin;
+    p.water = a.water;
+    p.metal = electrode_metal(h);
+    p.metal_ion_activity = a.metal_ion_activity;
+    if (a.metal_ion_activity && !(*a.metal_ion_activity > 0.0 && *a.metal_ion_activity <= 1.0))
+        throw InputError(where, "metal_ion_activity",
+                         "expected an activity of the metal's dissolved species above 0 and at most 1, found " +
+                             short_number(*a.metal_ion_activity));
     double log_q = 0.0;
     for (const auto& t : h.terms) {
-        auto it = a.find(t.name);
-        if (it == a.end()) it = a.find(canonical_term(t.name));
-        double act = 1.0;
-        if (it != a.end()) {
-            act = it->second;
-        } else if (t.kind == HalfTerm::Kind::aqueous || t.kind == HalfTerm::Kind::gas) {
+        QuotientTerm q;
+        q.species = t.name;
+        q.coefficient = t.coefficient;
+        auto it = a.values.find(t.name);
+        if (it == a.values.end()) it = a.values.find(canonical_term(t.name));
+        const bool found = it != a.values.end();
+        ActivityOrigin origin = ActivityOrigin::given;
+        if (found)
+            if (auto o = a.origins.find(it->first); o != a.origins.end()) origin = o->second;
+        const bool metal_species = a.metal_ion_activity && !p.metal.empty() && t.kind == HalfTerm::Kind::aqueous &&
+                                   chem::parse_formula(t.name).elements.count(p.metal) > 0;
+        if (found && origin != ActivityOrigin::water) {
+            // Given (or set by the caller): wins over the convention and the water.
+            if (metal_species) p.convention_given_instead.push_back(t.name);
+            q.activity = it->second;
+            q.origin = origin;
+            q.detail = origin == ActivityOrigin::given ? std::string("given") : std::string(activity_origin_name(origin));
+        } else if (metal_species) {
+            q.activity = *a.metal_ion_activity;
+            q.origin = ActivityOrigin::convention;
+            q.detail = "metal-ion convention (" + short_number(*a.metal_ion_activity) +
+                       (is_customary(*a.metal_ion_activity) ? ", customary in corrosion work)" : ", metal_ion_activity)");
+            p.convention_applied_to.push_back(t.name);
+        } else if (found) {
+            q.activity = it->second;
+            q.origin = ActivityOrigin::water;
+            q.detail = t.kind == HalfTerm::Kind::gas     ? "partial pressure in equilibrium with " + water_words(a.water)
+                       : t.kind == HalfTerm::Kind::water ? "water activity of " + water_words(a.water)
+                                                         : "speciation of " + water_words(a.water);
+        } else if (t.kind == HalfTerm::Kind::solid || t.kind == HalfTerm::Kind::water) {
+            q.activity = 1.0;
+            q.origin = ActivityOrigin::unit;
+            q.detail = t.kind == HalfTerm::Kind::solid ? "pure solid" : "pure liquid water";
+        } else {
             throw InputError(where, t.name,
                              "no activity for '" + t.name + "' in '" + h.text + "': give it (--activity " + t.name +
                                  "=VALUE), --ph for H+, or take the activities from a water");
         }
-        if (!(act > 0) || !std::isfinite(act))
+        if (!(q.activity > 0) || !std::isfinite(q.activity))
             throw InputError(where, t.name, "the activity of '" + t.name + "' must be a positive number");
-        log_q += t.coefficient * std::log10(act);
+        log_q += t.coefficient * std::log10(q.activity);
+        p.quotient.push_back(std::move(q));
     }
     const double slope = constants::nernst_slope_v(temperature_c + constants::zero_celsius_k);
-    return h.e0_v(temperature_c) - slope / h.electrons * log_q;
+    p.e_v = p.e0_v - slope / h.electrons * log_q;
+    return p;
+}
+
+double nernst_v(const HalfCell& h, double temperature_c, const Activities& a, const SourceLocation& where) {
+    return electrode_potential(h, temperature_c, ElectrodeActivities(a), where).e_v;
 }
 
 Activities activities_of(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
@@ -195,6 +332,13 @@ Activities activities_of(const thermo::Database& db, const equilibrium::Speciati
     if (r.pe) a["e-"] = std::pow(10.0, -*r.pe);
     (void)db;
     return a;
+}
+
+ElectrodeActivities electrode_activities_of(const thermo::Database& db, const equilibrium::SpeciationResult& r) {
+    ElectrodeActivities e;
+    for (const auto& [name, value] : activities_of(db, r)) e.set(name, value, ActivityOrigin::water);
+    e.water = r.label;
+    return e;
 }
 
 std::vector<CoupleEh> couple_potentials(const thermo::Database& db, const equilibrium::SpeciationResult& r) {

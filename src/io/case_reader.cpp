@@ -1191,11 +1191,14 @@ process::Sweep read_sweep(const std::string& file, std::size_t n, const toml::ta
 
 // --- cells and diagrams -------------------------------------------------------------------
 
-const std::vector<std::string> cell_keys = {"label", "cathode", "anode", "water", "temperature_c", "activities"};
-const std::vector<std::string> electrode_keys = {"half_reaction", "water", "temperature_c", "activities"};
-const std::vector<std::string> diagram_keys = {"label",  "element",  "temperature_c", "log_activity",
-                                               "activity", "water",  "points",        "ph_range",
-                                               "eh_range_v", "shading", "svg",        "csv"};
+const std::vector<std::string> cell_keys = {"label",         "cathode",    "anode",
+                                            "water",         "temperature_c", "activities",
+                                            "metal_ion_activity"};
+const std::vector<std::string> electrode_keys = {"half_reaction", "water", "temperature_c", "activities",
+                                                 "metal_ion_activity"};
+const std::vector<std::string> diagram_keys = {"label",      "element", "temperature_c", "log_activity", "activity",
+                                               "water",      "points",  "ph_range",      "eh_range_v",   "shading",
+                                               "ligands",    "leave_out", "svg",         "csv"};
 const std::string half_reaction_example = "\"Cu^2+ + 2 e- = Cu(s)\"";
 
 // A water or step label named by a cell or a diagram. They are evaluated once every step has
@@ -1271,6 +1274,17 @@ std::vector<ActivityEntry> read_activities(tomlu::TableReader& r) {
     return out;
 }
 
+// The activity at which the dissolved species of an electrode's metal are taken (the
+// customary corrosion convention is 1e-6).
+std::optional<double> read_metal_ion_activity(tomlu::TableReader& r) {
+    auto v = r.number("metal_ion_activity");
+    if (v && !(*v > 0.0 && *v <= 1.0))
+        r.fail("metal_ion_activity",
+               "expected the activity of the dissolved species of the electrode's metal, above 0 and at most 1 "
+               "(1e-6 is the customary corrosion convention), found " + message_number(*v));
+    return v;
+}
+
 // One electrode of a cell: a half-reaction string, or a table with its own water, temperature
 // and activities. `reaction` receives the parsed half-reaction.
 CellElectrode read_electrode(tomlu::TableReader& r, const std::string& which, const Case& c,
@@ -1304,6 +1318,7 @@ CellElectrode read_electrode(tomlu::TableReader& r, const std::string& which, co
         check_result_name(c.waters, c.steps, e.water, e.water_where, er.dotted("water"));
     }
     e.temperature_c = temperature(er, "temperature_c");
+    e.metal_ion_activity = read_metal_ion_activity(er);
     const auto species = species_of(reaction);
     for (const auto& a : read_activities(er)) {
         if (!among(a.species, species))
@@ -1345,6 +1360,7 @@ CellSpec read_cell(const std::string& file, const Case& c, std::size_t n, const 
         check_result_name(c.waters, c.steps, water, water_where, r.dotted("water"));
     }
     const auto temperature_c = temperature(r, "temperature_c");
+    const auto metal_ion_activity = read_metal_ion_activity(r);
 
     chem::Reaction cathode_reaction, anode_reaction;
     SourceLocation cathode_where, anode_where;
@@ -1374,6 +1390,7 @@ CellSpec read_cell(const std::string& file, const Case& c, std::size_t n, const 
             e->water_where = is_cathode ? cathode_where : anode_where;
         }
         if (!e->temperature_c) e->temperature_c = temperature_c;
+        if (!e->metal_ion_activity) e->metal_ion_activity = metal_ion_activity;
         for (const auto& a : shared) {
             const bool own = std::any_of(e->activities.begin(), e->activities.end(),
                                          [&](const auto& given) { return same_species(given.first, a.species); });
@@ -1402,38 +1419,38 @@ DiagramCase read_diagram(const std::string& file, const Case& c, std::size_t n, 
     tomlu::TableReader r(t, file, "diagram[" + std::to_string(n) + "]");
     reject_unknown_keys(t, diagram_keys, r.file(), r.prefix());
     DiagramCase d;
-    d.where = r.table_location();
+    d.spec.where = r.table_location();
 
     if (auto label = r.string("label")) {
         if (label->empty()) r.fail("label", "expected a label for the diagram, found an empty string");
-        d.label = *label;
+        d.spec.label = *label;
     } else {
-        d.label = "diagram " + std::to_string(n);
+        d.spec.label = "diagram " + std::to_string(n);
     }
     for (std::size_t i = 0; i < c.diagrams.size(); ++i)
-        if (c.diagrams[i].label == d.label)
-            r.fail("label", std::string(r.has("label") ? "the label '" : "the default label '") + d.label +
+        if (c.diagrams[i].spec.label == d.spec.label)
+            r.fail("label", std::string(r.has("label") ? "the label '" : "the default label '") + d.spec.label +
                                 "' is already the label of diagram " + std::to_string(i + 1) + " (line " +
-                                std::to_string(c.diagrams[i].where.line) + "); give each diagram its own label");
+                                std::to_string(c.diagrams[i].spec.where.line) + "); give each diagram its own label");
 
-    d.element = r.require_string("element", "the element of the diagram, a symbol such as \"Fe\"");
+    d.spec.element = r.require_string("element", "the element of the diagram, a symbol such as \"Fe\"");
     d.element_where = key_where(t, "element", r.file());
-    if (d.element.empty())
+    if (d.spec.element.empty())
         r.fail("element", "expected an element symbol such as \"Fe\", found an empty string");
-    if (!chem::atomic_weight(d.element))
+    if (!chem::atomic_weight(d.spec.element))
         // Only short names are matched to a symbol: "Iron" is not a misspelt "Ir".
-        r.fail("element", "unknown element '" + d.element + "'; expected an element symbol such as Fe, Cu or Mn",
-               d.element.size() <= 3 ? nearest_name(d.element, chem::element_symbols()) : std::string());
+        r.fail("element", "unknown element '" + d.spec.element + "'; expected an element symbol such as Fe, Cu or Mn",
+               d.spec.element.size() <= 3 ? nearest_name(d.spec.element, chem::element_symbols()) : std::string());
 
-    d.temperature_c = temperature(r, "temperature_c");
+    d.spec.temperature_c = temperature(r, "temperature_c");
     at_most_one(r, {"log_activity", "activity"},
                 "give the activity of the dissolved species once, as log_activity or activity");
-    if (auto la = ranged(r, "log_activity", -12.0, 0.0, "a log10 activity of the dissolved species")) d.log_activity = *la;
+    if (auto la = ranged(r, "log_activity", -12.0, 0.0, "a log10 activity of the dissolved species")) d.spec.log_activity = *la;
     if (auto a = r.number("activity")) {
         if (!(*a >= 1e-12 && *a <= 1.0))
             r.fail("activity", "expected an activity of the dissolved species from 1e-12 to 1 (log_activity from -12 "
                                "to 0), found " + message_number(*a));
-        d.log_activity = std::log10(*a);
+        d.spec.log_activity = std::log10(*a);
     }
 
     if (auto w = r.string("water")) {
@@ -1441,7 +1458,7 @@ DiagramCase read_diagram(const std::string& file, const Case& c, std::size_t n, 
         d.water_where = key_where(t, "water", r.file());
         check_result_name(c.waters, c.steps, d.water, d.water_where, r.dotted("water"));
     } else {
-        d.water_where = d.where;
+        d.water_where = d.spec.where;
     }
 
     if (const toml::array* points = r.array("points")) {
@@ -1458,9 +1475,34 @@ DiagramCase read_diagram(const std::string& file, const Case& c, std::size_t n, 
         }
     }
 
-    if (auto ph = read_range(r, "ph_range", 0.0, 14.0, "a pH range")) std::tie(d.ph_min, d.ph_max) = *ph;
-    if (auto eh = read_range(r, "eh_range_v", -3.0, 3.0, "an Eh range in V")) std::tie(d.eh_min_v, d.eh_max_v) = *eh;
-    if (auto shading = r.boolean("shading")) d.shading = *shading;
+    if (auto ph = read_range(r, "ph_range", 0.0, 14.0, "a pH range")) std::tie(d.spec.ph_min, d.spec.ph_max) = *ph;
+    if (auto eh = read_range(r, "eh_range_v", -3.0, 3.0, "an Eh range in V")) std::tie(d.spec.eh_min_v, d.spec.eh_max_v) = *eh;
+    if (auto shading = r.boolean("shading")) d.spec.shading = *shading;
+    if (auto ligands = r.boolean("ligands")) {
+        // The forms with other components (carbonate, sulfate, chloride, ...) take those
+        // components' free activities from the diagram's water.
+        if (*ligands && d.water.empty())
+            r.fail("ligands", "ligands = true takes the free activities of the other components (carbonate, sulfate, "
+                              "chloride, ...) from a water: name it in the diagram's water");
+        d.spec.ligands = *ligands;
+    }
+    if (const toml::array* names = r.array("leave_out")) {
+        // Whether the database knows the names is checked when the diagram is drawn.
+        for (const auto& el : *names) {
+            const SourceLocation at = tomlu::where(el.source(), r.file());
+            if (!el.is_string())
+                throw InputError(at, r.dotted("leave_out"),
+                                 "expected names of species or minerals of the database (strings) such as \"Hematite\", "
+                                 "found " + tomlu::type_name(el) + " in the list");
+            const std::string name = el.as_string()->get();
+            if (name.empty())
+                throw InputError(at, r.dotted("leave_out"), "expected the name of a species or a mineral, found an empty string");
+            if (is_one_of(name, d.spec.leave_out))
+                throw InputError(at, r.dotted("leave_out"), "'" + name + "' is listed twice");
+            d.spec.leave_out.push_back(name);
+            d.spec.leave_out_where.push_back(at);
+        }
+    }
     for (const char* key : {"svg", "csv"}) {
         if (auto path = r.string(key)) {
             if (path->empty()) r.fail(key, "expected the path of the file to write, found an empty string");

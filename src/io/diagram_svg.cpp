@@ -6,8 +6,9 @@
 // Okabe-Ito colours; neighbours of one kind alternate between shades), each named inside
 // itself with a white halo; boundaries solid near-black; the two water-stability lines
 // dashed blue with their labels written along them; water points as black dots with a white
-// ring. With shading the three corrosion classes get their own tint and hatching: plain blue
-// (immunity), green hatched one way (passivation), vermillion hatched the other way
+// ring, their labels beside them where no two overlap (else further out, with a thin
+// leader). With shading the three corrosion classes get their own tint and hatching: plain
+// blue (immunity), green hatched one way (passivation), vermillion hatched the other way
 // (corrosion). Legend in a box right of the pe scale; a small grey note at the bottom.
 #include "deltag/diagram_io.hpp"
 
@@ -23,6 +24,7 @@
 
 #include "deltag/chem.hpp"
 #include "deltag/plot.hpp"
+#include "io/label_layout.hpp"
 #include "io/svg_axes.hpp"
 #include "io/text_format.hpp"
 
@@ -404,23 +406,47 @@ std::string diagram_svg(const DiagramResult& d) {
         body += line_svg(a.x, a.y, c.x, c.y);
     }
     body += "</g>\n";
-    // ---- water points (placed before region labels so labels can avoid them)
-    std::string points_svg;
-    for (const auto& p : d.points) {
-        if (p.ph < d.ph_min || p.ph > d.ph_max || p.eh_v < d.eh_min_v || p.eh_v > d.eh_max_v) continue;
-        const double x = px(p.ph), y = py(p.eh_v);
-        points_svg += "<circle cx=\"" + coord(x) + "\" cy=\"" + coord(y) +
-                      "\" r=\"4.6\" fill=\"#000000\" stroke=\"#FFFFFF\" stroke-width=\"1.6\"/>\n";
-        const double tw = text_width(p.label, kPointLabelSize, true);
-        const bool to_left = x + 9.0 + tw > right - 2.0;
-        const double tx = to_left ? x - 9.0 : x + 9.0;
-        points_svg += text_svg(tx, y + 4.0, to_left ? "end" : "start", kPointLabelSize,
-                               "font-weight=\"bold\" fill=\"#000000\" stroke=\"#FFFFFF\" stroke-width=\"3\" "
-                               "stroke-linejoin=\"round\" paint-order=\"stroke\"",
-                               p.label);
-        taken.push_back(Obstacle{x - 7.0, y - 7.0, x + 7.0, y + 7.0});
-        taken.push_back(to_left ? Obstacle{tx - tw - 2.0, y - 8.0, tx + 2.0, y + 7.0}
-                                : Obstacle{tx - 2.0, y - 8.0, tx + tw + 2.0, y + 7.0});
+    // ---- water points (placed before region labels so labels can avoid them). Their labels
+    // go where they overlap no other label, dot or the frame (label_layout.hpp); a label
+    // displaced from its dot gets a leader line; one with no room is named in the note.
+    std::string points_svg, leaders_svg;
+    std::vector<std::string> unplaced_points;
+    {
+        constexpr double kDotRadius = 4.6, kDotClear = 6.0, kLabelHeight = 15.0;
+        std::vector<const electro::WaterPoint*> drawn;
+        std::vector<layout::LabelRequest> requests;
+        for (const auto& p : d.points) {
+            if (p.ph < d.ph_min || p.ph > d.ph_max || p.eh_v < d.eh_min_v || p.eh_v > d.eh_max_v) continue;
+            drawn.push_back(&p);
+            requests.push_back({px(p.ph), py(p.eh_v), text_width(p.label, kPointLabelSize, true) + 4.0, kLabelHeight});
+        }
+        const auto placed =
+            layout::place_point_labels(requests, layout::Box{left + 2.0, top + 2.0, right - 2.0, bottom - 2.0}, kDotClear);
+        for (std::size_t i = 0; i < drawn.size(); ++i) {
+            const double x = requests[i].x, y = requests[i].y;
+            points_svg += "<circle cx=\"" + coord(x) + "\" cy=\"" + coord(y) + "\" r=\"" + coord(kDotRadius) +
+                          "\" fill=\"#000000\" stroke=\"#FFFFFF\" stroke-width=\"1.6\"/>\n";
+            taken.push_back(Obstacle{x - kDotClear, y - kDotClear, x + kDotClear, y + kDotClear});
+        }
+        for (std::size_t i = 0; i < drawn.size(); ++i) {
+            const layout::PlacedLabel& l = placed[i];
+            if (!l.placed) {
+                unplaced_points.push_back("'" + drawn[i]->label + "' (pH " + minus(fixed(drawn[i]->ph, 2)) + ", Eh " +
+                                          minus(fixed(drawn[i]->eh_v, 2)) + " V)");
+                continue;
+            }
+            if (l.leader) {
+                leaders_svg += line_svg(l.leader_x0, l.leader_y0, l.leader_x1, l.leader_y1);
+                // Region and water-line labels keep off the leader too.
+                taken.push_back(Obstacle{std::min(l.leader_x0, l.leader_x1) - 1.0, std::min(l.leader_y0, l.leader_y1) - 1.0,
+                                         std::max(l.leader_x0, l.leader_x1) + 1.0, std::max(l.leader_y0, l.leader_y1) + 1.0});
+            }
+            points_svg += text_svg(l.box.x0 + 2.0, 0.5 * (l.box.y0 + l.box.y1) + 4.0, "start", kPointLabelSize,
+                                   "font-weight=\"bold\" fill=\"#000000\" stroke=\"#FFFFFF\" stroke-width=\"3\" "
+                                   "stroke-linejoin=\"round\" paint-order=\"stroke\"",
+                                   drawn[i]->label);
+            taken.push_back(Obstacle{l.box.x0, l.box.y0, l.box.x1, l.box.y1});
+        }
     }
 
     // Segments a label should not cross: boundaries and water lines, in pixels.
@@ -604,6 +630,8 @@ std::string diagram_svg(const DiagramResult& d) {
     body += "<g class=\"region-labels\" fill=\"#1A1A1A\">\n" + labels_svg + "</g>\n";
     body += "<g class=\"water-line-labels\" fill=\"" + std::string(kWaterLine) + "\" font-style=\"italic\">\n" + water_labels +
          "</g>\n";
+    if (!leaders_svg.empty())
+        body += "<g class=\"water-point-leaders\" stroke=\"#333333\" stroke-width=\"0.9\">\n" + leaders_svg + "</g>\n";
     if (!points_svg.empty()) body += "<g class=\"water-points\">\n" + points_svg + "</g>\n";
 
     // ---- frame and axes
@@ -682,12 +710,22 @@ std::string diagram_svg(const DiagramResult& d) {
                        "', component " + chem::pretty(d.component) + "). Dashed: H₂/H₂O and O₂/H₂O at 1 atm";
     if (d.o2_e0_v) note += ", E°(O₂/H₂O) = " + fixed(*d.o2_e0_v, 3) + " V at this temperature";
     note += ".";
+    if (!d.left_out.empty()) {
+        note += " Left out as asked:";
+        for (std::size_t i = 0; i < d.left_out.size(); ++i) note += (i ? ", " : " ") + d.left_out[i];
+        note += ".";
+    }
     std::vector<std::string> outside;
     for (const auto& p : d.points)
         if (p.ph < d.ph_min || p.ph > d.ph_max || p.eh_v < d.eh_min_v || p.eh_v > d.eh_max_v) outside.push_back(p.label);
     if (!outside.empty()) {
         note += " Outside the diagram, not drawn:";
         for (std::size_t i = 0; i < outside.size(); ++i) note += (i ? ", '" : " '") + outside[i] + "'";
+        note += ".";
+    }
+    if (!unplaced_points.empty()) {
+        note += " No room to name beside their dots:";
+        for (std::size_t i = 0; i < unplaced_points.size(); ++i) note += (i ? "; " : " ") + unplaced_points[i];
         note += ".";
     }
     if (!unlabelled.empty()) {

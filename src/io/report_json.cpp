@@ -265,6 +265,34 @@ ordered_json result_json(const thermo::Database& db, const ReportItem& item) {
 
 }  // namespace
 
+// One side of a cell: its potential and, for every term of its Nernst quotient, the activity
+// and where it came from.
+ordered_json electrode_json(const std::string& role, const electro::ElectrodePotential& e) {
+    ordered_json quotient = ordered_json::array();
+    for (const auto& q : e.quotient)
+        quotient.push_back({{"species", q.species},
+                            {"coefficient", finite(q.coefficient, "coefficient")},
+                            {"activity", finite(q.activity, "activity")},
+                            {"origin", std::string(electro::activity_origin_name(q.origin))},
+                            {"detail", q.detail}});
+    ordered_json convention = nullptr;
+    if (e.metal_ion_activity)
+        convention = {{"metal", e.metal.empty() ? ordered_json(nullptr) : ordered_json(e.metal)},
+                      {"activity", finite(*e.metal_ion_activity, "metal-ion activity")},
+                      {"customary", std::abs(*e.metal_ion_activity - electro::customary_metal_ion_activity) <=
+                                        1e-12 * electro::customary_metal_ion_activity},
+                      {"applied_to", e.convention_applied_to}};
+    return {{"role", role},
+            {"half_reaction", e.half_reaction},
+            {"temperature_c", finite(e.temperature_c, "electrode temperature")},
+            {"e0_v", finite(e.e0_v, "E°")},
+            {"e_v", finite(e.e_v, "E")},
+            {"water", e.water.empty() ? ordered_json(nullptr) : ordered_json(e.water)},
+            {"activities_from", e.convention()},
+            {"metal_ion_convention", convention},
+            {"quotient", quotient}};
+}
+
 ordered_json cells_array(const std::vector<electro::CellResult>& cells) {
     ordered_json arr = ordered_json::array();
     for (const auto& c : cells)
@@ -281,6 +309,7 @@ ordered_json cells_array(const std::vector<electro::CellResult>& cells) {
                        {"spontaneous", c.spontaneous},
                        {"cathode_e0_origin", c.cathode_origin},
                        {"anode_e0_origin", c.anode_origin},
+                       {"electrodes", {electrode_json("cathode", c.cathode_electrode), electrode_json("anode", c.anode_electrode)}},
                        {"warnings", c.warnings}});
     return arr;
 }
@@ -329,6 +358,8 @@ std::string json_report(const thermo::Database& db, const ReportContext& ctx, co
     }
     root["sweeps"] = sw;
     root["caution"] = std::string(caution_text());
+    // Cells and diagrams feed corrosion and cathodic-protection decisions: their caution too.
+    if (!cells.empty() || !diagrams.empty()) root["electrochemistry_caution"] = std::string(electro_caution_text());
     return dumped(root);
 }
 

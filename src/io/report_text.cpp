@@ -516,8 +516,22 @@ std::string cell_text(const electro::CellResult& c) {
     std::string out;
     out += fmt::format("Cell '{}' at {:.1f} °C\n", c.label.empty() ? std::string("cell") : c.label, c.temperature_c);
     out += rule('=');
-    out += fmt::format("  {:<10}{}\n  {:<10}E° from {}\n", "cathode", c.cathode, "", c.cathode_origin);
-    out += fmt::format("  {:<10}{}\n  {:<10}E° from {}\n", "anode", c.anode, "", c.anode_origin);
+    // Each electrode: its half-reaction, E° and E, and every activity of its Nernst quotient
+    // with where it came from.
+    for (const auto* e : {&c.cathode_electrode, &c.anode_electrode}) {
+        const bool cathode = e == &c.cathode_electrode;
+        out += fmt::format("  {:<10}{}\n", cathode ? "cathode" : "anode", cathode ? c.cathode : c.anode);
+        out += fmt::format("  {:<10}E° = {:+.4f} V from {}\n", "", e->e0_v, cathode ? c.cathode_origin : c.anode_origin);
+        out += fmt::format("  {:<10}E  = {:+.4f} V at {:.1f} °C\n", "", e->e_v, e->temperature_c);
+        // Where the activities came from, wrapped to the report's width.
+        const auto lines = text::wrap("activities: " + e->convention(), 66);
+        for (std::size_t i = 0; i < lines.size(); ++i) out += std::string(i ? 16 : 12, ' ') + lines[i] + "\n";
+        std::size_t width = 0;
+        for (const auto& q : e->quotient) width = std::max(width, text::code_points(q.species));
+        for (const auto& q : e->quotient)
+            out += fmt::format("  {:<12}a({}){} = {:<10.3g} {}\n", "", q.species,
+                               std::string(width - text::code_points(q.species), ' '), q.activity, q.detail);
+    }
     out += fmt::format("  {:<24}{:g}\n", "electrons n", c.n);
     out += fmt::format("  {:<24}{:+.4f} V     ΔG° = -nFE° = {:+.2f} kJ/mol     log K = {:.3f}\n", "E° cell", c.e0_v,
                        c.delta_g0_kj_per_mol, c.log_k);
