@@ -689,9 +689,11 @@ TEST_CASE("errors") {
         s.leave_out = {"Fe^2+", "FeOH+", "Fe^3+", "FeOH^2+", "Fe(OH)2+", "Fe(OH)4-", "Iron", "Ferrihydrite", "Siderite"};
         CHECK(error_of(db, s).message().find("nothing is left") != std::string::npos);
     }
-    SUBCASE("temperature outside liquid water") {
+    SUBCASE("temperature outside the accepted range (thermo::accepted_temperature_c)") {
         s.temperature_c = 400.0;
         CHECK(error_of(db, s).key() == "diagram.test.temperature_c");
+        s.temperature_c = 100.01;
+        CHECK(error_of(db, s).message().find("expected a temperature from 0 to 100 °C") != std::string::npos);
     }
     SUBCASE("a water point that is not finite") {
         s.points = {{"tap", std::numeric_limits<double>::quiet_NaN(), 0.2}};

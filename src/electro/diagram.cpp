@@ -12,6 +12,7 @@
 #include "deltag/chem.hpp"
 #include "deltag/constants.hpp"
 #include "deltag/diagram.hpp"
+#include "deltag/water_properties.hpp"
 #include "chem/names.hpp"
 
 namespace deltag::electro {
@@ -256,9 +257,8 @@ DiagramResult eh_ph_diagram(const thermo::Database& db, const DiagramSpec& spec)
                                  " degC); leave it out to draw the diagram at the water's temperature");
         temperature_c = water->temperature_c;
     }
-    if (!std::isfinite(temperature_c) || temperature_c < 0.0 || temperature_c > 373.0)
-        throw InputError(where, key_of(spec, "temperature_c"),
-                         "temperature " + num(temperature_c) + " degC is outside liquid water (0 to 373 degC)");
+    if (const std::string problem = thermo::temperature_problem(temperature_c); !problem.empty())
+        throw InputError(where, key_of(spec, "temperature_c"), problem);
 
     // The component carrying the element.
     std::vector<std::size_t> carriers;
