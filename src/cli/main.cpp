@@ -3,12 +3,17 @@
 #include <CLI/CLI.hpp>
 #include <fmt/format.h>
 
+#include <unistd.h>
+
 #include <algorithm>
+#include <chrono>
 #include <cmath>
 #include <filesystem>
+#include <fstream>
 #include <iostream>
 #include <memory>
 
+#include "deltag/batch.hpp"
 #include "deltag/case.hpp"
 #include "deltag/constants.hpp"
 #include "deltag/database.hpp"
@@ -44,6 +49,69 @@ int cmd_run(const std::string& case_path, const std::string& format, const std::
         std::cout << text;
         std::cout.flush();
     }
+    return exit_ok;
+}
+
+// A sample set through a case. The rows are solved in a bounded window and come back in
+// input order; the table is put together when the last row is in, since its columns (the
+// minerals of any row) are known only then, and written atomically (or to standard output).
+int cmd_batch(const std::string& case_path, const std::string& samples_path, const std::string& water,
+              const std::string& output, unsigned threads, bool strict, const std::string& db_override) {
+    const SourceLocation cmd{"command line", 0, 0};
+    const std::string ext = fs::path(output).extension().string();
+    if (!output.empty() && ext != ".csv" && ext != ".json")
+        throw InputError(cmd, "--output",
+                         "expected a file ending in .csv or .json, found '" + output + "' (.xlsx is not written yet)",
+                         nearest_name(ext, {".csv", ".json"}));
+    if (threads < 1) throw InputError(cmd, "--threads", "expected at least 1 thread");
+    std::ifstream in(samples_path, std::ios::binary);
+    if (!in) throw InputError(SourceLocation{samples_path, 0, 0}, "--samples", "cannot read the samples file");
+    BatchOptions options;
+    options.water = water;
+    options.database = db_override;
+    options.threads = threads;
+    std::vector<BatchRow> rows;
+    std::vector<std::string> phases;
+    // A progress line only on a terminal: done, rate, time left (the total is unknown while
+    // the file is read, so rows so far and the rate).
+    const bool progress = ::isatty(2) != 0;
+    const auto start = std::chrono::steady_clock::now();
+    std::size_t done = 0;
+    auto last = start;
+    const BatchSummary summary = run_batch(case_path, in, samples_path, options, [&](const std::vector<BatchRow>& sample_rows) {
+        collect_phases(sample_rows, phases);
+        rows.insert(rows.end(), sample_rows.begin(), sample_rows.end());
+        ++done;
+        if (progress) {
+            const auto now = std::chrono::steady_clock::now();
+            if (now - last > std::chrono::milliseconds(200)) {
+                last = now;
+                const double s = std::chrono::duration<double>(now - start).count();
+                std::cerr << fmt::format("\r{} samples, {:.0f} per s", done, s > 0 ? static_cast<double>(done) / s : 0.0) << std::flush;
+            }
+        }
+    });
+    if (progress) std::cerr << "\r\033[K";
+    std::string text;
+    const bool json = ext == ".json";
+    if (json) {
+        text = batch_json_open();
+        for (std::size_t i = 0; i < rows.size(); ++i) text += batch_json_row(rows[i], phases, i == 0);
+        if (!rows.empty()) text += "\n";
+        text += batch_json_close();
+    } else {
+        text = batch_csv_header(phases);
+        for (const auto& r : rows) text += batch_csv_row(r, phases);
+    }
+    if (output.empty()) {
+        std::cout << text;
+        std::cout.flush();
+    } else {
+        io::write_files_atomically({{output, std::move(text), "--output"}});
+    }
+    std::cerr << summary_line(summary) << "\n";
+    if (strict && summary.bad_input > 0) return exit_input;
+    if (strict && summary.no_convergence > 0) return exit_convergence;
     return exit_ok;
 }
 
@@ -349,6 +417,18 @@ int main(int argc, char** argv) {
     pot->add_option("--electrons", pot_n, "electrons n, with --delta-g-kj");
     pot->add_option("--format", pot_format, "text | json")->check(CLI::IsMember({"text", "json"}));
 
+    std::string batch_case, batch_samples, batch_water, batch_output, batch_db;
+    unsigned batch_threads = 1;
+    bool batch_strict = false;
+    CLI::App* batch = app.add_subcommand("batch", "Run every sample of a CSV file through a case (one row per sample and result)");
+    batch->add_option("CASE", batch_case, "case file (TOML): the template water and its steps")->required();
+    batch->add_option("--samples", batch_samples, "samples file (CSV): a sample column, then water settings and analytes")->required();
+    batch->add_option("--water", batch_water, "the case's template water (default: its only water)");
+    batch->add_option("--output", batch_output, "write the table to OUT.csv or OUT.json (default: CSV on standard output)");
+    batch->add_option("--threads", batch_threads, "samples solved at once (default 1)");
+    batch->add_flag("--strict", batch_strict, "exit 2 (bad input) or 3 (no convergence) when any sample failed");
+    batch->add_option("--database", batch_db, "database file (default: the case's choice, else the embedded core)");
+
     try {
         app.parse(argc, argv);
     } catch (const CLI::CallForHelp& e) {
@@ -364,6 +444,7 @@ int main(int argc, char** argv) {
 
     try {
         if (*run) return cmd_run(case_path, format, output, db_path, verbose);
+        if (*batch) return cmd_batch(batch_case, batch_samples, batch_water, batch_output, batch_threads, batch_strict, batch_db);
         if (*check) return cmd_database_check(check_path);
         if (*show) return cmd_database_show(show_name, show_db);
         if (*cellc) return cmd_cell(cathode, anode, activity_args, cell_ph, cell_t, water_ref, cell_metal_ions, cell_format, cell_db);
