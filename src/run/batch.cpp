@@ -179,6 +179,13 @@ std::vector<Column> read_header(const std::vector<std::string>& cells, const std
     std::vector<std::string> known = {"sample"};
     for (const auto& s : settings()) known.insert(known.end(), s.names.begin(), s.names.end());
     std::map<std::string, int> seen;  // what a column gives -> its column
+    std::string unused, inside0;
+    if (std::none_of(cells.begin(), cells.end(), [&](const std::string& h) {
+            split_header(h, unused, inside0);
+            return lower(unused) == "sample";
+        }))
+        throw InputError(SourceLocation{file, 1, 1}, "sample",
+                         "the header has no 'sample' column; add one that names each row (unique names)", "sample");
     for (std::size_t i = 0; i < cells.size(); ++i) {
         Column c;
         c.header = cells[i];
@@ -257,9 +264,6 @@ std::vector<Column> read_header(const std::vector<std::string>& cells, const std
         seen[what] = c.column;
         cols.push_back(std::move(c));
     }
-    if (!seen.count("sample"))
-        throw InputError(SourceLocation{file, 1, 1}, "sample",
-                         "the header has no 'sample' column; add one that names each row (unique names)", "sample");
     return cols;
 }
 
