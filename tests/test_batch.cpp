@@ -327,3 +327,24 @@ TEST_CASE("batch: the summary line counts with thousands separators") {
     s.solved = 1234567;
     CHECK(summary_line(s) == "1,234,567 solved");
 }
+
+TEST_CASE("batch: the table kept in a scratch file reads back as written, numbers bit for bit") {
+    std::string samples = "sample,pH,Ca,Na,Cl,Alkalinity (mg/L as CaCO3),F\n";
+    samples += "a,7.6,40,20,35,100,\nb,7.9,55,12,22,140,0.3\nbad,x,1,1,1,1,\n";
+    const Out o = batch(samples);
+    BatchTable t;
+    for (std::size_t i = 0; i < o.rows.size(); ++i) t.add({o.rows[i]});
+    CHECK(t.size() == 3);
+    std::string csv, json;
+    t.write(false, [&](std::string_view s) { csv += s; });
+    t.write(true, [&](std::string_view s) { json += s; });
+    CHECK(csv == table(o.rows));
+    // Fluorite appears only in row b, so its columns come last and are empty in the others.
+    CHECK(t.phases().back() == "Fluorite");
+    std::string expected_json = batch_json_open();
+    for (std::size_t i = 0; i < o.rows.size(); ++i) expected_json += batch_json_row(o.rows[i], t.phases(), i == 0);
+    expected_json += "\n" + batch_json_close();
+    CHECK(json == expected_json);
+    CHECK(json.find("\"status\": \"bad input\"") != std::string::npos);
+    CHECK(json.find("\"SI Fluorite\": null") != std::string::npos);
+}

@@ -5,8 +5,11 @@
 // prints or writes a file; the command line (deltag batch) writes what this returns.
 #pragma once
 
+#include <cstdio>
 #include <functional>
 #include <istream>
+#include <memory>
+#include <string_view>
 #include <optional>
 #include <string>
 #include <vector>
@@ -71,5 +74,24 @@ std::string batch_csv_row(const BatchRow& row, const std::vector<std::string>& p
 std::string batch_json_open();
 std::string batch_json_row(const BatchRow& row, const std::vector<std::string>& phases, bool first);
 std::string batch_json_close();
+
+// The whole output table of a batch, kept in a scratch file (an unnamed temporary file the
+// system removes) rather than in memory: rows are added as they come, the mineral columns
+// grow with them, and the table is written in pieces once the last row is in, with every
+// column known. Memory stays that of one row and the list of minerals.
+class BatchTable {
+public:
+    BatchTable();  // throws std::runtime_error if no scratch file can be made
+    void add(const std::vector<BatchRow>& rows);
+    const std::vector<std::string>& phases() const { return phases_; }
+    std::size_t size() const { return rows_; }
+    // The table as CSV or as JSON (an array of objects), piece by piece.
+    void write(bool json, const std::function<void(std::string_view)>& out);
+
+private:
+    std::unique_ptr<std::FILE, int (*)(std::FILE*)> scratch_;
+    std::vector<std::string> phases_;
+    std::size_t rows_ = 0;
+};
 
 }  // namespace deltag

@@ -53,8 +53,8 @@ int cmd_run(const std::string& case_path, const std::string& format, const std::
 }
 
 // A sample set through a case. The rows are solved in a bounded window and come back in
-// input order; the table is put together when the last row is in, since its columns (the
-// minerals of any row) are known only then, and written atomically (or to standard output).
+// input order into a scratch file; the table is written when the last row is in, since its
+// columns (the minerals of any row) are known only then, atomically (or to standard output).
 int cmd_batch(const std::string& case_path, const std::string& samples_path, const std::string& water,
               const std::string& output, unsigned threads, bool strict, const std::string& db_override) {
     const SourceLocation cmd{"command line", 0, 0};
@@ -70,17 +70,15 @@ int cmd_batch(const std::string& case_path, const std::string& samples_path, con
     options.water = water;
     options.database = db_override;
     options.threads = threads;
-    std::vector<BatchRow> rows;
-    std::vector<std::string> phases;
-    // A progress line only on a terminal: done, rate, time left (the total is unknown while
-    // the file is read, so rows so far and the rate).
+    BatchTable table;
+    // A progress line only on a terminal: samples done and the rate (the total is not known
+    // while the file is read).
     const bool progress = ::isatty(2) != 0;
     const auto start = std::chrono::steady_clock::now();
     std::size_t done = 0;
     auto last = start;
     const BatchSummary summary = run_batch(case_path, in, samples_path, options, [&](const std::vector<BatchRow>& sample_rows) {
-        collect_phases(sample_rows, phases);
-        rows.insert(rows.end(), sample_rows.begin(), sample_rows.end());
+        table.add(sample_rows);
         ++done;
         if (progress) {
             const auto now = std::chrono::steady_clock::now();
@@ -92,22 +90,12 @@ int cmd_batch(const std::string& case_path, const std::string& samples_path, con
         }
     });
     if (progress) std::cerr << "\r\033[K";
-    std::string text;
     const bool json = ext == ".json";
-    if (json) {
-        text = batch_json_open();
-        for (std::size_t i = 0; i < rows.size(); ++i) text += batch_json_row(rows[i], phases, i == 0);
-        if (!rows.empty()) text += "\n";
-        text += batch_json_close();
-    } else {
-        text = batch_csv_header(phases);
-        for (const auto& r : rows) text += batch_csv_row(r, phases);
-    }
     if (output.empty()) {
-        std::cout << text;
+        table.write(json, [](std::string_view piece) { std::cout << piece; });
         std::cout.flush();
     } else {
-        io::write_files_atomically({{output, std::move(text), "--output"}});
+        io::write_file_atomically(output, "--output", [&](const std::function<void(std::string_view)>& put) { table.write(json, put); });
     }
     std::cerr << summary_line(summary) << "\n";
     if (strict && summary.bad_input > 0) return exit_input;

@@ -4,11 +4,13 @@
 #include <algorithm>
 #include <atomic>
 #include <cmath>
+#include <cstdint>
 #include <cstdlib>
 #include <filesystem>
 #include <map>
 #include <nlohmann/json.hpp>
 #include <set>
+#include <stdexcept>
 #include <thread>
 
 #include "deltag/case.hpp"
@@ -701,6 +703,96 @@ std::string batch_json_row(const BatchRow& r, const std::vector<std::string>& ph
     for (std::size_t i = 0; i < nums.size(); ++i) out += ", " + str(cols[i + 4]) + ": " + (nums[i].empty() ? "null" : nums[i]);
     out += "}";
     return out;
+}
+
+// ---- the scratch file of a table -------------------------------------------------------------
+
+namespace {
+
+void put(std::FILE* f, const void* p, std::size_t n) {
+    if (n && std::fwrite(p, 1, n, f) != n) throw std::runtime_error("cannot write the batch's scratch file");
+}
+void get(std::FILE* f, void* p, std::size_t n) {
+    if (n && std::fread(p, 1, n, f) != n) throw std::runtime_error("cannot read the batch's scratch file");
+}
+void put_string(std::FILE* f, const std::string& s) {
+    const std::uint64_t n = s.size();
+    put(f, &n, sizeof n);
+    put(f, s.data(), s.size());
+}
+std::string get_string(std::FILE* f) {
+    std::uint64_t n = 0;
+    get(f, &n, sizeof n);
+    std::string s(static_cast<std::size_t>(n), '\0');
+    get(f, s.data(), s.size());
+    return s;
+}
+void put_number(std::FILE* f, const std::optional<double>& v) {
+    const unsigned char has = v ? 1 : 0;
+    put(f, &has, 1);
+    if (v) put(f, &*v, sizeof(double));
+}
+std::optional<double> get_number(std::FILE* f) {
+    unsigned char has = 0;
+    get(f, &has, 1);
+    if (!has) return std::nullopt;
+    double v = 0;
+    get(f, &v, sizeof v);
+    return v;
+}
+
+// The figures of a row in column order, for the scratch file.
+std::vector<std::optional<double>*> figures_of(BatchRow& r) {
+    return {&r.temperature_c, &r.ph, &r.ionic_strength, &r.tds_mg_per_l, &r.hardness_mg_per_l_caco3,
+            &r.alkalinity_mg_per_l_caco3, &r.conductance_us_per_cm, &r.langelier, &r.ryznar, &r.ccpp_mg_per_l_caco3};
+}
+
+}  // namespace
+
+BatchTable::BatchTable() : scratch_(std::tmpfile(), &std::fclose) {
+    if (!scratch_) throw std::runtime_error("cannot make a scratch file for the batch's table");
+}
+
+void BatchTable::add(const std::vector<BatchRow>& rows) {
+    collect_phases(rows, phases_);
+    std::FILE* f = scratch_.get();
+    for (BatchRow r : rows) {
+        for (const std::string* s : {&r.sample, &r.result, &r.status, &r.message}) put_string(f, *s);
+        for (auto* v : figures_of(r)) put_number(f, *v);
+        const std::uint64_t n = r.phases.size();
+        put(f, &n, sizeof n);
+        for (const auto& p : r.phases) {
+            put_string(f, p.name);
+            put(f, &p.si, sizeof(double));
+            put(f, &p.delta_g_kj_per_mol, sizeof(double));
+        }
+        ++rows_;
+    }
+}
+
+void BatchTable::write(bool json, const std::function<void(std::string_view)>& out) {
+    std::FILE* f = scratch_.get();
+    if (std::fflush(f) != 0 || std::fseek(f, 0, SEEK_SET) != 0) throw std::runtime_error("cannot read the batch's scratch file");
+    out(json ? batch_json_open() : batch_csv_header(phases_));
+    for (std::size_t i = 0; i < rows_; ++i) {
+        BatchRow r;
+        for (std::string* s : {&r.sample, &r.result, &r.status, &r.message}) *s = get_string(f);
+        for (auto* v : figures_of(r)) *v = get_number(f);
+        std::uint64_t n = 0;
+        get(f, &n, sizeof n);
+        for (std::uint64_t k = 0; k < n; ++k) {
+            BatchPhase p;
+            p.name = get_string(f);
+            get(f, &p.si, sizeof(double));
+            get(f, &p.delta_g_kj_per_mol, sizeof(double));
+            r.phases.push_back(std::move(p));
+        }
+        out(json ? batch_json_row(r, phases_, i == 0) : batch_csv_row(r, phases_));
+    }
+    if (json && rows_) out("\n");
+    if (json) out(batch_json_close());
+    // Left at the end, so more rows could follow.
+    std::fseek(f, 0, SEEK_END);
 }
 
 }  // namespace deltag
