@@ -348,3 +348,20 @@ TEST_CASE("batch: the table kept in a scratch file reads back as written, number
     CHECK(json.find("\"status\": \"bad input\"") != std::string::npos);
     CHECK(json.find("\"SI Fluorite\": null") != std::string::npos);
 }
+
+TEST_CASE("batch: a broken file half way stops the batch on any thread count, with the line") {
+    std::string samples = "sample,pH,Ca,Na,Cl,Alkalinity (mg/L as CaCO3)\n";
+    for (int i = 0; i < 40; ++i) samples += "s" + std::to_string(i) + ",7.6,40,20,35,100\n";
+    samples += "\"broken,7.6,40,20,35,100\n";
+    for (unsigned threads : {1u, 2u}) {
+        BatchOptions o;
+        o.threads = threads;
+        try {
+            batch(samples, template_case, o);
+            FAIL("expected an InputError");
+        } catch (const InputError& e) {
+            CHECK(e.where().line == 42);
+            CHECK(e.message() == "a quoted field opened on this line is never closed (a missing \")");
+        }
+    }
+}

@@ -11,6 +11,7 @@
 #include <filesystem>
 #include <fstream>
 #include <iostream>
+#include <iterator>
 #include <memory>
 
 #include "deltag/batch.hpp"
@@ -71,9 +72,16 @@ int cmd_batch(const std::string& case_path, const std::string& samples_path, con
     options.database = db_override;
     options.threads = threads;
     BatchTable table;
-    // A progress line only on a terminal: samples done and the rate (the total is not known
-    // while the file is read).
+    // A progress line only on a terminal: samples done of about how many (the lines of the
+    // file, counted first; a quoted line break would count one too many), rate, time left.
     const bool progress = ::isatty(2) != 0;
+    std::size_t total = 0;
+    if (progress) {
+        std::ifstream count(samples_path, std::ios::binary);
+        total = static_cast<std::size_t>(
+            std::count(std::istreambuf_iterator<char>(count), std::istreambuf_iterator<char>(), '\n'));
+        total = total > 0 ? total - 1 : 0;  // the header
+    }
     const auto start = std::chrono::steady_clock::now();
     std::size_t done = 0;
     auto last = start;
@@ -85,7 +93,10 @@ int cmd_batch(const std::string& case_path, const std::string& samples_path, con
             if (now - last > std::chrono::milliseconds(200)) {
                 last = now;
                 const double s = std::chrono::duration<double>(now - start).count();
-                std::cerr << fmt::format("\r{} samples, {:.0f} per s", done, s > 0 ? static_cast<double>(done) / s : 0.0) << std::flush;
+                const double rate = s > 0 ? static_cast<double>(done) / s : 0.0;
+                const double left = rate > 0 && total > done ? static_cast<double>(total - done) / rate : 0.0;
+                std::cerr << fmt::format("\r\033[K{} of about {} samples, {:.0f} per s, {:.0f} s left", done, total, rate, left)
+                          << std::flush;
             }
         }
     });

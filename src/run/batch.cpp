@@ -3,6 +3,9 @@
 
 #include <algorithm>
 #include <atomic>
+#include <condition_variable>
+#include <deque>
+#include <mutex>
 #include <cmath>
 #include <cstdint>
 #include <cstdlib>
@@ -559,56 +562,118 @@ BatchSummary run_batch(const std::string& case_path, std::istream& samples, cons
     const std::size_t window = 16 * static_cast<std::size_t>(threads);
     BatchSummary summary;
     std::set<std::string> names;  // sample names seen, for uniqueness
-    std::vector<Sample> batch;
-    bool more = true;
     std::size_t index = 0;
-    while (more) {
-        batch.clear();
-        // Read a window of samples.
-        while (batch.size() < window) {
-            Sample s;
-            if (!reader.next(s.fields, s.line)) {
-                more = false;
-                break;
-            }
-            if (std::all_of(s.fields.begin(), s.fields.end(), [](const std::string& f) { return f.empty(); })) continue;  // blank line
-            s.index = index++;
-            if (s.fields.size() != header.size()) {
-                s.bad = "the row has " + std::to_string(s.fields.size()) + " fields, the header " + std::to_string(header.size()) +
-                        (reader.delimiter() == ';' ? " (separated by semicolons)" : " (separated by commas)");
-                s.name = sample_col < s.fields.size() ? s.fields[sample_col] : std::string();
-            } else {
-                s.name = s.fields[sample_col];
-                if (s.name.empty()) s.bad = "the sample has no name (the sample column is empty)";
-                else if (!names.insert(s.name).second) s.bad = "the sample name '" + s.name + "' is used by an earlier row; names must be unique";
-            }
-            if (s.name.empty()) s.name = "line " + std::to_string(s.line);
-            batch.push_back(std::move(s));
+    // The next sample of the file, checked for its length and name; false at the end.
+    auto read_sample = [&](Sample& s) {
+        for (;;) {
+            if (!reader.next(s.fields, s.line)) return false;
+            if (!std::all_of(s.fields.begin(), s.fields.end(), [](const std::string& f) { return f.empty(); })) break;  // blank line
         }
-        // Solve the window: each worker takes the next sample; each sample's numbers depend
-        // only on the sample, so the thread count changes nothing but the time.
-        std::atomic<std::size_t> next{0};
-        auto work = [&] {
-            for (std::size_t i; (i = next.fetch_add(1)) < batch.size();) solve(x, batch[i]);
-        };
-        const unsigned n = static_cast<unsigned>(std::min<std::size_t>(threads, batch.size()));
-        std::vector<std::thread> pool;
-        for (unsigned t = 1; t < n; ++t) pool.emplace_back(work);
-        work();
-        for (auto& t : pool) t.join();
-        for (const auto& s : batch) {
-            ++summary.samples;
-            bool bad = false, unconverged = false;
-            for (const auto& r : s.rows) {
-                bad = bad || r.status == "bad input";
-                unconverged = unconverged || r.status == "no convergence";
-            }
-            if (bad) ++summary.bad_input;
-            else if (unconverged) ++summary.no_convergence;
-            else ++summary.solved;
-            sink(s.rows);
+        s.index = index++;
+        if (s.fields.size() != header.size()) {
+            s.bad = "the row has " + std::to_string(s.fields.size()) + " fields, the header " + std::to_string(header.size()) +
+                    (reader.delimiter() == ';' ? " (separated by semicolons)" : " (separated by commas)");
+            s.name = sample_col < s.fields.size() ? s.fields[sample_col] : std::string();
+        } else {
+            s.name = s.fields[sample_col];
+            if (s.name.empty()) s.bad = "the sample has no name (the sample column is empty)";
+            else if (!names.insert(s.name).second) s.bad = "the sample name '" + s.name + "' is used by an earlier row; names must be unique";
         }
+        if (s.name.empty()) s.name = "line " + std::to_string(s.line);
+        return true;
+    };
+    auto deliver = [&](const Sample& s) {
+        ++summary.samples;
+        bool bad = false, unconverged = false;
+        for (const auto& r : s.rows) {
+            bad = bad || r.status == "bad input";
+            unconverged = unconverged || r.status == "no convergence";
+        }
+        if (bad) ++summary.bad_input;
+        else if (unconverged) ++summary.no_convergence;
+        else ++summary.solved;
+        sink(s.rows);
+    };
+    if (threads == 1) {
+        for (Sample s; read_sample(s); s = Sample{}) {
+            solve(x, s);
+            deliver(s);
+        }
+        return summary;
     }
+    // Worker threads take the samples of a sliding window in turn; this thread reads the file
+    // into the window and hands finished samples on in input order. Each sample's numbers
+    // depend only on the sample, so the thread count changes nothing but the time.
+    struct Slot {
+        Sample s;
+        bool taken = false, done = false;
+    };
+    std::deque<Slot> q;       // q.front() is the next to hand on
+    std::size_t base = 0;     // the window position of q.front()
+    std::size_t next = 0;     // the window position of the next sample to take
+    bool input_done = false, stop = false;
+    std::mutex m;
+    std::condition_variable cv;
+    auto work = [&] {
+        std::unique_lock<std::mutex> lock(m);
+        for (;;) {
+            cv.wait(lock, [&] { return stop || next < base + q.size() || input_done; });
+            if (stop) return;
+            if (next >= base + q.size()) {
+                if (input_done) return;
+                continue;
+            }
+            Slot& slot = q[next - base];  // a deque keeps its elements in place as it grows at the back
+            ++next;
+            slot.taken = true;
+            lock.unlock();
+            solve(x, slot.s);
+            lock.lock();
+            slot.done = true;
+            cv.notify_all();
+        }
+    };
+    std::vector<std::thread> pool;
+    auto finish = [&] {
+        {
+            std::lock_guard<std::mutex> lock(m);
+            stop = true;
+        }
+        cv.notify_all();
+        for (auto& t : pool) t.join();
+    };
+    try {
+        for (unsigned t = 0; t < threads; ++t) pool.emplace_back(work);
+        std::unique_lock<std::mutex> lock(m);
+        for (;;) {
+            // Fill the window (the file read without the lock).
+            while (!input_done && q.size() < window) {
+                lock.unlock();
+                Sample s;
+                const bool got = read_sample(s);
+                lock.lock();
+                if (got) q.push_back(Slot{std::move(s)});
+                else input_done = true;
+                cv.notify_all();
+            }
+            // Hand on what is finished, in order.
+            while (!q.empty() && q.front().done) {
+                Sample s = std::move(q.front().s);
+                q.pop_front();
+                ++base;
+                lock.unlock();
+                deliver(s);
+                lock.lock();
+            }
+            if (input_done && q.empty()) break;
+            if (!q.empty() && !q.front().done && (input_done || q.size() >= window))
+                cv.wait(lock, [&] { return q.front().done; });
+        }
+    } catch (...) {
+        finish();
+        throw;
+    }
+    finish();
     return summary;
 }
 
