@@ -1044,7 +1044,10 @@ TEST_CASE("batch: command-line mistakes: output type, threads, template water, s
     CHECK(has(r.err, "expected a file ending in .csv or .json, found 'out.xlsx' (.xlsx is not written yet)"));
     r = deltag("batch '" + c.string() + "' --samples '" + s.string() + "' --threads 0");
     CHECK(r.code == 2);
-    CHECK(has(r.err, "expected at least 1 thread"));
+    CHECK(has(r.err, "expected 1 to 256 threads, found 0"));
+    r = deltag("batch '" + c.string() + "' --samples '" + s.string() + "' --threads 1000");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, "expected 1 to 256 threads, found 1000"));
     r = deltag("batch '" + c.string() + "' --samples '" + s.string() + "' --water tapp");
     CHECK(r.code == 2);
     CHECK(has(r.err, "the case has no water called 'tapp'"));

@@ -64,7 +64,7 @@ int cmd_batch(const std::string& case_path, const std::string& samples_path, con
         throw InputError(cmd, "--output",
                          "expected a file ending in .csv or .json, found '" + output + "' (.xlsx is not written yet)",
                          nearest_name(ext, {".csv", ".json"}));
-    if (threads < 1) throw InputError(cmd, "--threads", "expected at least 1 thread");
+    if (threads < 1 || threads > 256) throw InputError(cmd, "--threads", "expected 1 to 256 threads, found " + std::to_string(threads));
     std::ifstream in(samples_path, std::ios::binary);
     if (!in) throw InputError(SourceLocation{samples_path, 0, 0}, "--samples", "cannot read the samples file");
     BatchOptions options;
