@@ -936,3 +936,133 @@ csv = "ligands-fe.csv"
     CHECK(has(with, "ligand activities held at the values of water 'oxic'"));
     CHECK(has(with, "HCO3-"));
 }
+
+// ---- deltag batch --------------------------------------------------------------------------
+
+namespace {
+const std::string batch_samples = "sample,pH,Ca (mg/L),Na,Cl,Alkalinity (mg/L as CaCO3)\n"
+                                  "north,7.6,40,20,35,100\n"
+                                  "south,7.9,55,12,22,140\n";
+}
+
+TEST_CASE("batch: CSV on standard output, the summary on stderr, exit 0") {
+    const fs::path c = write("batch.toml", good_case), s = write("batch.csv", batch_samples);
+    const Run r = deltag("batch '" + c.string() + "' --samples '" + s.string() + "'");
+    CHECK(r.code == 0);
+    CHECK(r.out.rfind("sample,result,status,message,temperature (°C),pH,ionic strength (mol/kgw),", 0) == 0);
+    CHECK(has(r.out, "north,tap,ok,"));
+    CHECK(has(r.out, "south,tap,ok,"));
+    CHECK(has(r.out, ",SI Calcite,ΔG Calcite (kJ/mol)"));
+    // Standard error is not a terminal here: no progress line, the summary only.
+    CHECK(r.err == "2 solved\n");
+}
+
+TEST_CASE("batch --output OUT.json: one object per row; OUT.csv: the same table as standard output") {
+    const fs::path c = write("batch.toml", good_case), s = write("batch.csv", batch_samples);
+    const fs::path json = scratch() / "batch-out.json", csv = scratch() / "batch-out.csv";
+    Run r = deltag("batch '" + c.string() + "' --samples '" + s.string() + "' --output '" + json.string() + "'");
+    REQUIRE(r.code == 0);
+    CHECK(r.out.empty());
+    const auto j = nlohmann::json::parse(slurp(json));
+    REQUIRE(j.is_array());
+    REQUIRE(j.size() == 2);
+    CHECK(j[0]["sample"] == "north");
+    CHECK(j[0]["result"] == "tap");
+    CHECK(j[0]["status"] == "ok");
+    CHECK(j[1]["pH"].get<double>() == doctest::Approx(7.9));
+    CHECK(j[0].contains("SI Calcite"));
+    CHECK(j[0]["Langelier index"].is_number());
+    r = deltag("batch '" + c.string() + "' --samples '" + s.string() + "' --output '" + csv.string() + "' --threads 2");
+    REQUIRE(r.code == 0);
+    const Run o = deltag("batch '" + c.string() + "' --samples '" + s.string() + "'");
+    CHECK(slurp(csv) == o.out);
+}
+
+TEST_CASE("batch: a bad column is bad input for the whole file: exit 2, the column and a suggestion, nothing written") {
+    const fs::path c = write("batch.toml", good_case);
+    const fs::path s = write("batch-bad-col.csv", "sample,pH,Caa (mg/L)\na,7.6,40\n");
+    const fs::path out = scratch() / "batch-never.csv";
+    const Run r = deltag("batch '" + c.string() + "' --samples '" + s.string() + "' --output '" + out.string() + "'");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, "batch-bad-col.csv:1:3"));
+    CHECK(has(r.err, "column 'Caa (mg/L)': unknown analyte 'Caa'"));
+    CHECK(has(r.err, "Ca"));
+    CHECK(!fs::exists(out));
+    CHECK(r.out.empty());
+}
+
+TEST_CASE("batch --strict: a bad row exits 2, the table still complete") {
+    const fs::path c = write("batch.toml", good_case);
+    const fs::path s = write("batch-bad-row.csv", batch_samples + "west,7.6,lots,20,35,100\n");
+    const fs::path out = scratch() / "batch-strict.csv";
+    Run r = deltag("batch '" + c.string() + "' --samples '" + s.string() + "' --output '" + out.string() + "'");
+    CHECK(r.code == 0);
+    CHECK(r.err == "2 solved, 1 bad input\n");
+    r = deltag("batch '" + c.string() + "' --samples '" + s.string() + "' --output '" + out.string() + "' --strict");
+    CHECK(r.code == 2);
+    CHECK(r.err == "2 solved, 1 bad input\n");
+    const std::string table = slurp(out);
+    CHECK(has(table, "north,tap,ok,"));
+    CHECK(has(table, "west,tap,bad input,\"Ca (mg/L): expected a concentration (a number) or a value below the detection limit such as <0.05, found 'lots'\""));
+}
+
+TEST_CASE("batch --strict: a sample that does not converge exits 3, the others solved") {
+    // As for run: a database of our own making with an absurd CaSO4(aq) log K of 400, so a
+    // sample with calcium and sulfate cannot be solved, and one without them can.
+    std::string db = slurp(fs::path(DELTAG_SOURCE_DIR) / "databases" / "core.toml");
+    const std::string from = "reaction = \"Ca^2+ + SO4^2- = CaSO4(aq)\"\nlog_k = 2.30";
+    const auto at = db.find(from);
+    REQUIRE(at != std::string::npos);
+    db.replace(at, from.size(), "reaction = \"Ca^2+ + SO4^2- = CaSO4(aq)\"\nlog_k = 400.0");
+    write("absurd-complex.toml", db);
+    const fs::path c = write("absurd-batch.toml", R"toml(database = "absurd-complex.toml"
+[water.w]
+pH = 7.0
+units = "mmol/kgw"
+[water.w.analytes]
+Na = 1
+Cl = 1
+)toml");
+    const fs::path s = write("absurd-samples.csv", "sample,pH,Na,Cl,Ca,SO4\nplain,7,1,1,,\nstuck,7,1,1,1,1\nplain 2,7.2,2,2,,\n");
+    const fs::path out = scratch() / "absurd-out.csv";
+    Run r = deltag("batch '" + c.string() + "' --samples '" + s.string() + "' --output '" + out.string() + "' --strict");
+    CHECK(r.code == 3);
+    CHECK(r.err == "2 solved, 1 did not converge\n");
+    const std::string table = slurp(out);
+    CHECK(has(table, "plain,w,ok,"));
+    CHECK(has(table, "plain 2,w,ok,"));
+    CHECK(has(table, "stuck,w,no convergence,\"water 'w': did not converge"));
+    r = deltag("batch '" + c.string() + "' --samples '" + s.string() + "'");
+    CHECK(r.code == 0);
+}
+
+TEST_CASE("batch: command-line mistakes: output type, threads, template water, samples file") {
+    const fs::path c = write("batch.toml", good_case), s = write("batch.csv", batch_samples);
+    Run r = deltag("batch '" + c.string() + "' --samples '" + s.string() + "' --output out.xlsx");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, "--output"));
+    CHECK(has(r.err, "expected a file ending in .csv or .json, found 'out.xlsx' (.xlsx is not written yet)"));
+    r = deltag("batch '" + c.string() + "' --samples '" + s.string() + "' --threads 0");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, "expected 1 to 256 threads, found 0"));
+    r = deltag("batch '" + c.string() + "' --samples '" + s.string() + "' --threads 1000");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, "expected 1 to 256 threads, found 1000"));
+    r = deltag("batch '" + c.string() + "' --samples '" + s.string() + "' --water tapp");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, "the case has no water called 'tapp'"));
+    CHECK(has(r.err, "tap"));
+    r = deltag("batch '" + c.string() + "' --samples '" + (scratch() / "no-such.csv").string() + "'");
+    CHECK(r.code == 2);
+    CHECK(has(r.err, "cannot read the samples file"));
+    r = deltag("batch '" + c.string() + "'");
+    CHECK(r.code == 2);
+}
+
+TEST_CASE("batch: the example samples file of cases/ runs through its demo case") {
+    const fs::path dir = fs::path(DELTAG_SOURCE_DIR) / "cases";
+    const Run r = deltag("batch '" + (dir / "hard-well.toml").string() + "' --samples '" + (dir / "hard-well-samples.csv").string() + "'");
+    CHECK(r.code == 0);
+    CHECK(r.err == "5 solved\n");
+    CHECK(!has(r.out, "nan"));
+}

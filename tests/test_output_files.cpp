@@ -153,3 +153,33 @@ TEST_CASE("output files: a device is written in place (it cannot be replaced)") 
     CHECK(fs::is_character_file("/dev/null"));
     CHECK(has(error_of({{"/dev/full", "x", "--output"}}), "/dev/full: '--output': writing failed: No space left on device"));
 }
+
+TEST_CASE("output files: a file written in pieces replaces its target whole; a failure half way leaves it") {
+    const fs::path d = fresh_dir("pieces");
+    const fs::path target = d / "table.csv";
+    put(target, "the earlier table\n");
+    deltag::io::write_file_atomically(target.string(), "--output", [](const std::function<void(std::string_view)>& out) {
+        out("a,b\n");
+        for (int i = 0; i < 3; ++i) out(std::to_string(i) + "," + std::to_string(i * i) + "\n");
+    });
+    CHECK(slurp(target) == "a,b\n0,0\n1,1\n2,4\n");
+    CHECK(entries(d) == 1);
+    // The producer fails after a piece: the target keeps its content, no temporary is left.
+    CHECK_THROWS_AS(deltag::io::write_file_atomically(target.string(), "--output",
+                                                      [](const std::function<void(std::string_view)>& out) {
+                                                          out("half a table\n");
+                                                          throw std::runtime_error("the producer failed");
+                                                      }),
+                    std::runtime_error);
+    CHECK(slurp(target) == "a,b\n0,0\n1,1\n2,4\n");
+    CHECK(entries(d) == 1);
+    // A directory in the way is bad input, named by the key.
+    fs::create_directories(d / "dir");
+    try {
+        deltag::io::write_file_atomically((d / "dir").string(), "--output", [](const auto& out) { out("x"); });
+        FAIL("expected an InputError");
+    } catch (const InputError& e) {
+        CHECK(e.key() == "--output");
+        CHECK(has(e.what(), "cannot write to this file: it is a directory"));
+    }
+}

@@ -76,4 +76,8 @@ const std::vector<StepKindKeys>& step_keys();
 Case read_case(const std::string& path);
 Case parse_case(std::string_view toml_text, const std::string& origin);
 
+// A value below the detection limit as a lab writes it, "<0.05": returns the limit. Anything
+// else is an InputError at `where` and `key` (the case reader's own rule and messages).
+double below_detection_limit_of(const std::string& text, const SourceLocation& where, const std::string& key);
+
 }  // namespace deltag::io

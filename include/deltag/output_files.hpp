@@ -2,7 +2,9 @@
 // files; the report writers only format strings.
 #pragma once
 
+#include <functional>
 #include <string>
+#include <string_view>
 #include <vector>
 
 namespace deltag::io {
@@ -27,5 +29,11 @@ struct OutputFile {
 // A symbolic link is followed: the file it points to is replaced, the link stays.
 // Throws InputError(path, key, what went wrong with the system's reason).
 void write_files_atomically(const std::vector<OutputFile>& files);
+
+// One file written the same way, its content produced in pieces: `produce` is called once
+// with a function that appends a piece, so a long table need not be held in memory. An
+// exception from `produce` removes the temporary file and leaves the target as it was.
+void write_file_atomically(const std::string& path, const std::string& key,
+                           const std::function<void(const std::function<void(std::string_view)>&)>& produce);
 
 }  // namespace deltag::io

@@ -31,6 +31,9 @@ struct DatabaseChoice {
     std::string name;                               // "core (embedded)" or the path
 };
 DatabaseChoice choose_database(const std::string& path_or_core, const SourceLocation& where);
+// The database a case asks for: `replacement` if given (from the command line), else the
+// case's choice, a relative path taken from `base_dir` (the case file's directory).
+DatabaseChoice case_database(const io::Case& c, const std::string& base_dir, const std::string& replacement);
 
 struct RunOptions {
     // Replaces the case's own database choice ("" keeps it). A relative path is taken as

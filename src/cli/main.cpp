@@ -3,12 +3,18 @@
 #include <CLI/CLI.hpp>
 #include <fmt/format.h>
 
+#include <unistd.h>
+
 #include <algorithm>
+#include <chrono>
 #include <cmath>
 #include <filesystem>
+#include <fstream>
 #include <iostream>
+#include <iterator>
 #include <memory>
 
+#include "deltag/batch.hpp"
 #include "deltag/case.hpp"
 #include "deltag/constants.hpp"
 #include "deltag/database.hpp"
@@ -46,6 +52,67 @@ int cmd_run(const std::string& case_path, const std::string& format, const std::
         std::cout << text;
         std::cout.flush();
     }
+    return exit_ok;
+}
+
+// A sample set through a case. The rows are solved in a bounded window and come back in
+// input order into a scratch file; the table is written when the last row is in, since its
+// columns (the minerals of any row) are known only then, atomically (or to standard output).
+int cmd_batch(const std::string& case_path, const std::string& samples_path, const std::string& water,
+              const std::string& output, unsigned threads, bool strict, const std::string& db_override) {
+    const SourceLocation cmd{"command line", 0, 0};
+    const std::string ext = fs::path(output).extension().string();
+    if (!output.empty() && ext != ".csv" && ext != ".json")
+        throw InputError(cmd, "--output",
+                         "expected a file ending in .csv or .json, found '" + output + "' (.xlsx is not written yet)",
+                         nearest_name(ext, {".csv", ".json"}));
+    if (threads < 1 || threads > 256) throw InputError(cmd, "--threads", "expected 1 to 256 threads, found " + std::to_string(threads));
+    std::ifstream in(samples_path, std::ios::binary);
+    if (!in) throw InputError(SourceLocation{samples_path, 0, 0}, "--samples", "cannot read the samples file");
+    BatchOptions options;
+    options.water = water;
+    options.database = db_override;
+    options.threads = threads;
+    BatchTable table;
+    // A progress line only on a terminal: samples done of about how many (the lines of the
+    // file, counted first; a quoted line break would count one too many), rate, time left.
+    const bool progress = ::isatty(2) != 0;
+    std::size_t total = 0;
+    if (progress) {
+        std::ifstream count(samples_path, std::ios::binary);
+        total = static_cast<std::size_t>(
+            std::count(std::istreambuf_iterator<char>(count), std::istreambuf_iterator<char>(), '\n'));
+        total = total > 0 ? total - 1 : 0;  // the header
+    }
+    const auto start = std::chrono::steady_clock::now();
+    std::size_t done = 0;
+    auto last = start;
+    const BatchSummary summary = run_batch(case_path, in, samples_path, options, [&](const std::vector<BatchRow>& sample_rows) {
+        table.add(sample_rows);
+        ++done;
+        if (progress) {
+            const auto now = std::chrono::steady_clock::now();
+            if (now - last > std::chrono::milliseconds(200)) {
+                last = now;
+                const double s = std::chrono::duration<double>(now - start).count();
+                const double rate = s > 0 ? static_cast<double>(done) / s : 0.0;
+                const double left = rate > 0 && total > done ? static_cast<double>(total - done) / rate : 0.0;
+                std::cerr << fmt::format("\r\033[K{} of about {} samples, {:.0f} per s, {:.0f} s left", done, total, rate, left)
+                          << std::flush;
+            }
+        }
+    });
+    if (progress) std::cerr << "\r\033[K";
+    const bool json = ext == ".json";
+    if (output.empty()) {
+        table.write(json, [](std::string_view piece) { std::cout << piece; });
+        std::cout.flush();
+    } else {
+        io::write_file_atomically(output, "--output", [&](const std::function<void(std::string_view)>& put) { table.write(json, put); });
+    }
+    std::cerr << summary_line(summary) << "\n";
+    if (strict && summary.bad_input > 0) return exit_input;
+    if (strict && summary.no_convergence > 0) return exit_convergence;
     return exit_ok;
 }
 
@@ -351,6 +418,18 @@ int main(int argc, char** argv) {
     pot->add_option("--electrons", pot_n, "electrons n, with --delta-g-kj");
     pot->add_option("--format", pot_format, "text | json")->check(CLI::IsMember({"text", "json"}));
 
+    std::string batch_case, batch_samples, batch_water, batch_output, batch_db;
+    unsigned batch_threads = 1;
+    bool batch_strict = false;
+    CLI::App* batch = app.add_subcommand("batch", "Run every sample of a CSV file through a case (one row per sample and result)");
+    batch->add_option("CASE", batch_case, "case file (TOML): the template water and its steps")->required();
+    batch->add_option("--samples", batch_samples, "samples file (CSV): a sample column, then water settings and analytes")->required();
+    batch->add_option("--water", batch_water, "the case's template water (default: its only water)");
+    batch->add_option("--output", batch_output, "write the table to OUT.csv or OUT.json (default: CSV on standard output)");
+    batch->add_option("--threads", batch_threads, "samples solved at once (default 1)");
+    batch->add_flag("--strict", batch_strict, "exit 2 (bad input) or 3 (no convergence) when any sample failed");
+    batch->add_option("--database", batch_db, "database file (default: the case's choice, else the embedded core)");
+
     try {
         app.parse(argc, argv);
     } catch (const CLI::CallForHelp& e) {
@@ -366,6 +445,7 @@ int main(int argc, char** argv) {
 
     try {
         if (*run) return cmd_run(case_path, format, output, db_path, verbose);
+        if (*batch) return cmd_batch(batch_case, batch_samples, batch_water, batch_output, batch_threads, batch_strict, batch_db);
         if (*check) return cmd_database_check(check_path);
         if (*show) return cmd_database_show(show_name, show_db);
         if (*cellc) return cmd_cell(cathode, anode, activity_args, cell_ph, cell_t, water_ref, cell_metal_ions, cell_format, cell_db);

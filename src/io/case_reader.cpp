@@ -1598,4 +1598,8 @@ Case read_case(const std::string& path) {
     return c;
 }
 
+double below_detection_limit_of(const std::string& text, const SourceLocation& where, const std::string& key) {
+    return below_detection_limit(text, where, key);
+}
+
 }  // namespace deltag::io

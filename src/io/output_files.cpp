@@ -10,6 +10,8 @@
 #include <cstdio>
 #include <cstring>
 #include <filesystem>
+#include <functional>
+#include <string_view>
 
 #include "deltag/error.hpp"
 
@@ -24,7 +26,7 @@ namespace fs = std::filesystem;
 }
 
 // Writes all of `text` to an open descriptor; 0 or the errno of the failure.
-int write_all(int fd, const std::string& text) {
+int write_all(int fd, std::string_view text) {
     const char* p = text.data();
     std::size_t left = text.size();
     while (left > 0) {
@@ -85,7 +87,10 @@ Planned plan_one(const OutputFile& f) {
     return p;
 }
 
-void write_temp(Planned& p) {
+// Writes a file's content to an open descriptor: 0 or the errno of the failure.
+using Body = std::function<int(int fd)>;
+
+void write_temp(Planned& p, const Body& body) {
     static std::atomic<unsigned> counter{0};
     const fs::path target(p.target);
     fs::path dir = target.parent_path();
@@ -104,7 +109,14 @@ void write_temp(Planned& p) {
         p.temp = temp;
         int err = 0;
         if (p.replaces && ::fchmod(fd, p.mode) != 0) err = errno;
-        if (!err) err = write_all(fd, p.file->content);
+        if (!err) {
+            try {
+                err = body(fd);
+            } catch (...) {
+                ::close(fd);
+                throw;
+            }
+        }
         if (!err && ::fsync(fd) != 0) err = errno;
         if (::close(fd) != 0 && !err) err = errno;
         if (err) fail(*p.file, "writing failed", err);
@@ -112,10 +124,16 @@ void write_temp(Planned& p) {
     }
 }
 
-void write_in_place(const Planned& p) {
+void write_in_place(const Planned& p, const Body& body) {
     const int fd = ::open(p.target.c_str(), O_WRONLY | O_TRUNC | O_CLOEXEC);
     if (fd < 0) fail(*p.file, "cannot write to this file", errno);
-    int err = write_all(fd, p.file->content);
+    int err = 0;
+    try {
+        err = body(fd);
+    } catch (...) {
+        ::close(fd);
+        throw;
+    }
     if (::close(fd) != 0 && !err) err = errno;
     if (err) fail(*p.file, "writing failed", err);
 }
@@ -128,14 +146,36 @@ void write_files_atomically(const std::vector<OutputFile>& files) {
     for (const auto& f : files) plan.push_back(plan_one(f));
     const TempFiles cleanup{plan};
     for (auto& p : plan)
-        if (!p.in_place) write_temp(p);
+        if (!p.in_place) write_temp(p, [&](int fd) { return write_all(fd, p.file->content); });
     for (const auto& p : plan)
-        if (p.in_place) write_in_place(p);
+        if (p.in_place) write_in_place(p, [&](int fd) { return write_all(fd, p.file->content); });
     for (auto& p : plan) {
         if (p.in_place) continue;
         if (std::rename(p.temp.c_str(), p.target.c_str()) != 0) fail(*p.file, "cannot write to this file", errno);
         p.temp.clear();
     }
+}
+
+void write_file_atomically(const std::string& path, const std::string& key,
+                           const std::function<void(const std::function<void(std::string_view)>&)>& produce) {
+    const OutputFile f{path, {}, key};
+    std::vector<Planned> plan{plan_one(f)};
+    const TempFiles cleanup{plan};
+    Planned& p = plan.front();
+    const Body body = [&](int fd) {
+        int err = 0;
+        produce([&](std::string_view piece) {
+            if (!err) err = write_all(fd, piece);
+        });
+        return err;
+    };
+    if (p.in_place) {
+        write_in_place(p, body);
+        return;
+    }
+    write_temp(p, body);
+    if (std::rename(p.temp.c_str(), p.target.c_str()) != 0) fail(f, "cannot write to this file", errno);
+    p.temp.clear();
 }
 
 }  // namespace deltag::io

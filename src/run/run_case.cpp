@@ -43,6 +43,18 @@ DatabaseChoice choose_database(const std::string& path_or_core, const SourceLoca
     return l;
 }
 
+DatabaseChoice case_database(const io::Case& c, const std::string& base_dir, const std::string& replacement) {
+    std::string db_choice = c.database;
+    SourceLocation db_where = c.database_where;
+    if (!replacement.empty()) {
+        db_choice = replacement;
+        db_where = SourceLocation{"command line", 0, 0};
+    } else if (db_choice != "core" && fs::path(db_choice).is_relative()) {
+        db_choice = (fs::path(base_dir) / db_choice).string();
+    }
+    return choose_database(db_choice, db_where);
+}
+
 const process::WaterState* CaseRun::find(const std::string& label) const {
     for (const auto& s : steps)
         if (s.label == label) return &s.state;
@@ -129,15 +141,7 @@ CaseRun run(io::Case c, const std::string& case_path, const std::string& base_di
     k.case_path = case_path;
     k.case_file = std::move(c);
     const io::Case& cf = k.case_file;
-    std::string db_choice = cf.database;
-    SourceLocation db_where = cf.database_where;
-    if (!options.database.empty()) {
-        db_choice = options.database;
-        db_where = SourceLocation{"command line", 0, 0};
-    } else if (db_choice != "core" && fs::path(db_choice).is_relative()) {
-        db_choice = (fs::path(base_dir) / db_choice).string();
-    }
-    k.database = choose_database(db_choice, db_where);
+    k.database = case_database(cf, base_dir, options.database);
     const thermo::Database& db = *k.database.db;
     for (const auto& w : cf.waters) {
         const equilibrium::SpeciationInput in = to_speciation_input(w, db, cf.activity_model);
