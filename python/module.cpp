@@ -6,7 +6,10 @@
 #include <pybind11/pybind11.h>
 #include <pybind11/stl.h>
 
+#include "deltag/batch.hpp"
+
 #include <cmath>
+#include <sstream>
 #include <filesystem>
 #include <map>
 #include <memory>
@@ -238,6 +241,28 @@ PYBIND11_MODULE(_core, m) {
             return electro::convert_v(value_v, from, to, temperature_c, at);
         },
         py::arg("value_v"), py::arg("from_electrode"), py::arg("to_electrode"), py::arg("temperature_c"));
+
+    m.def(
+        "run_samples_json",
+        [](const std::string& case_path, const std::string& csv_text, const std::string& water,
+           const std::string& database, unsigned threads) {
+            py::gil_scoped_release unlocked;
+            BatchOptions options;
+            options.water = water;
+            options.database = database;
+            options.threads = std::max(1u, threads);
+            std::istringstream samples(csv_text);
+            std::vector<BatchRow> rows;
+            const BatchSummary summary = run_batch(case_path, samples, "deltag.run_samples", options,
+                                                   [&](const std::vector<BatchRow>& r) { rows.insert(rows.end(), r.begin(), r.end()); });
+            std::vector<std::string> phases;
+            collect_phases(rows, phases);
+            std::string json = batch_json_open();
+            for (std::size_t i = 0; i < rows.size(); ++i) json += batch_json_row(rows[i], phases, i == 0);
+            json += batch_json_close();
+            return std::make_pair(json, summary_line(summary));
+        },
+        py::arg("case_path"), py::arg("csv_text"), py::arg("water"), py::arg("database"), py::arg("threads"));
 
     m.def("reference_electrodes", [] { return electro::reference_names(); });
 

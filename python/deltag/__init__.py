@@ -38,7 +38,7 @@ __version__ = _core.__version__
 caution = _core.caution
 electro_caution = _core.electro_caution
 
-__all__ = ["run_case", "speciate", "Water", "cell", "Cell", "convert_potential", "reference_electrodes",
+__all__ = ["run_case", "run_samples", "speciate", "Water", "cell", "Cell", "convert_potential", "reference_electrodes",
            "Error", "InputError", "NoSolutionError", "ConvergenceError"]
 
 
@@ -63,6 +63,78 @@ def run_case(path_or_toml_text, database=None, write_files=False):
     """
     text = str(path_or_toml_text)
     return _json.loads(_core.run_case_json(text, "\n" in text, database or "", bool(write_files)))
+
+
+# --- a table of samples ---------------------------------------------------------------------
+
+def _csv_field(v):
+    if v is None or (isinstance(v, float) and _math.isnan(v)):
+        return ""
+    s = repr(v) if isinstance(v, float) else str(v)
+    if any(c in s for c in ',"\r\n'):
+        s = '"' + s.replace('"', '""') + '"'
+    return s
+
+
+def run_samples(table, case, water=None, threads=1, database=None):
+    """Runs a table of samples through one case, as ``deltag batch`` does, and returns one row
+    per sample and result (the sample's water, then each step of the case).
+
+    Args:
+        table: the samples: a pandas DataFrame, or a list of dicts (one per sample). A
+            ``sample`` column names each sample (unique); every other column is a water setting
+            or an analyte written as a lab writes it, with its unit and ``as`` in parentheses:
+            ``"Ca (mg/L)"``, ``"Alkalinity (mg/L as CaCO3)"``, ``"Temperature (°C)"``, ``"pH"``.
+            A bare analyte takes the template water's unit; a missing value (None, NaN, "")
+            is "not measured"; ``"<0.05"`` follows the case's below-detection rule.
+        case: the path of the case file whose water is the template and whose steps apply to
+            every sample.
+        water: the template water of the case (default: its only water).
+        threads: samples solved at once; the rows and numbers do not depend on it.
+        database: replaces the case's database choice ("core" or a path).
+
+    Returns:
+        A pandas DataFrame when ``table`` is one, else a list of dicts: the columns ``sample``,
+        ``result``, ``status`` (``"ok"``, ``"bad input"``, ``"no convergence"``), ``message``,
+        the figures, the indices, and SI and ΔG of every mineral in any row (units in the
+        names), exactly the columns of ``deltag batch --output OUT.json``. A bad or unsolvable
+        sample never stops the others. A DataFrame carries the summary line the command
+        prints on stderr in ``df.attrs["summary"]`` ("4 solved, 1 bad input").
+
+    The samples are independent, so a large table splits into shards run anywhere and
+    concatenated in shard order; on a Dask cluster::
+
+        futures = client.map(functools.partial(deltag.run_samples, case=path), shards)
+        rows = [row for shard in client.gather(futures) for row in shard]
+
+    Raises:
+        deltag.InputError: a bad header (an unknown or repeated column, a unit that does not
+            fit, no ``sample`` column), a case file that cannot be read, with file, line and key.
+    """
+    frame = None
+    if hasattr(table, "to_dict") and hasattr(table, "columns"):
+        frame = table
+        columns = [str(c) for c in table.columns]
+        rows = table.to_dict("records")
+    else:
+        rows = list(table)
+        columns = []
+        for r in rows:
+            for k in r:
+                if str(k) not in columns:
+                    columns.append(str(k))
+    lines = [",".join(_csv_field(c) for c in columns)]
+    for r in rows:
+        lines.append(",".join(_csv_field(r.get(c)) for c in columns))
+    out, summary = _core.run_samples_json(str(case), "\n".join(lines) + "\n", water or "", database or "",
+                                          int(threads))
+    result = _json.loads(out)
+    if frame is not None:
+        import pandas
+        df = pandas.DataFrame(result)
+        df.attrs["summary"] = summary
+        return df
+    return result
 
 
 # --- the case text deltag.speciate builds from its arguments --------------------------------
