@@ -128,7 +128,7 @@ std::string verdict_block(const thermo::Database& db, const ReportItem& item) {
     return out + para(foot, 4);
 }
 
-std::string indices_block(const thermo::Database& db, const ReportItem& item, const process::WaterFigures& f) {
+std::string indices_block(const ReportItem& item, const process::WaterFigures& f) {
     std::string out = "\n    " + pad("index", 20) + rpad("value", 7) + "   reading\n";
     auto row = [&](std::string_view name, const std::string& value, const std::string& reading) {
         const auto lines = text::wrap(reading, page_width - 4 - 20 - 7 - 3);
@@ -137,7 +137,6 @@ std::string indices_block(const thermo::Database& db, const ReportItem& item, co
                    (i < lines.size() ? lines[i] : "") + "\n";
     };
     auto unavailable = [&](std::string_view name, const std::string& why) { row(name, "n/a", why); };
-    (void)db;
     if (item.indices) {
         const auto& ix = *item.indices;
         if (ix.available) {
@@ -199,7 +198,7 @@ std::string ions_table(const process::WaterFigures& f) {
     return out;
 }
 
-std::string glance_block(const thermo::Database& db, const equilibrium::SpeciationResult& r,
+std::string glance_block(const equilibrium::SpeciationResult& r,
                          const process::WaterFigures& f) {
     std::string out = heading("The water at a glance");
     out += field("pH, temperature", fmt::format("{:.2f} at {:.1f} °C", r.ph, r.temperature_c));
@@ -272,7 +271,6 @@ std::string glance_block(const thermo::Database& db, const equilibrium::Speciati
     }
     if (!gases.empty())
         out += field("gas in balance", gases + ": the partial pressure of a gas in equilibrium with the water");
-    (void)db;
     return out;
 }
 
@@ -449,8 +447,8 @@ std::string text_report(const thermo::Database& db, const ReportContext& ctx, co
         out += header(++number, item);
         out += step_block(db, item);
         out += verdict_block(db, item);
-        out += indices_block(db, item, f);
-        out += glance_block(db, r, f);
+        out += indices_block(item, f);
+        out += glance_block(r, f);
         out += "\n  ---- the detail ----\n";
         out += where_block(db, r);
         out += species_block(db, r);
