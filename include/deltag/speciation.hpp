@@ -4,6 +4,7 @@
 #pragma once
 
 #include <cstddef>
+#include <cstdint>
 #include <map>
 #include <optional>
 #include <string>
@@ -14,7 +15,6 @@
 
 namespace deltag::equilibrium {
 
-// Every solver knob, with its default.
 // Every knob of the solver. The defaults are what deltag runs with.
 struct SolverOptions {
     int max_iterations = 200;          // Newton iterations of the last leg of an attempt (see first_leg_iterations)
@@ -228,6 +228,10 @@ struct SpeciationResult {
 SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& input,
                           const SolverOptions& options = {},
                           const SpeciationResult* start = nullptr);
+
+// How many times speciate() has run in this process, on all threads: benchmarks and tests
+// count with it what a step, an index or a sweep point costs in solves.
+std::uint64_t speciation_count();
 
 // Saturation of every mineral and gas whose components are all present in the result.
 std::vector<SaturationResult> saturation_indices(const thermo::Database& db,

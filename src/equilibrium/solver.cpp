@@ -5,10 +5,11 @@
 // and KINSOL's Newton method with line search solves the system.
 #include <kinsol/kinsol.h>
 #include <nvector/nvector_serial.h>
-#include <sunlinsol/sunlinsol_dense.h>
+#include <sundials/sundials_linearsolver.h>
 #include <sunmatrix/sunmatrix_dense.h>
 
 #include <algorithm>
+#include <atomic>
 #include <chrono>
 #include <cmath>
 #include <cstring>
@@ -77,11 +78,37 @@ struct Problem {
     std::vector<ClosedGas> closed;
     MatrixXd closed_weight;                // unknowns x closed gases: d(residual)/d(gas moles)
 
-    // Work arrays.
+    // Sparse structure, from compile_structure(): per species its columns with their
+    // coefficients, its balance rows with their weights divided by the row's scale, and the
+    // unknowns other than I its log10 molality depends on (through switched columns too).
+    // Rows of species k: [start[k], start[k+1]) of the flat arrays; no allocation per solve.
+    struct Entry {
+        int index;
+        double value;
+    };
+    std::vector<int> col_start, row_start, dep_start;
+    std::vector<Entry> col_entries, row_entries;
+    std::vector<int> dep_entries;
+    std::vector<int> dla_pattern_start, dla_pattern;  // per column: unknowns its log a depends on
+
+    // Work arrays, sized once by make_layout.
     mutable VectorXd log_m, m, lg, dlg, la, dla;
-    mutable MatrixXd g;                    // d log10 m / d u
     mutable MatrixXd dla_du;               // d log10 a(column) / d u
     mutable std::vector<double> lg_buf, dlg_buf;
+    mutable VectorXd lin, phase_part, gas_moles, g_row;
+
+    // The last residual evaluation, reused when asked again at the same point with the same
+    // equations (after KINSOL stops, the acceptance check, the carried state, the active set
+    // and the result all look at the same point). `stamp` changes whenever the equations do.
+    mutable std::vector<double> memo_u, memo_f;
+    mutable const void* memo_model = nullptr;
+    mutable std::uint64_t memo_stamp = 0;
+    mutable bool memo_valid = false;
+    std::uint64_t stamp = 1;
+    // What compile_structure() last compiled: the balances' version and the basis.
+    std::uint64_t weights_version = 1, compiled_weights = 0;
+    std::vector<int> compiled_basis;
+    void equations_changed() { ++stamp; }
 
     // The balances as make_layout built them; refer_electrons_to_basis() derives the ones in
     // use from these for the current basis.
@@ -92,6 +119,7 @@ struct Problem {
     bool switched(std::size_t c) const { return basis_of_column[c] != species_of_column[c]; }
     void evaluate(const double* u, double* f, double* jac) const;
     void refer_electrons_to_basis();
+    void compile_structure();
 };
 
 // An electron balance counts e- against the component species (NO3-, SO4^2-, Fe^2+). When
@@ -119,8 +147,12 @@ void Problem::refer_electrons_to_basis() {
         for (std::size_t c = 0; c < s.columns.size() && !wanted; ++c)
             wanted = switched(c) && s.nu(basis_of_column[c], ce) != 0.0;
     }
-    if (!wanted && !balances_referred) return;
+    if (!wanted && !balances_referred) {
+        compile_structure();
+        return;
+    }
     balances_referred = wanted;
+    ++weights_version;
     weights = weights0;
     target = target0;
     scale = scale0;
@@ -157,9 +189,90 @@ void Problem::refer_electrons_to_basis() {
         coupling.row(r) = cpl / scale[e];
         if (closed_gases) closed_weight.row(r) = cls / scale[e];
     }
+    compile_structure();
+}
+
+// The sparse lists evaluate() runs on, for the current basis and balances. Runs at the start
+// of every Newton leg (after the basis is chosen); reuses its storage.
+void Problem::compile_structure() {
+    // Nothing to do when neither the basis nor the balances changed since the last time.
+    if (compiled_weights == weights_version && compiled_basis == basis_of_column) return;
+    const ChemicalSystem& s = *sys;
+    const Index ns = static_cast<Index>(s.species.size());
+    const Index nc = static_cast<Index>(s.columns.size());
+    if (col_start.empty()) {  // the system's stoichiometry: fixed for the problem's life
+        for (Index k = 0; k < ns; ++k) {
+            col_start.push_back(static_cast<int>(col_entries.size()));
+            for (Index c = 0; c < nc; ++c)
+                if (s.nu(k, c) != 0.0) col_entries.push_back({static_cast<int>(c), s.nu(k, c)});
+        }
+        col_start.push_back(static_cast<int>(col_entries.size()));
+    }
+    if (compiled_weights != weights_version) {
+        row_start.clear();
+        row_entries.clear();
+        for (Index k = 0; k < ns; ++k) {
+            row_start.push_back(static_cast<int>(row_entries.size()));
+            for (std::size_t e = 0; e < n; ++e) {
+                const double w = weights(k, static_cast<Index>(e));
+                if (w != 0.0) row_entries.push_back({static_cast<int>(e), w / scale[e]});
+            }
+        }
+        row_start.push_back(static_cast<int>(row_entries.size()));
+    }
+    compiled_weights = weights_version;
+    compiled_basis = basis_of_column;
+    // Which unknowns each column's log activity moves with (I aside): its own unknown, the
+    // water's, or for a switched column those of its basis species' other columns too.
+    std::vector<std::vector<int>> pattern(static_cast<std::size_t>(nc));
+    for (Index c = 0; c < nc; ++c) {
+        const ComponentColumn& col = s.columns[c];
+        auto& pc = pattern[static_cast<std::size_t>(c)];
+        if (col.role == ComponentColumn::Role::water) pc.push_back(w_unknown);
+        else if (col.unknown >= 0) pc.push_back(col.unknown);
+    }
+    for (Index c = 0; c < nc; ++c) {
+        if (!switched(static_cast<std::size_t>(c))) continue;
+        const int k = basis_of_column[static_cast<std::size_t>(c)];
+        auto& pc = pattern[static_cast<std::size_t>(c)];
+        for (Index c2 = 0; c2 < nc; ++c2)
+            if (c2 != c && s.nu(k, c2) != 0.0)
+                for (const int j : pattern[static_cast<std::size_t>(c2)]) pc.push_back(j);
+    }
+    dla_pattern_start.clear();
+    dla_pattern.clear();
+    for (auto& pc : pattern) {
+        std::sort(pc.begin(), pc.end());
+        pc.erase(std::unique(pc.begin(), pc.end()), pc.end());
+        dla_pattern_start.push_back(static_cast<int>(dla_pattern.size()));
+        dla_pattern.insert(dla_pattern.end(), pc.begin(), pc.end());
+    }
+    dla_pattern_start.push_back(static_cast<int>(dla_pattern.size()));
+    dep_start.clear();
+    dep_entries.clear();
+    std::vector<int> dep;
+    for (Index k = 0; k < ns; ++k) {
+        dep_start.push_back(static_cast<int>(dep_entries.size()));
+        dep.clear();
+        for (int q = col_start[static_cast<std::size_t>(k)]; q < col_start[static_cast<std::size_t>(k) + 1]; ++q) {
+            const int c = col_entries[static_cast<std::size_t>(q)].index;
+            dep.insert(dep.end(), pattern[static_cast<std::size_t>(c)].begin(), pattern[static_cast<std::size_t>(c)].end());
+        }
+        std::sort(dep.begin(), dep.end());
+        dep.erase(std::unique(dep.begin(), dep.end()), dep.end());
+        dep_entries.insert(dep_entries.end(), dep.begin(), dep.end());
+    }
+    dep_start.push_back(static_cast<int>(dep_entries.size()));
+    dla_du.setZero();  // rows of columns no longer switched keep no stale entries
+    equations_changed();
 }
 
 void Problem::evaluate(const double* u, double* f, double* jac) const {
+    if (!jac && memo_valid && memo_stamp == stamp && memo_model == sys->model.get() &&
+        std::equal(u, u + n, memo_u.begin())) {
+        std::copy(memo_f.begin(), memo_f.end(), f);
+        return;
+    }
     const ChemicalSystem& s = *sys;
     const Index ns = static_cast<Index>(s.species.size());
     const double log_i = u[i_unknown];
@@ -172,7 +285,6 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
     // Log activity of each column, its d/dI part and (for the Jacobian) its d/du. Unswitched
     // columns first; a switched column follows from its basis species and the others.
     const Index nc = static_cast<Index>(s.columns.size());
-    if (jac) dla_du.setZero();
     for (Index c = 0; c < nc; ++c) {
         const ComponentColumn& col = s.columns[c];
         const int k = species_of_column[c];
@@ -210,27 +322,40 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
         const int k = basis_of_column[static_cast<std::size_t>(c)];
         const double self = s.nu(k, c);
         double v = u[s.columns[c].unknown] + lg(k) - s.log_k(k), dv = dlg(k);
-        if (jac) dla_du(c, s.columns[c].unknown) = 1.0;
-        for (Index c2 = 0; c2 < nc; ++c2) {
-            const double w = s.nu(k, c2);
-            if (c2 == c || w == 0.0) continue;
+        if (jac) {
+            for (int q = dla_pattern_start[c]; q < dla_pattern_start[c + 1]; ++q) dla_du(c, dla_pattern[q]) = 0.0;
+            dla_du(c, s.columns[c].unknown) = 1.0;
+        }
+        for (int q = col_start[k]; q < col_start[k + 1]; ++q) {
+            const auto [c2, w] = col_entries[static_cast<std::size_t>(q)];
+            if (c2 == c) continue;
             v -= w * la(c2);
             dv -= w * dla(c2);
-            if (jac) dla_du.row(c) -= w * dla_du.row(c2);
+            if (jac)
+                for (int r = dla_pattern_start[c2]; r < dla_pattern_start[c2 + 1]; ++r)
+                    dla_du(c, dla_pattern[r]) -= w * dla_du(c2, dla_pattern[r]);
         }
         la(c) = v / self;
         dla(c) = dv / self;
-        if (jac) dla_du.row(c) /= self;
+        if (jac)
+            for (int q = dla_pattern_start[c]; q < dla_pattern_start[c + 1]; ++q) dla_du(c, dla_pattern[q]) /= self;
     }
-    log_m = s.log_k + s.nu * la - lg;
-    for (Index k = 0; k < ns; ++k) m(k) = std::exp(ln10 * std::clamp(log_m(k), -300.0, 50.0));
-    // Residuals.
-    const VectorXd lin = weights.transpose() * m;
-    const double half_z2m = 0.5 * z2.dot(m);
-    const double sum_m = m.sum();
-    const Eigen::Map<const VectorXd> uv(u, static_cast<Index>(n));
-    VectorXd phase_part = coupling * uv;  // only phase columns of coupling are non-zero
-    VectorXd gas_moles(static_cast<Index>(closed.size()));
+    // Molalities and the balances, over each species' own columns and rows.
+    lin.setZero();
+    double half_z2m = 0.0, sum_m = 0.0;
+    for (Index k = 0; k < ns; ++k) {
+        double v = s.log_k(k) - lg(k);
+        for (int q = col_start[k]; q < col_start[k + 1]; ++q) v += col_entries[q].value * la(col_entries[q].index);
+        log_m(k) = v;
+        const double mk = std::exp(ln10 * std::clamp(v, -300.0, 50.0));
+        m(k) = mk;
+        for (int q = row_start[k]; q < row_start[k + 1]; ++q) lin(row_entries[q].index) += row_entries[q].value * mk;
+        half_z2m += 0.5 * z2(k) * mk;
+        sum_m += mk;
+    }
+    // Phase amounts move the balances (coupling is zero outside the phase columns).
+    phase_part.setZero();
+    for (const auto& ph : phases) phase_part += coupling.col(ph.unknown) * u[ph.unknown];
     for (std::size_t q = 0; q < closed.size(); ++q) {
         const double log_p = closed[q].nu.dot(la) - closed[q].log_k;
         gas_moles(static_cast<Index>(q)) = closed[q].mol_per_atm * std::exp(ln10 * std::clamp(log_p, -300.0, 30.0));
@@ -242,7 +367,7 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
             case Equation::mass:
             case Equation::alkalinity:
             case Equation::charge:
-                f[e] = (lin(r) - target[e]) / scale[e] + phase_part(r);
+                f[e] = lin(r) - target[e] / scale[e] + phase_part(r);
                 break;
             case Equation::ionic_strength:
                 f[e] = half_z2m / ionic - 1.0;
@@ -257,49 +382,67 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
             }
         }
     }
-    if (!jac) return;
-    // G = d log m / d u.
-    const VectorXd dlogm_di = s.nu * dla - dlg;  // per unit I
-    g.noalias() = s.nu * dla_du;
-    g.col(i_unknown) += dlogm_di * (ionic * ln10);
-    // Species outside the clamp do not move.
-    for (Index k = 0; k < ns; ++k)
-        if (log_m(k) > 50.0 || log_m(k) < -300.0) g.row(k).setZero();
-    // dm/du = diag(m ln10) G.
-    const MatrixXd dm = (m * ln10).asDiagonal() * g;
+    if (!jac) {
+        memo_u.assign(u, u + n);
+        memo_f.assign(f, f + n);
+        memo_stamp = stamp;
+        memo_model = s.model.get();
+        memo_valid = true;
+        return;
+    }
+    memo_valid = false;  // the work arrays now hold this point; the memo may be elsewhere
+    // J = d f / d u, species by species: d m_k / d u_j = m_k ln10 G(k, j), with G = d log m / d u
+    // non-zero only on the species' dependencies and on I.
     Eigen::Map<MatrixXd> J(jac, static_cast<Index>(n), static_cast<Index>(n));
-    J.noalias() = weights.transpose() * dm;
+    J.setZero();
+    const double di = ionic * ln10;  // d I / d log10 I
+    const double water_per_m = constants::water_molar_mass_kg / ln10;
+    for (Index k = 0; k < ns; ++k) {
+        if (log_m(k) > 50.0 || log_m(k) < -300.0) continue;  // outside the clamp it does not move
+        double g_i = -dlg(k);
+        for (int q = col_start[k]; q < col_start[k + 1]; ++q) g_i += col_entries[q].value * dla(col_entries[q].index);
+        g_i *= di;
+        for (int q = dep_start[k]; q < dep_start[k + 1]; ++q) {
+            const int j = dep_entries[q];
+            double g = 0.0;
+            for (int r = col_start[k]; r < col_start[k + 1]; ++r) g += col_entries[r].value * dla_du(col_entries[r].index, j);
+            g_row(j) = g;
+        }
+        const double dm = m(k) * ln10;
+        auto add_row = [&](Index e, double w) {
+            const double a = w * dm;
+            for (int q = dep_start[k]; q < dep_start[k + 1]; ++q) J(e, dep_entries[q]) += a * g_row(dep_entries[q]);
+            J(e, i_unknown) += a * g_i;
+        };
+        for (int q = row_start[k]; q < row_start[k + 1]; ++q) add_row(row_entries[q].index, row_entries[q].value);
+        add_row(i_unknown, 0.5 * z2(k) / ionic);
+        add_row(w_unknown, water_per_m);
+    }
+    J(i_unknown, i_unknown) -= half_z2m / ionic * ln10;
+    J(w_unknown, w_unknown) += 1.0;
+    for (const auto& ph : phases) J.col(ph.unknown) += coupling.col(ph.unknown);
     for (std::size_t e = 0; e < n; ++e) {
         const Index r = static_cast<Index>(e);
         switch (equation[e]) {
             case Equation::mass:
             case Equation::alkalinity:
             case Equation::charge:
-                J.row(r) /= scale[e];
-                J.row(r) += coupling.row(r);
                 for (std::size_t q = 0; q < closed.size(); ++q) {
                     const double w = closed_weight(r, static_cast<Index>(q));
                     if (w == 0.0) continue;
                     // d n/du = n ln10 d(log p)/du, with d(log p)/du as for a phase row.
                     const double k = w * gas_moles(static_cast<Index>(q)) * ln10;
                     J.row(r) += k * (closed[q].nu * dla_du);
-                    J(r, i_unknown) += k * closed[q].nu.dot(dla) * ionic * ln10;
+                    J(r, i_unknown) += k * closed[q].nu.dot(dla) * di;
                 }
-                break;
-            case Equation::ionic_strength:
-                J.row(r) = (0.5 * z2.transpose() * dm) / ionic;
-                J(r, i_unknown) -= half_z2m / ionic * ln10;
-                break;
-            case Equation::water:
-                J.row(r) = dm.colwise().sum() * (constants::water_molar_mass_kg / ln10);
-                J(r, w_unknown) += 1.0;
                 break;
             case Equation::phase: {
                 const PhaseUnknown& ph = phases[static_cast<std::size_t>(phase_of_unknown[e])];
                 J.row(r) = ph.nu * dla_du;
-                J(r, i_unknown) += ph.nu.dot(dla) * ionic * ln10;
+                J(r, i_unknown) += ph.nu.dot(dla) * di;
                 break;
             }
+            default: break;
         }
     }
 }
@@ -307,8 +450,7 @@ void Problem::evaluate(const double* u, double* f, double* jac) const {
 // --- KINSOL glue -------------------------------------------------------------------------
 
 struct KinsolUserData {
-    const Problem* problem;
-    std::vector<double> jac_buffer;
+    const Problem* problem = nullptr;
     std::string last_message;
 };
 
@@ -321,17 +463,69 @@ int kin_residual(N_Vector u, N_Vector f, void* user) {
     return 0;
 }
 
-int kin_jacobian(N_Vector u, N_Vector /*fu*/, SUNMatrix J, void* user, N_Vector, N_Vector) {
+int kin_jacobian(N_Vector u, N_Vector /*fu*/, SUNMatrix J, void* user, N_Vector scratch, N_Vector) {
     auto* d = static_cast<KinsolUserData*>(user);
     const std::size_t n = d->problem->n;
-    d->jac_buffer.resize(n * n);
-    std::vector<double> f(n);
-    d->problem->evaluate(N_VGetArrayPointer(u), f.data(), d->jac_buffer.data());
-    // Both Eigen and SUNDIALS dense matrices are column-major with leading dimension n.
-    std::memcpy(SUNDenseMatrix_Data(J), d->jac_buffer.data(), n * n * sizeof(double));
-    for (double v : d->jac_buffer)
-        if (!std::isfinite(v)) return 1;
+    // A SUNDIALS dense matrix is column-major with leading dimension n, as Eigen's.
+    double* jac = SUNDenseMatrix_Data(J);
+    d->problem->evaluate(N_VGetArrayPointer(u), N_VGetArrayPointer(scratch), jac);
+    for (std::size_t i = 0; i < n * n; ++i)
+        if (!std::isfinite(jac[i])) return 1;
     return 0;
+}
+
+// The linear solver behind KINSOL's SUNLinearSolver interface: Eigen's LU with partial
+// pivoting on storage sized once, so a Newton iteration allocates nothing.
+struct EigenLu {
+    explicit EigenLu(Index size) : lu(size), copy(size), n(size) {}
+    Eigen::PartialPivLU<MatrixXd> lu;
+    VectorXd copy;  // the right-hand side, when KINSOL solves in place
+    Index n;
+};
+
+SUNLinearSolver_Type eigen_lu_type(SUNLinearSolver) { return SUNLINEARSOLVER_DIRECT; }
+SUNLinearSolver_ID eigen_lu_id(SUNLinearSolver) { return SUNLINEARSOLVER_CUSTOM; }
+
+int eigen_lu_setup(SUNLinearSolver S, SUNMatrix A) {
+    auto* c = static_cast<EigenLu*>(S->content);
+    c->lu.compute(Eigen::Map<const MatrixXd>(SUNDenseMatrix_Data(A), c->n, c->n));
+    // A zero or non-finite pivot: singular, which KINSOL may recover from (a fresh Jacobian).
+    const auto pivots = c->lu.matrixLU().diagonal();
+    for (Index i = 0; i < c->n; ++i)
+        if (!(std::abs(pivots(i)) > 0.0) || !std::isfinite(pivots(i))) return SUNLS_LUFACT_FAIL;
+    return SUNLS_SUCCESS;
+}
+
+int eigen_lu_solve(SUNLinearSolver S, SUNMatrix, N_Vector x, N_Vector b, realtype) {
+    auto* c = static_cast<EigenLu*>(S->content);
+    Eigen::Map<VectorXd> xv(N_VGetArrayPointer(x), c->n);
+    if (x == b) {
+        c->copy = xv;
+        xv = c->lu.solve(c->copy);
+    } else {
+        xv = c->lu.solve(Eigen::Map<const VectorXd>(N_VGetArrayPointer(b), c->n));
+    }
+    return SUNLS_SUCCESS;
+}
+
+int eigen_lu_free(SUNLinearSolver S) {
+    if (!S) return 0;
+    delete static_cast<EigenLu*>(S->content);
+    S->content = nullptr;
+    SUNLinSolFreeEmpty(S);
+    return 0;
+}
+
+SUNLinearSolver make_eigen_lu(Index n, SUNContext ctx) {
+    SUNLinearSolver S = SUNLinSolNewEmpty(ctx);
+    if (!S) return nullptr;
+    S->ops->gettype = eigen_lu_type;
+    S->ops->getid = eigen_lu_id;
+    S->ops->setup = eigen_lu_setup;
+    S->ops->solve = eigen_lu_solve;
+    S->ops->free = eigen_lu_free;
+    S->content = new EigenLu(n);
+    return S;
 }
 
 void kin_silent_errors(int /*code*/, const char* /*module*/, const char* /*function*/, char* msg, void* user) {
@@ -370,12 +564,17 @@ struct AttemptOutcome {
 double max_abs_residual(const Problem& p, const std::vector<double>& u) {
     std::vector<double> f(p.n);
     p.evaluate(u.data(), f.data(), nullptr);
-    const VectorXd size = p.weights.cwiseAbs().transpose() * p.m;
+    std::vector<double> size(p.n, 0.0);  // sum of |terms| of each balance
+    for (Index k = 0; k < p.m.size(); ++k)
+        for (int q = p.row_start[static_cast<std::size_t>(k)]; q < p.row_start[static_cast<std::size_t>(k) + 1]; ++q) {
+            const auto& entry = p.row_entries[static_cast<std::size_t>(q)];
+            size[static_cast<std::size_t>(entry.index)] += std::abs(entry.value) * p.m(k);
+        }
     double r = 0.0;
     for (std::size_t e = 0; e < p.n; ++e) {
         double v = f[e];
         if (p.equation[e] == Equation::mass || p.equation[e] == Equation::alkalinity || p.equation[e] == Equation::charge) {
-            const double denom = std::max({size(static_cast<Index>(e)), std::abs(p.target[e]), 1e-300});
+            const double denom = std::max({size[e] * p.scale[e], std::abs(p.target[e]), 1e-300});
             v = f[e] * p.scale[e] / denom;
         }
         r = std::max(r, std::isfinite(v) ? std::abs(v) : std::numeric_limits<double>::infinity());
@@ -388,69 +587,105 @@ bool meets_tolerance(double residual, const SolverOptions& opt) {
     return std::isfinite(residual) && residual <= std::max(opt.tolerance, 1e-300) * opt.accept_factor;
 }
 
+// KINSOL's memory, vectors, matrix and linear solver for systems of one size, made once per
+// thread and size and reused by every solve after it (making them anew cost about a tenth of
+// a solve). Nothing here is shared between threads.
+class NewtonWorkspace {
+public:
+    explicit NewtonWorkspace(std::size_t size) : n(size) {
+        if (SUNContext_Create(nullptr, &ctx) != 0) return;
+        const auto m = static_cast<sunindextype>(n);
+        x = N_VNew_Serial(m, ctx);
+        scale = N_VNew_Serial(m, ctx);
+        J = SUNDenseMatrix(m, m, ctx);
+        LS = make_eigen_lu(static_cast<Index>(n), ctx);
+        mem = KINCreate(ctx);
+        if (!x || !scale || !J || !LS || !mem) return;
+        N_VConst(1.0, scale);
+        ok = KINInit(mem, kin_residual, x) == KIN_SUCCESS && KINSetErrHandlerFn(mem, kin_silent_errors, &data) == KIN_SUCCESS &&
+             KINSetUserData(mem, &data) == KIN_SUCCESS && KINSetLinearSolver(mem, LS, J) == KIN_SUCCESS &&
+             KINSetJacFn(mem, kin_jacobian) == KIN_SUCCESS &&
+             KINSetMaxSetupCalls(mem, 1) == KIN_SUCCESS &&  // exact Newton: a fresh Jacobian every iteration
+             KINSetPrintLevel(mem, 0) == KIN_SUCCESS;
+    }
+    NewtonWorkspace(const NewtonWorkspace&) = delete;
+    NewtonWorkspace& operator=(const NewtonWorkspace&) = delete;
+    ~NewtonWorkspace() {
+        if (mem) KINFree(&mem);
+        if (LS) SUNLinSolFree(LS);
+        if (J) SUNMatDestroy(J);
+        if (scale) N_VDestroy(scale);
+        if (x) N_VDestroy(x);
+        if (ctx) SUNContext_Free(&ctx);
+    }
+
+    std::size_t n;
+    bool ok = false;
+    SUNContext ctx = nullptr;
+    N_Vector x = nullptr, scale = nullptr;
+    SUNMatrix J = nullptr;
+    SUNLinearSolver LS = nullptr;
+    void* mem = nullptr;
+    KinsolUserData data;
+};
+
+NewtonWorkspace& workspace_for(std::size_t n) {
+    thread_local std::vector<std::unique_ptr<NewtonWorkspace>> by_size;
+    if (by_size.size() <= n) by_size.resize(n + 1);
+    if (!by_size[n] || !by_size[n]->ok) by_size[n] = std::make_unique<NewtonWorkspace>(n);
+    return *by_size[n];
+}
+
 // One KINSOL run from u (updated in place).
 AttemptOutcome run_kinsol(const Problem& p, std::vector<double>& u, const SolverOptions& opt) {
     AttemptOutcome out;
-    SUNContext ctx = nullptr;
-    if (SUNContext_Create(nullptr, &ctx) != 0) {
-        out.reason = "could not create a SUNDIALS context";
+    NewtonWorkspace& w = workspace_for(p.n);
+    if (!w.ok) {
+        out.reason = "could not set up KINSOL";
         return out;
     }
-    const auto n = static_cast<sunindextype>(p.n);
-    N_Vector x = N_VNew_Serial(n, ctx);
-    N_Vector scale = N_VNew_Serial(n, ctx);
-    SUNMatrix J = SUNDenseMatrix(n, n, ctx);
-    SUNLinearSolver LS = SUNLinSol_Dense(x, J, ctx);
-    void* mem = KINCreate(ctx);
-    KinsolUserData data{&p, {}, {}};
-    std::copy(u.begin(), u.end(), N_VGetArrayPointer(x));
-    N_VConst(1.0, scale);
-
-    int flag = KINInit(mem, kin_residual, x);
-    if (flag == KIN_SUCCESS) {
-        KINSetErrHandlerFn(mem, kin_silent_errors, &data);
-        KINSetUserData(mem, &data);
-        KINSetLinearSolver(mem, LS, J);
-        KINSetJacFn(mem, kin_jacobian);
-        KINSetFuncNormTol(mem, opt.tolerance);
-        KINSetScaledStepTol(mem, opt.step_tolerance);
-        KINSetNumMaxIters(mem, opt.max_iterations);
-        KINSetMaxSetupCalls(mem, 1);  // exact Newton: a fresh Jacobian every iteration
-        KINSetMaxNewtonStep(mem, opt.max_step_log10 * std::sqrt(static_cast<double>(p.n)));
-        KINSetPrintLevel(mem, 0);
-        flag = KINSol(mem, x, KIN_LINESEARCH, scale, scale);
-        // KINSOL's norm can meet its tolerance while a balance, judged against the size of its
-        // own terms, does not yet: tighten and go on from there.
-        for (int tighten = 0; tighten < 2 && (flag == KIN_SUCCESS || flag == KIN_INITIAL_GUESS_OK); ++tighten) {
-            const double* xv0 = N_VGetArrayPointer(x);
-            if (meets_tolerance(max_abs_residual(p, std::vector<double>(xv0, xv0 + p.n)), opt)) break;
-            KINSetFuncNormTol(mem, opt.tolerance * std::pow(1e-4, tighten + 1));
-            flag = KINSol(mem, x, KIN_LINESEARCH, scale, scale);
-        }
+    void* mem = w.mem;
+    w.data.problem = &p;
+    w.data.last_message.clear();
+    std::copy(u.begin(), u.end(), N_VGetArrayPointer(w.x));
+    KINSetFuncNormTol(mem, opt.tolerance);
+    KINSetScaledStepTol(mem, opt.step_tolerance);
+    KINSetNumMaxIters(mem, opt.max_iterations);
+    KINSetMaxNewtonStep(mem, opt.max_step_log10 * std::sqrt(static_cast<double>(p.n)));
+    int flag = KINSol(mem, w.x, KIN_LINESEARCH, w.scale, w.scale);
+    long iterations = 0, evaluations = 0;
+    auto tally = [&] {
         long nni = 0, nfe = 0;
         KINGetNumNonlinSolvIters(mem, &nni);
         KINGetNumFuncEvals(mem, &nfe);
-        out.iterations = nni;
-        out.evaluations = nfe;
-    }
-    const double* xv = N_VGetArrayPointer(x);
+        iterations += nni;
+        evaluations += nfe;
+    };
+    tally();
+    const double* xv = N_VGetArrayPointer(w.x);
     std::vector<double> candidate(xv, xv + p.n);
-    const double r = max_abs_residual(p, candidate);
+    double r = max_abs_residual(p, candidate);
+    // KINSOL's norm can meet its tolerance while a balance, judged against the size of its
+    // own terms, does not yet: tighten and go on from there.
+    for (int tighten = 0; tighten < 2 && (flag == KIN_SUCCESS || flag == KIN_INITIAL_GUESS_OK) && !meets_tolerance(r, opt);
+         ++tighten) {
+        KINSetFuncNormTol(mem, opt.tolerance * std::pow(1e-4, tighten + 1));
+        flag = KINSol(mem, w.x, KIN_LINESEARCH, w.scale, w.scale);
+        tally();
+        candidate.assign(xv, xv + p.n);
+        r = max_abs_residual(p, candidate);
+    }
+    out.iterations = iterations;
+    out.evaluations = evaluations;
     out.residual = r;
     out.reason = kinsol_flag_text(flag);
-    out.message = data.last_message;
+    out.message = w.data.last_message;
     if ((flag == KIN_SUCCESS || flag == KIN_INITIAL_GUESS_OK) && !meets_tolerance(r, opt))
         out.reason = "the Newton residual met its tolerance but a balance, against the size of its own terms, did not";
     // Accept on our own measure: KINSOL may stop on a tiny step with the residual already met.
     out.converged = meets_tolerance(r, opt);
     if (out.converged || std::isfinite(r)) u = candidate;
-
-    KINFree(&mem);
-    SUNLinSolFree(LS);
-    SUNMatDestroy(J);
-    N_VDestroy(scale);
-    N_VDestroy(x);
-    SUNContext_Free(&ctx);
+    w.data.problem = nullptr;
     return out;
 }
 
@@ -785,8 +1020,11 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
     p.dlg.resize(ns);
     p.la.resize(static_cast<Index>(ncol));
     p.dla.resize(static_cast<Index>(ncol));
-    p.g.resize(ns, nu);
     p.dla_du.resize(static_cast<Index>(ncol), nu);
+    p.lin.resize(nu);
+    p.phase_part.resize(nu);
+    p.g_row.setZero(nu);
+    p.gas_moles.resize(static_cast<Index>(p.closed.size()));
     p.basis_of_column = p.species_of_column;
     p.basis_candidates.assign(ncol, {});
     for (std::size_t c = 0; c < ncol; ++c) {
@@ -807,6 +1045,7 @@ Layout make_layout(const thermo::Database& db, ChemicalSystem& sys, const Specia
     p.closed_weight0 = p.closed_weight;
     p.target0 = p.target;
     p.scale0 = p.scale;
+    p.compile_structure();
     return L;
 }
 
@@ -1320,11 +1559,68 @@ void check_redox_level(const SpeciationInput& input, SpeciationResult& res) {
 }
 
 // The whole solve; `probe` (tests only) receives the final problem at the solution.
+// Systems built for the embedded database, kept per thread for the next solve with the same
+// columns, temperature and activity model (building one scans the whole database and
+// evaluates every log K(T)). A solve borrows its system and gives it back when it is done; a
+// solve nested in another (explain_no_solution) builds its own. A user's database is not
+// cached: it may be freed and another loaded at the same address.
+struct CachedSystem {
+    double temperature_c;
+    activity::ModelKind model;
+    std::vector<ComponentColumn> columns;
+    std::shared_ptr<ChemicalSystem> system;
+};
+constexpr std::size_t system_cache_size = 16;
+thread_local std::vector<CachedSystem> system_cache;  // most recently used last
+
+bool same_columns(const std::vector<ComponentColumn>& a, const std::vector<ComponentColumn>& b) {
+    if (a.size() != b.size()) return false;
+    for (std::size_t c = 0; c < a.size(); ++c)
+        if (a[c].component != b[c].component || a[c].role != b[c].role || a[c].split_of != b[c].split_of) return false;
+    return true;
+}
+
+struct BorrowedSystem {
+    BorrowedSystem(const thermo::Database& db, const SpeciationInput& input)
+        : cacheable(&db == &thermo::Database::embedded()), exceptions(std::uncaught_exceptions()) {
+        std::vector<ComponentColumn> columns = system_columns(db, input);
+        if (cacheable)
+            for (auto it = system_cache.begin(); it != system_cache.end(); ++it)
+                if (it->temperature_c == input.temperature_c && it->model == input.activity_model &&
+                    same_columns(it->columns, columns)) {
+                    system = std::move(it->system);
+                    system_cache.erase(it);
+                    break;
+                }
+        if (!system) system = std::make_shared<ChemicalSystem>(build_system(db, input, columns));
+        temperature_c = input.temperature_c;
+        model = input.activity_model;
+        key_columns = std::move(columns);
+    }
+    BorrowedSystem(const BorrowedSystem&) = delete;
+    BorrowedSystem& operator=(const BorrowedSystem&) = delete;
+    ~BorrowedSystem() {
+        // Not after an exception (the fallback may have swapped the activity model), and not
+        // while a probe still holds it.
+        if (!cacheable || std::uncaught_exceptions() > exceptions || system.use_count() != 1) return;
+        if (system_cache.size() >= system_cache_size) system_cache.erase(system_cache.begin());
+        system_cache.push_back({temperature_c, model, std::move(key_columns), std::move(system)});
+    }
+
+    bool cacheable;
+    int exceptions;
+    double temperature_c = 0.0;
+    activity::ModelKind model{};
+    std::vector<ComponentColumn> key_columns;
+    std::shared_ptr<ChemicalSystem> system;
+};
+
 SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput& input, const SolverOptions& options,
                                const SpeciationResult* start, internal::EquationProbe* probe) {
     const auto t_begin = std::chrono::steady_clock::now();
     validate_input(db, input);
-    const auto sys_holder = std::make_shared<ChemicalSystem>(build_system(db, input));
+    BorrowedSystem borrowed(db, input);
+    const std::shared_ptr<ChemicalSystem>& sys_holder = borrowed.system;
     ChemicalSystem& sys = *sys_holder;
 
     std::vector<MineralState> minerals;
@@ -1614,10 +1910,15 @@ SpeciationResult speciate_impl(const thermo::Database& db, const SpeciationInput
     return res;
 }
 
+std::atomic<std::uint64_t> speciations_run{0};
+
 }  // namespace
+
+std::uint64_t speciation_count() { return speciations_run.load(std::memory_order_relaxed); }
 
 SpeciationResult speciate(const thermo::Database& db, const SpeciationInput& input,
                           const SolverOptions& options, const SpeciationResult* start) {
+    speciations_run.fetch_add(1, std::memory_order_relaxed);
     return speciate_impl(db, input, options, start, nullptr);
 }
 

@@ -33,16 +33,13 @@ std::string join_names(const std::vector<std::string>& names, std::size_t max_li
 
 }  // namespace
 
-ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& input) {
-    ChemicalSystem sys;
-    sys.db = &db;
-    sys.temperature_c = input.temperature_c;
+std::vector<ComponentColumn> system_columns(const thermo::Database& db, const SpeciationInput& input) {
+    std::vector<ComponentColumn> columns;
     const std::size_t nc = db.component_count();
-
     std::vector<int> column(nc, -1);
     auto add_column = [&](std::size_t comp, ComponentColumn::Role role) {
-        column[comp] = static_cast<int>(sys.columns.size());
-        sys.columns.push_back({comp, role, -1});
+        column[comp] = static_cast<int>(columns.size());
+        columns.push_back({comp, role, -1});
     };
     add_column(db.water(), ComponentColumn::Role::water);
     add_column(db.proton(), input.ph ? ComponentColumn::Role::proton_fixed : ComponentColumn::Role::proton_unknown);
@@ -52,8 +49,8 @@ ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& i
         if (column[ci.component] < 0) add_column(ci.component, ComponentColumn::Role::unknown);
     std::vector<int> split_column(nc, -1);  // per split component: its electron column
     for (const auto& sp : input.redox_splits) {
-        split_column[sp.component] = static_cast<int>(sys.columns.size());
-        sys.columns.push_back({*db.electron(), ComponentColumn::Role::split_electron, -1, sp.component});
+        split_column[sp.component] = static_cast<int>(columns.size());
+        columns.push_back({*db.electron(), ComponentColumn::Role::split_electron, -1, sp.component});
     }
     if (input.charge_balance_component && column[*input.charge_balance_component] < 0)
         add_column(*input.charge_balance_component, ComponentColumn::Role::unknown);
@@ -75,6 +72,21 @@ ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& i
     for (const auto& g : input.gases) add_phase_columns(db.gases()[g.gas]);
     if (input.headspace)
         for (const auto& g : input.headspace->gases) add_phase_columns(db.gases()[g.gas]);
+    return columns;
+}
+
+ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& input,
+                            std::vector<ComponentColumn> columns) {
+    ChemicalSystem sys;
+    sys.db = &db;
+    sys.temperature_c = input.temperature_c;
+    sys.columns = std::move(columns);
+    const std::size_t nc = db.component_count();
+    std::vector<int> column(nc, -1), split_column(nc, -1);
+    for (std::size_t c = 0; c < sys.columns.size(); ++c) {
+        if (sys.columns[c].role == ComponentColumn::Role::split_electron) split_column[sys.columns[c].split_of] = static_cast<int>(c);
+        else column[sys.columns[c].component] = static_cast<int>(c);
+    }
 
     // Species in play: every species whose formation uses only columns present.
     std::vector<std::string> redox_left_out, outside_range, constant_in_t;
@@ -145,6 +157,10 @@ ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& i
         sys.warnings.push_back("log K taken as constant (the database gives no temperature dependence) for " +
                                join_names(constant_in_t));
     return sys;
+}
+
+ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& input) {
+    return build_system(db, input, system_columns(db, input));
 }
 
 }  // namespace deltag::equilibrium

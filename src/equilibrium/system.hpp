@@ -51,7 +51,15 @@ struct ChemicalSystem {
     int column_for(std::size_t j, const thermo::Stoichiometry& st) const;
 };
 
-// Builds the system for the components present in `input`.
+// The columns a solve of `input` needs, in order: water, H+, e- (when a pe is given or the
+// electrons are conserved), the components given, each split element's electrons, the
+// charge-balance component, and components only a mineral or gas brings in. Throws
+// InputError for a phase that needs e- when no pe is given.
+std::vector<ComponentColumn> system_columns(const thermo::Database& db, const SpeciationInput& input);
+
+// Builds the system for the components present in `input` (on the given columns).
+ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& input,
+                            std::vector<ComponentColumn> columns);
 ChemicalSystem build_system(const thermo::Database& db, const SpeciationInput& input);
 
 }  // namespace deltag::equilibrium
